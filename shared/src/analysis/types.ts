@@ -1,0 +1,128 @@
+// Results of the exact small-signal analysis. Everything is SI (rad/s for roots, Hz where named `…Hz`).
+import type { NodeName } from '../language/model';
+
+export interface Complex {
+  readonly re: number;
+  readonly im: number;
+}
+
+/** A node's share of one pole, from the right and left eigenvectors of the nodal pencil. */
+export interface Participation {
+  readonly node: string;
+  /** |p_i| / Σ|p_j|, between 0 and 1. */
+  readonly share: number;
+}
+
+export interface Pole {
+  /** The natural frequency in rad/s (negative real part when stable). */
+  readonly s: Complex;
+  /** |s| / 2π. */
+  readonly hz: number;
+  /** Damping ratio −re/|s| (1 for a real LHP pole, negative when unstable). */
+  readonly damping: number;
+  /** Sorted by share, largest first; internal nodes (e.g. a buffer's input) appear with their own names. */
+  readonly participation: readonly Participation[];
+  /** The node holding ≥ 80 % of the pole, or `shared` when none does. */
+  readonly namedAfter: string | 'shared';
+}
+
+export interface Zero {
+  readonly s: Complex;
+  readonly hz: number;
+  /** True when re(s) > 0 (a right-half-plane zero). */
+  readonly rhp: boolean;
+}
+
+/** One unity crossing of |L(jω)|. */
+export interface Crossing {
+  readonly hz: number;
+  readonly direction: 'down' | 'up';
+  /** Phase of L at the crossing in degrees, unwrapped from DC (0° at DC for negative feedback). */
+  readonly phaseDeg: number;
+}
+
+export interface LoopMetrics {
+  /** Loop gain at DC, β·|A(0)|, as V/V. */
+  readonly dcGain: number;
+  /** Every unity crossing of the loop gain, lowest frequency first. */
+  readonly crossings: readonly Crossing[];
+  /** The last downward crossing: the loop's unity-gain frequency. Absent when |L| never reaches 1. */
+  readonly ugfHz?: number;
+  /** 180° + phase at the last downward crossing. */
+  readonly phaseMarginDeg?: number;
+  /** −|L| in dB where the phase crosses −180° (the lowest such frequency). Absent when it never does. */
+  readonly gainMarginDb?: number;
+  readonly phaseCrossoverHz?: number;
+  /** Peak of the closed-loop magnitude above its DC value, in dB (0 when there is no peak). */
+  readonly peakingDb: number;
+}
+
+export interface StepResponse {
+  /** Seconds. */
+  readonly t: readonly number[];
+  /** Closed-loop output for a unit input step. */
+  readonly y: readonly number[];
+  readonly final: number;
+  /** Percent above final value (0 when monotone). */
+  readonly overshootPct: number;
+  /** Time to enter and stay in ±tolerance of final, for the tolerance asked; absent when it never settles. */
+  readonly settlingTime?: number;
+  readonly tolerance: number;
+}
+
+export interface SlewEstimate {
+  /** V/s: the smallest of the node slew limits. */
+  readonly rate: number;
+  /** Each stage whose bias is given: its current, the capacitance it must charge, and I/C. */
+  readonly limits: readonly { readonly stage: NodeName; readonly current: number; readonly cap: number; readonly rate: number }[];
+}
+
+/** A classic hand formula beside the exact value it approximates. */
+export interface HandEstimate {
+  readonly quantity: 'dominant-pole' | 'nondominant-pole' | 'zero';
+  readonly formula: string;
+  /** rad/s magnitude from the formula (Infinity for a zero at infinity). */
+  readonly hand: number;
+  /** rad/s magnitude of the exact root it corresponds to. */
+  readonly exact: number;
+  /** |hand − exact| / |exact|. */
+  readonly relativeError: number;
+}
+
+/** Why a network could not be analysed: a modelling error that the user must fix, located by node. */
+export interface AnalysisProblem {
+  readonly message: string;
+  readonly node?: string;
+}
+
+export interface DesignAnalysis {
+  readonly poles: readonly Pole[];
+  readonly zeros: readonly Zero[];
+  /** Open-loop DC gain from input to output, signed V/V. */
+  readonly dcGain: number;
+  /** Unity-gain frequency of the open-loop gain A(jω) (Hz), when it has one. */
+  readonly openLoopUgfHz?: number;
+  readonly loop: LoopMetrics;
+  readonly step?: StepResponse;
+  readonly slew?: SlewEstimate;
+  /** Present for designs that are the classic two-stage Miller case. */
+  readonly hand?: readonly HandEstimate[];
+  /** Non-empty when the network could not be solved; other fields are then empty. */
+  readonly problems: readonly AnalysisProblem[];
+}
+
+/** Poles and zeros at one value of a swept component. */
+export interface LocusPoint {
+  readonly value: number;
+  readonly poles: readonly Complex[];
+  readonly zeros: readonly Complex[];
+}
+
+export type SynthesisResult =
+  | { readonly ok: true; readonly value: number; readonly achieved: number; readonly note?: string }
+  | { readonly ok: false; readonly reason: string };
+
+/** Cooperative cancellation: long loops check this between steps and stop early. */
+export interface CancelToken {
+  readonly isCancellationRequested: boolean;
+}

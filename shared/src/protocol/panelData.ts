@@ -1,0 +1,75 @@
+// The panel's data, computed by the engine in the server and drawn by the webview. Plain JSON only.
+import type { Complex, Crossing, Participation } from '../analysis/types';
+
+export const CAUTION =
+  'Small-signal, linear estimates at one operating point. They guide compensation choices; they do not ' +
+  'replace transistor-level simulation across process, voltage and temperature, nor your sign-off practice.';
+
+export interface PanelPole {
+  readonly s: Complex;
+  readonly hz: number;
+  readonly damping: number;
+  readonly namedAfter: string;
+  readonly participation: readonly Participation[];
+}
+
+export interface PanelZero {
+  readonly s: Complex;
+  readonly hz: number;
+  readonly rhp: boolean;
+}
+
+/** One branch of the pole-split locus: magnitudes (Hz) of the k-th pole (sorted by magnitude) against Cc. */
+export interface LocusSeries {
+  readonly label: string;
+  /** Farads; the first point is Cc = 0 (uncompensated), drawn at the axis' left edge. */
+  readonly cc: readonly number[];
+  readonly hz: readonly number[];
+}
+
+export interface PanelData {
+  readonly uri: string;
+  readonly design: string;
+  /** The Miller (or buffered) capacitor the sweep varies, and its value as written (F). */
+  readonly compensation?: {
+    readonly kind: 'miller' | 'buffered';
+    readonly index: number;
+    readonly ccWritten: number;
+    readonly rzWritten?: number;
+  };
+  /** The values the charts show (the slider's, when one is moved; else as written). */
+  readonly cc?: number;
+  readonly rz?: number;
+  readonly poles: readonly PanelPole[];
+  readonly zeros: readonly PanelZero[];
+  readonly locus: {
+    readonly poles: readonly LocusSeries[];
+    readonly zeros: readonly LocusSeries[];
+  };
+  readonly bode: {
+    readonly hz: readonly number[];
+    readonly magDb: readonly number[];
+    readonly phaseDeg: readonly number[];
+    readonly ugfHz?: number;
+    readonly phaseMarginDeg?: number;
+    readonly crossings: readonly Crossing[];
+  };
+  readonly step: {
+    readonly t: readonly number[];
+    readonly y: readonly number[];
+    readonly final: number;
+    readonly tolerance: number;
+    readonly settlingTime?: number;
+    readonly overshootPct: number;
+  };
+  readonly summary: {
+    readonly ugfHz?: number;
+    readonly phaseMarginDeg?: number;
+    readonly gainMarginDb?: number;
+    readonly dcGainDb: number;
+    readonly slewVperUs?: number;
+  };
+  /** Modelling problems that stopped the analysis (then the charts are empty). */
+  readonly problems: readonly string[];
+  readonly caution: string;
+}

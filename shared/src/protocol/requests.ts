@@ -1,0 +1,45 @@
+// Custom LSP requests and notifications between client and server: method name beside its types.
+import type { PanelData } from './panelData';
+
+export const PanelDataRequest = {
+  method: 'ampnote/panelData',
+} as const;
+export interface PanelDataParams {
+  readonly uri: string;
+  /** Design name; when absent, the design containing `position`, else the first design. */
+  readonly design?: string;
+  readonly position?: { readonly line: number; readonly character: number };
+  /** Values from the panel's sliders, overriding the compensation as written (F, ohm). */
+  readonly cc?: number;
+  readonly rz?: number;
+}
+export type PanelDataResult = PanelData | null;
+
+/** The status bar's summary of the design under the cursor. */
+export const DesignSummaryRequest = {
+  method: 'ampnote/designSummary',
+} as const;
+export interface DesignSummaryParams {
+  readonly uri: string;
+  readonly position: { readonly line: number; readonly character: number };
+}
+export type DesignSummaryResult = {
+  readonly design: string;
+  readonly ugfHz?: number;
+  readonly phaseMarginDeg?: number;
+  readonly worstCorner?: string;
+} | null;
+
+/** The edit that writes a value chosen in the panel into the file (an ordinary, undoable edit). */
+export const CompensationEditRequest = {
+  method: 'ampnote/compensationEdit',
+} as const;
+export interface CompensationEditParams {
+  readonly uri: string;
+  readonly design: string;
+  readonly cc?: number;
+  readonly rz?: number;
+}
+export type CompensationEditResult = {
+  readonly edits: readonly { readonly range: { start: { line: number; character: number }; end: { line: number; character: number } }; readonly newText: string }[];
+} | null;

@@ -1,0 +1,23 @@
+// Messages between the extension host and the panel's webview, typed once for both sides.
+import type { PanelData } from './panelData';
+
+export type HostToWebview =
+  | { readonly type: 'data'; readonly data: PanelData | null }
+  | { readonly type: 'theme' }
+  | { readonly type: 'restore'; readonly state: PanelState };
+
+export type WebviewToHost =
+  | { readonly type: 'ready' }
+  | { readonly type: 'slider'; readonly cc?: number; readonly rz?: number }
+  | { readonly type: 'apply'; readonly cc?: number; readonly rz?: number }
+  | { readonly type: 'exportCsv'; readonly chart: ChartId; readonly csv: string }
+  | { readonly type: 'exportPng'; readonly chart: ChartId; readonly dataUrl: string };
+
+export type ChartId = 'locus' | 'bode' | 'step' | 'splane';
+
+/** What the webview keeps across hide/show (vscode.setState). */
+export interface PanelState {
+  readonly selected: ChartId;
+  readonly cc?: number;
+  readonly rz?: number;
+}

@@ -1,0 +1,47 @@
+// The document-level result that the server, the CLI and the tests all read: produced by analyzeDocument().
+import type { DesignAnalysis } from './analysis/types';
+import type { Finding } from './checks/types';
+import type { DesignModel, DesignSource, ParsedDocument } from './language/model';
+
+/** One analysed variant of a design. `corner` is `nominal` for the nominal model. */
+export interface CornerRun {
+  readonly corner: string;
+  readonly model: DesignModel;
+  readonly analysis: DesignAnalysis;
+}
+
+/** The worst value of one quantity over the corners, and the corner that sets it. */
+export interface Worst {
+  readonly value: number;
+  readonly corner: string;
+}
+
+export interface WorstCase {
+  /** Lowest phase margin (deg). */
+  readonly phaseMarginDeg?: Worst;
+  /** Lowest loop unity-gain frequency (Hz). */
+  readonly ugfHz?: Worst;
+  /** Lowest gain margin (dB). */
+  readonly gainMarginDb?: Worst;
+  /** Lowest slew rate (V/s). */
+  readonly slew?: Worst;
+  /** Longest settling time (s). */
+  readonly settlingTime?: Worst;
+  /** Lowest open-loop DC gain magnitude (dB). */
+  readonly dcGainDb?: Worst;
+}
+
+export interface DesignReport {
+  readonly source: DesignSource;
+  /** Nominal first, then each corner that evaluated. */
+  readonly runs: readonly CornerRun[];
+  readonly worst: WorstCase;
+  readonly findings: readonly Finding[];
+}
+
+export interface DocumentReport {
+  readonly parsed: ParsedDocument;
+  readonly designs: readonly DesignReport[];
+  /** Every finding in the document: language diagnostics first, then each design's checks. */
+  readonly findings: readonly Finding[];
+}
