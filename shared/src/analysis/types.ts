@@ -74,7 +74,12 @@ export interface SlewEstimate {
   /** V/s: the smallest of the node slew limits. */
   readonly rate: number;
   /** Each stage whose bias is given: its current, the capacitance it must charge, and I/C. */
-  readonly limits: readonly { readonly stage: NodeName; readonly current: number; readonly cap: number; readonly rate: number }[];
+  readonly limits: readonly {
+    readonly stage: NodeName;
+    readonly current: number;
+    readonly cap: number;
+    readonly rate: number;
+  }[];
 }
 
 /** A classic hand formula beside the exact value it approximates. */

@@ -102,8 +102,20 @@ export interface BufferedCap {
 
 /** Any extra linear element between named nodes. */
 export type Element =
-  | { readonly kind: 'res'; readonly a: NodeRef; readonly b: NodeRef; readonly value: Ohms; readonly origin: Origin }
-  | { readonly kind: 'cap'; readonly a: NodeRef; readonly b: NodeRef; readonly value: Farads; readonly origin: Origin }
+  | {
+      readonly kind: 'res';
+      readonly a: NodeRef;
+      readonly b: NodeRef;
+      readonly value: Ohms;
+      readonly origin: Origin;
+    }
+  | {
+      readonly kind: 'cap';
+      readonly a: NodeRef;
+      readonly b: NodeRef;
+      readonly value: Farads;
+      readonly origin: Origin;
+    }
   | {
       /** A voltage-controlled current: gm·v(control) injected into `output` (drawn out when inverting). */
       readonly kind: 'gm';
@@ -119,10 +131,20 @@ export type Comparison = '>=' | '<=';
 export type Requirement =
   | { readonly kind: 'ugf'; readonly op: Comparison; readonly value: Hertz; readonly origin: Origin }
   | { readonly kind: 'pm'; readonly op: Comparison; readonly value: Degrees; readonly origin: Origin }
-  | { readonly kind: 'gain-margin'; readonly op: Comparison; readonly value: Decibels; readonly origin: Origin }
+  | {
+      readonly kind: 'gain-margin';
+      readonly op: Comparison;
+      readonly value: Decibels;
+      readonly origin: Origin;
+    }
   /** Every right-half-plane zero at or above `factor` times the loop's unity-gain frequency. */
   | { readonly kind: 'zero'; readonly op: '>='; readonly factor: Ratio; readonly origin: Origin }
-  | { readonly kind: 'slew'; readonly op: Comparison; readonly value: VoltsPerSecond; readonly origin: Origin }
+  | {
+      readonly kind: 'slew';
+      readonly op: Comparison;
+      readonly value: VoltsPerSecond;
+      readonly origin: Origin;
+    }
   /** Closed-loop step settles into ±tolerance (a fraction, 0.001 for 0.1 %) of its final value within `within`. */
   | { readonly kind: 'settle'; readonly tolerance: Ratio; readonly within: Seconds; readonly origin: Origin }
   | { readonly kind: 'dc-gain'; readonly op: Comparison; readonly value: Decibels; readonly origin: Origin };

@@ -41,5 +41,8 @@ export interface CompensationEditParams {
   readonly rz?: number;
 }
 export type CompensationEditResult = {
-  readonly edits: readonly { readonly range: { start: { line: number; character: number }; end: { line: number; character: number } }; readonly newText: string }[];
+  readonly edits: readonly {
+    readonly range: { start: { line: number; character: number }; end: { line: number; character: number } };
+    readonly newText: string;
+  }[];
 } | null;
