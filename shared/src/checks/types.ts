@@ -15,6 +15,8 @@ export const CHECK_CODES = [
   'settling',
   'approximation',
   'plausibility',
+  'ugf',
+  'dc-gain',
   'syntax',
   'unit',
   'reference',

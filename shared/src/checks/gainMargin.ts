@@ -1,0 +1,69 @@
+// Gain margin where the loop phase reaches −180°, and loops that cross unity more than once.
+import { formatDb, formatHz } from '../format/si';
+import { acrossRuns, type Hit } from './acrossRuns';
+import type { Check } from './context';
+import { addRequirementEdit, defined } from './fixes';
+import { compensationRange, primaryCompensation, requirementOf, violates } from './locate';
+
+export const gainMarginCheck: Check = (input) =>
+  acrossRuns(
+    input,
+    'gain-margin',
+    (run): Hit[] => {
+      const hits: Hit[] = [];
+      const loop = run.analysis.loop;
+      const req = requirementOf(run.model, 'gain-margin');
+      const op = req?.op ?? '>=';
+      const required = req?.value ?? input.settings.gainMargin;
+      const range = compensationRange(input.source, primaryCompensation(run.model));
+      const related = defined([
+        req
+          ? { range: req.origin.range, message: `required gain margin ${op} ${formatDb(required)}` }
+          : undefined,
+      ]);
+      if (loop.gainMarginDb !== undefined && violates(op, loop.gainMarginDb, required)) {
+        hits.push({
+          key: 'margin',
+          severity: loop.gainMarginDb <= 0 || req ? 'error' : 'warning',
+          message:
+            `Gain margin ${formatDb(loop.gainMarginDb)}` +
+            (loop.phaseCrossoverHz !== undefined
+              ? ` (phase −180° at ${formatHz(loop.phaseCrossoverHz)})`
+              : '') +
+            ` is below ${formatDb(required)}${req ? '' : ' (default)'}`,
+          range,
+          related,
+          badness: required - loop.gainMarginDb,
+        });
+      }
+      if (loop.crossings.length > 1) {
+        hits.push({
+          key: 'crossings',
+          severity: 'warning',
+          message:
+            `The loop gain crosses 0 dB ${loop.crossings.length} times (` +
+            loop.crossings.map((c) => `${formatHz(c.hz)} ${c.direction}`).join(', ') +
+            '): margins are read at the last downward crossing, and a healthy first crossing does not make the loop stable',
+          range,
+          related,
+          badness: loop.crossings.length,
+        });
+      }
+      return hits;
+    },
+    ({ worst, worstRun }) =>
+      worst.key === 'margin' && !requirementOf(worstRun.model, 'gain-margin')
+        ? [
+            {
+              title: `Add \`require gain-margin >= ${input.settings.gainMargin} dB\` (the default, stated)`,
+              edits: [
+                addRequirementEdit(
+                  input.source,
+                  worstRun.model,
+                  `require gain-margin >= ${input.settings.gainMargin} dB`,
+                ),
+              ],
+            },
+          ]
+        : [],
+  );

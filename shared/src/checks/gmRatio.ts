@@ -1,0 +1,95 @@
+// gm2 against gm1 when nothing controls the Miller zero: with Rz = 0, z/GBW = gm2/gm1 (AH).
+import { formatSi } from '../format/si';
+import type { DesignAnalysis } from '../analysis/types';
+import type { CornerRun } from '../report';
+import { acrossRuns, type Hit } from './acrossRuns';
+import type { Check, CheckInput } from './context';
+import { defined, setOrInsertField, setValueEdit, solvedFix } from './fixes';
+import { stageAt } from './locate';
+import { offendingRhpZero, zeroFactor } from './rhpZero';
+import type { FixSuggestion } from './types';
+
+export const gmRatioCheck: Check = (input: CheckInput) =>
+  acrossRuns(
+    input,
+    'gm-ratio',
+    (run): Hit[] => {
+      if (run.model.buffered.length) return [];
+      const hits: Hit[] = [];
+      run.model.millers.forEach((miller, index) => {
+        if (miller.rz !== undefined) return;
+        const first = stageAt(run.model, miller.from);
+        const second = stageAt(run.model, miller.to);
+        if (!first || !second) return;
+        const ratio = second.stage.gm / first.stage.gm;
+        if (ratio >= input.settings.gmRatio) return;
+        const gmField = second.stage.origin.fields['gm'];
+        const gm1Field = first.stage.origin.fields['gm'];
+        hits.push({
+          key: `miller${index}`,
+          severity: 'warning',
+          message:
+            `gm2 = ${formatSi(second.stage.gm, 'S')} is only ${ratio.toPrecision(3)} × gm1 ` +
+            `(${formatSi(first.stage.gm, 'S')}); with no nulling resistor the right-half-plane zero gm2/Cc sits ` +
+            `only ${ratio.toPrecision(3)} × above the gain-bandwidth gm1/Cc — keep gm2 ≥ ${input.settings.gmRatio} × gm1`,
+          range: gmField?.range ?? second.stage.origin.range,
+          related: defined([
+            gm1Field
+              ? { range: gm1Field.range, message: `gm1 = ${formatSi(first.stage.gm, 'S')}` }
+              : undefined,
+            { range: miller.origin.range, message: 'Miller capacitor with no nulling resistor' },
+          ]),
+          badness: input.settings.gmRatio / ratio,
+        });
+      });
+      return hits;
+    },
+    ({ worst, worstRun }) => gmRatioFixes(input, worstRun, Number(worst.key.slice('miller'.length))),
+  );
+
+function gmRatioFixes(input: CheckInput, worstRun: CornerRun, index: number): FixSuggestion[] {
+  const model = worstRun.model;
+  const miller = model.millers[index];
+  const first = miller && stageAt(model, miller.from);
+  const second = miller && stageAt(model, miller.to);
+  if (!miller || !first || !second) return [];
+  const factor = zeroFactor(model, input.settings.rhpZeroFactor);
+  const gmField = second.stage.origin.fields['gm'];
+  const ratioMet = (run: CornerRun, a: DesignAnalysis, gm2: number) => {
+    const f = stageAt(run.model, miller.from);
+    return (
+      f !== undefined &&
+      gm2 >= input.settings.gmRatio * f.stage.gm * (1 - 1e-9) &&
+      !offendingRhpZero(a, factor)
+    );
+  };
+  const raise = gmField
+    ? solvedFix(input, {
+        title: (v) => `Raise gm of stage ${second.stage.name} to ${v}`,
+        // The exact gm2 that puts the zero at k·UGF, but never less than the ratio rule asks.
+        solve: (engine) => {
+          const solved = engine.solveGmForZero(model, second.index, factor);
+          const floor = input.settings.gmRatio * first.stage.gm;
+          return solved.ok
+            ? { ...solved, value: Math.max(solved.value, floor) }
+            : { ok: true, value: floor, achieved: floor, note: solved.reason };
+        },
+        apply: (engine, m, v) => engine.withStageGm(m, second.index, v),
+        meets: (a, run, v) => ratioMet(run, a, v),
+        prefer: 'up',
+        unit: 'S',
+        edits: (v) => defined([setValueEdit(model, gmField, v)]),
+        preferred: true,
+      })
+    : undefined;
+  const rz = solvedFix(input, {
+    title: (v) => `Add rz = ${v} (moves the zero to infinity)`,
+    solve: (engine) => engine.solveRzForZeroAtInfinity(model, index),
+    apply: (engine, m, v) => engine.withValue(m, { kind: 'miller', index, field: 'rz' }, v),
+    meets: (a) => !offendingRhpZero(a, factor),
+    prefer: 'nearest',
+    unit: 'ohm',
+    edits: (v) => defined([setOrInsertField(model, miller.origin, 'rz', v)]),
+  });
+  return defined([raise, rz]);
+}

@@ -1,0 +1,71 @@
+// All design rules, and the mapping of language diagnostics into findings.
+import type { LanguageDiagnostic } from '../language/source';
+import type { ParsedDocument } from '../language/model';
+import type { SourcePosition, SourceRange } from '../language/source';
+import { approximationCheck } from './approximation';
+import { complexPolesCheck } from './complexPoles';
+import type { Check, CheckInput } from './context';
+import { dcGainCheck } from './dcGain';
+import { doubletCheck } from './doublet';
+import { gainMarginCheck } from './gainMargin';
+import { gmRatioCheck } from './gmRatio';
+import { nondominantPoleCheck } from './nondominantPole';
+import { phaseMarginCheck } from './phaseMargin';
+import { plausibilityCheck } from './plausibility';
+import { rhpZeroCheck } from './rhpZero';
+import { secondStageBandwidthCheck } from './secondStageBandwidth';
+import { settlingCheck } from './settling';
+import { slewRateCheck } from './slewRate';
+import type { Finding } from './types';
+import { unityGainCheck } from './unityGain';
+
+export type { Check, CheckEngine, CheckInput, CompensationTarget } from './context';
+
+/** Every design rule, in the order findings are listed. */
+export const ALL_CHECKS: readonly Check[] = [
+  plausibilityCheck,
+  phaseMarginCheck,
+  gainMarginCheck,
+  unityGainCheck,
+  rhpZeroCheck,
+  gmRatioCheck,
+  nondominantPoleCheck,
+  secondStageBandwidthCheck,
+  complexPolesCheck,
+  doubletCheck,
+  slewRateCheck,
+  settlingCheck,
+  dcGainCheck,
+  approximationCheck,
+];
+
+/** Run every rule on one analysed design. A rule that throws is reported, never allowed to stop the rest. */
+export function runChecks(input: CheckInput): Finding[] {
+  const findings: Finding[] = [];
+  for (const check of ALL_CHECKS) {
+    if (input.token?.isCancellationRequested) break;
+    findings.push(...check(input));
+  }
+  return findings;
+}
+
+const before = (a: SourcePosition, b: SourcePosition) =>
+  a.line < b.line || (a.line === b.line && a.character <= b.character);
+export const rangeContains = (outer: SourceRange, inner: SourceRange): boolean =>
+  before(outer.start, inner.start) && before(inner.end, outer.end);
+
+/** Language diagnostics as findings, each attached to the design whose block contains it. */
+export function languageFindings(parsed: ParsedDocument): Finding[] {
+  return parsed.diagnostics.map((d: LanguageDiagnostic) => {
+    const design = parsed.designs.find((s) => rangeContains(s.range, d.range));
+    return {
+      code: d.code,
+      severity: d.severity,
+      message: d.message,
+      ...(design ? { design: design.name } : {}),
+      range: d.range,
+      related: d.related ?? [],
+      fixes: [],
+    };
+  });
+}

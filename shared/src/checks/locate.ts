@@ -1,0 +1,72 @@
+// Where a finding goes: the compensation element, the stages around it, a requirement, a field's range.
+import type {
+  BufferedCap,
+  DesignModel,
+  DesignSource,
+  FieldOrigin,
+  Miller,
+  NodeName,
+  Origin,
+  Requirement,
+  RequirementKind,
+  Stage,
+} from '../language/model';
+import type { SourceRange } from '../language/source';
+
+export type Compensation =
+  | { readonly kind: 'miller'; readonly index: number; readonly item: Miller }
+  | { readonly kind: 'buffered'; readonly index: number; readonly item: BufferedCap };
+
+/** The capacitor that sets the dominant pole: a Miller capacitor into the output, else the first one. */
+export function primaryCompensation(model: DesignModel): Compensation | undefined {
+  const intoOutput = model.millers.findIndex((m) => m.to === model.output);
+  if (intoOutput >= 0) return { kind: 'miller', index: intoOutput, item: model.millers[intoOutput]! };
+  if (model.millers.length) return { kind: 'miller', index: 0, item: model.millers[0]! };
+  if (model.buffered.length) return { kind: 'buffered', index: 0, item: model.buffered[0]! };
+  return undefined;
+}
+
+/** The stage whose output node is `node`, with its index. */
+export function stageAt(model: DesignModel, node: NodeName): { stage: Stage; index: number } | undefined {
+  const index = model.stages.findIndex((s) => s.name === node);
+  return index >= 0 ? { stage: model.stages[index]!, index } : undefined;
+}
+
+export function requirementOf<K extends RequirementKind>(
+  model: DesignModel,
+  kind: K,
+): Extract<Requirement, { kind: K }> | undefined {
+  return model.requirements.find((r) => r.kind === kind) as Extract<Requirement, { kind: K }> | undefined;
+}
+
+/** True when `measured` breaks `op required`. */
+export function violates(op: '>=' | '<=', measured: number, required: number): boolean {
+  return op === '>=' ? measured < required : measured > required;
+}
+
+export function field(origin: Origin, name: string): FieldOrigin | undefined {
+  return origin.fields[name];
+}
+
+/** The range of a field, or the whole statement when the field was not written. */
+export function fieldRange(origin: Origin, name: string): SourceRange {
+  return origin.fields[name]?.range ?? origin.range;
+}
+
+/** The place for a finding about the whole compensation, or the design's name when there is none. */
+export function compensationRange(source: DesignSource, comp: Compensation | undefined): SourceRange {
+  return comp ? fieldRange(comp.item.origin, 'cc') : source.nameRange;
+}
+
+/** Poles sorted by magnitude, lowest first. */
+export function sortedPoles<T extends { readonly hz: number }>(poles: readonly T[]): T[] {
+  return [...poles].sort((a, b) => a.hz - b.hz);
+}
+
+/** The share text of a pole (`first 62 %, second 38 %`). */
+export function participationText(participation: readonly { node: string; share: number }[]): string {
+  return participation
+    .filter((p) => p.share >= 0.005)
+    .map((p) => `${p.node} ${Math.round(p.share * 100)} %`)
+    .join(', ');
+}

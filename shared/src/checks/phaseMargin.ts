@@ -1,0 +1,86 @@
+// Phase margin at the loop's last downward unity crossing, against `require pm` or the default.
+import { formatDeg, formatHz } from '../format/si';
+import type { DesignModel } from '../language/model';
+import { acrossRuns, type Hit } from './acrossRuns';
+import type { Check, CheckInput } from './context';
+import { addRequirementEdit, defined, setValueEdit, solvedFix } from './fixes';
+import { compensationRange, primaryCompensation, requirementOf, violates } from './locate';
+import type { FixSuggestion } from './types';
+
+export function requiredPhaseMargin(
+  model: DesignModel,
+  fallback: number,
+): { op: '>=' | '<='; value: number } {
+  const req = requirementOf(model, 'pm');
+  return req ? { op: req.op, value: req.value } : { op: '>=', value: fallback };
+}
+
+export const phaseMarginCheck: Check = (input: CheckInput) =>
+  acrossRuns(
+    input,
+    'phase-margin',
+    (run): Hit[] => {
+      const pm = run.analysis.loop.phaseMarginDeg;
+      const ugf = run.analysis.loop.ugfHz;
+      if (pm === undefined || ugf === undefined) return [];
+      const req = requirementOf(run.model, 'pm');
+      const { op, value } = requiredPhaseMargin(run.model, input.settings.phaseMargin);
+      if (!violates(op, pm, value)) return [];
+      const comp = primaryCompensation(run.model);
+      const unstable = pm <= 0;
+      const bound = op === '>=' ? 'below the required' : 'above the allowed';
+      const origin = req ? 'required' : 'default';
+      return [
+        {
+          key: 'pm',
+          severity: unstable || req ? 'error' : 'warning',
+          message:
+            `Phase margin ${formatDeg(pm)} at the unity-gain frequency ${formatHz(ugf)} is ${bound} ` +
+            `${formatDeg(value)}${req ? '' : ' (default)'}` +
+            (unstable ? ': the closed loop is unstable' : ''),
+          range: compensationRange(input.source, comp),
+          related: defined([
+            req
+              ? { range: req.origin.range, message: `${origin} phase margin ${op} ${formatDeg(value)}` }
+              : undefined,
+          ]),
+          badness: op === '>=' ? value - pm : pm - value,
+        },
+      ];
+    },
+    ({ worstRun }) => {
+      const model = worstRun.model;
+      const comp = primaryCompensation(model);
+      const fixes: (FixSuggestion | undefined)[] = [];
+      if (comp?.kind === 'miller' && requiredPhaseMargin(model, input.settings.phaseMargin).op === '>=') {
+        const target = requiredPhaseMargin(model, input.settings.phaseMargin).value;
+        const ccField = comp.item.origin.fields['cc'];
+        fixes.push(
+          solvedFix(input, {
+            title: (v) => `Set cc = ${v} for ${formatDeg(target)} phase margin`,
+            solve: (engine) => engine.solveCcForPhaseMargin(model, comp.index, target),
+            apply: (engine, m, v) =>
+              engine.withValue(m, { kind: 'miller', index: comp.index, field: 'cc' }, v),
+            meets: (a, run) => {
+              const need = requiredPhaseMargin(run.model, input.settings.phaseMargin);
+              return (
+                a.loop.phaseMarginDeg !== undefined && !violates(need.op, a.loop.phaseMarginDeg, need.value)
+              );
+            },
+            prefer: 'up',
+            unit: 'F',
+            edits: (v) => defined([ccField ? setValueEdit(model, ccField, v) : undefined]),
+            preferred: true,
+          }),
+        );
+      }
+      if (!requirementOf(model, 'pm')) {
+        const line = `require pm >= ${input.settings.phaseMargin} deg`;
+        fixes.push({
+          title: `Add \`${line}\` (the default, stated)`,
+          edits: [addRequirementEdit(input.source, model, line)],
+        });
+      }
+      return defined(fixes);
+    },
+  );
