@@ -1,0 +1,155 @@
+// Debian's Chromium driven by playwright-core, and the few workbench gestures the UI checks need.
+import { chromium } from 'playwright-core';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+
+const CHROMIUM = '/usr/bin/chromium';
+const FLAGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
+
+export async function launchBrowser() {
+  // launch() gives every run a fresh, throw-away profile.
+  return chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS, timeout: 60_000 });
+}
+
+/** A page of the workbench, loaded and ready for keyboard input. */
+export async function openWorkbench(browser, url, { onExit, consoleLines } = {}) {
+  const context = await browser.newContext({ viewport: { width: 1400, height: 900 } });
+  const page = await context.newPage();
+  if (consoleLines) {
+    page.on('console', (m) => {
+      consoleLines.push(`[${m.type()}] ${m.text()}`);
+      if (consoleLines.length > 2000) consoleLines.splice(0, 1000);
+    });
+  }
+  if (onExit) await page.exposeFunction('codeAutomationExit', (code) => onExit(code));
+  await page.goto(url, { waitUntil: 'domcontentloaded', timeout: 60_000 });
+  await page.locator('.monaco-workbench').waitFor({ state: 'visible', timeout: 60_000 });
+  return page;
+}
+
+export async function screenshot(page, dir, name) {
+  mkdirSync(dir, { recursive: true });
+  const file = join(dir, `${name}.png`);
+  await page.screenshot({ path: file });
+  return file;
+}
+
+/** Opens a workspace file by name through quick open; resolves when its editor tab is active. */
+export async function quickOpen(page, fileName) {
+  await focusWorkbench(page);
+  await page.keyboard.press('Control+P');
+  const input = page.locator('.quick-input-widget input');
+  await input.waitFor({ state: 'visible', timeout: 15_000 });
+  await input.fill(fileName);
+  await page
+    .locator('.quick-input-widget .monaco-list-row', { hasText: fileName })
+    .first()
+    .waitFor({ state: 'visible', timeout: 15_000 });
+  await page.keyboard.press('Enter');
+  await page
+    .locator('.tabs-container .tab.active', { hasText: fileName })
+    .waitFor({ state: 'visible', timeout: 15_000 });
+  await page.locator('.editor-instance .monaco-editor .view-lines').first().waitFor({ state: 'visible' });
+}
+
+/** Runs a command from the palette by its title, as a person would. */
+export async function runCommand(page, title) {
+  await focusWorkbench(page);
+  await page.keyboard.press('Control+Shift+P');
+  const input = page.locator('.quick-input-widget input');
+  await input.waitFor({ state: 'visible', timeout: 15_000 });
+  await input.fill(`>${title}`);
+  await page
+    .locator('.quick-input-widget .monaco-list-row', { hasText: title })
+    .first()
+    .waitFor({ state: 'visible', timeout: 15_000 });
+  await page.keyboard.press('Enter');
+  await input.waitFor({ state: 'hidden', timeout: 15_000 });
+}
+
+/** Moves the cursor to a one-based line and column of the active editor. */
+export async function goToLine(page, line, column = 1) {
+  await page.locator('.editor-instance .monaco-editor textarea').first().focus();
+  await page.keyboard.press('Control+G');
+  const input = page.locator('.quick-input-widget input');
+  await input.waitFor({ state: 'visible', timeout: 10_000 });
+  await input.fill(`:${line}:${column}`);
+  await page.keyboard.press('Enter');
+  await input.waitFor({ state: 'hidden', timeout: 10_000 });
+}
+
+async function focusWorkbench(page) {
+  // Escape closes any open widget; a click on the status bar's empty area would move focus unpredictably.
+  await page.keyboard.press('Escape');
+}
+
+/**
+ * The one-based editor lines that carry a squiggle of each kind, read from where the decorations are
+ * drawn relative to the line numbers in the gutter.
+ */
+export async function squiggleLines(page) {
+  return page.evaluate(() => {
+    const editor = document.querySelector('.editor-instance .monaco-editor');
+    if (!editor) return { error: [], warning: [], info: [] };
+    const numbers = [...editor.querySelectorAll('.margin-view-overlays .line-numbers')].map((el) => {
+      const r = el.getBoundingClientRect();
+      return { line: Number(el.textContent?.trim()), top: r.top, bottom: r.bottom };
+    });
+    const lineAt = (el) => {
+      const r = el.getBoundingClientRect();
+      const mid = (r.top + r.bottom) / 2;
+      return numbers.find((n) => mid >= n.top && mid <= n.bottom)?.line;
+    };
+    const collect = (cls) =>
+      [...new Set([...editor.querySelectorAll(`.view-overlays .${cls}`)].map(lineAt).filter((l) => l))].sort(
+        (a, b) => a - b,
+      );
+    return {
+      error: collect('squiggly-error'),
+      warning: collect('squiggly-warning'),
+      info: collect('squiggly-info'),
+      visible: numbers.map((n) => n.line).filter((l) => Number.isFinite(l)),
+    };
+  });
+}
+
+/** Errors, warnings and infos as the status bar's problems item reads them out. */
+export async function problemCounts(page) {
+  const label = (await page.locator('[id="status.problems"]').first().getAttribute('aria-label')) ?? '';
+  const num = (re) => {
+    const m = label.match(re);
+    return m ? Number(m[1]) : 0;
+  };
+  return {
+    label,
+    error: num(/(\d+)\s*error/i) || num(/errors?:\s*(\d+)/i),
+    warning: num(/(\d+)\s*warning/i) || num(/warnings?:\s*(\d+)/i),
+    info: num(/(\d+)\s*info/i) || num(/infos?:\s*(\d+)/i),
+  };
+}
+
+/** Polls `probe` until it returns something other than undefined; throws with `what` on timeout. */
+export async function poll(what, probe, timeoutMs = 20_000, everyMs = 150) {
+  const deadline = Date.now() + timeoutMs;
+  let last;
+  for (;;) {
+    try {
+      const v = await probe();
+      if (v !== undefined) return v;
+    } catch (err) {
+      last = err;
+    }
+    if (Date.now() > deadline) {
+      throw new Error(`waited ${timeoutMs / 1000} s for ${what}${last ? `: ${last.message}` : ''}`);
+    }
+    await new Promise((r) => setTimeout(r, everyMs));
+  }
+}

@@ -1,0 +1,1 @@
+export declare function hzValuesIn(text: string): number[];

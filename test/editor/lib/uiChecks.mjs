@@ -1,0 +1,224 @@
+// What a person sees: squiggles, the problems count, the hover, the status bar and the chart panel,
+// checked in the workbench page against the terminal checker's findings.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import {
+  goToLine,
+  poll,
+  problemCounts,
+  quickOpen,
+  runCommand,
+  screenshot,
+  squiggleLines,
+} from './browser.mjs';
+import { hzValuesIn } from './hzValues.mjs';
+
+const SEVERITY_CLASS = { error: 'error', warning: 'warning', info: 'info' };
+
+/** The file whose findings make the most telling picture: most errors and warnings, a Miller line first. */
+function pickShowcase(expected, workspace) {
+  const scored = expected.map((e) => {
+    const text = readFileSync(join(workspace, e.file), 'utf8');
+    const strong = e.findings.filter((f) => f.severity !== 'info').length;
+    return { e, score: strong + (/^\s*miller\b/m.test(text) ? 100 : 0) };
+  });
+  scored.sort((a, b) => b.score - a.score);
+  return scored[0]?.e;
+}
+
+/**
+ * Every error and warning visible on screen has a squiggle of its kind on its first line, and every
+ * squiggled line lies inside a finding of that kind: the picture matches the findings both ways.
+ */
+async function squigglesMatch(page, findings) {
+  return poll(
+    'squiggles on the lines of the findings',
+    async () => {
+      const seen = await squiggleLines(page);
+      const visible = new Set(seen.visible);
+      for (const f of findings) {
+        const line = f.range.start.line + 1;
+        if (!visible.has(line)) continue;
+        if (!seen[SEVERITY_CLASS[f.severity]].includes(line)) return undefined;
+      }
+      for (const kind of ['error', 'warning']) {
+        for (const line of seen[kind]) {
+          const inside = findings.some(
+            (f) => f.severity === kind && line >= f.range.start.line + 1 && line <= f.range.end.line + 1,
+          );
+          if (!inside) throw new Error(`a ${kind} squiggle on line ${line} belongs to no finding`);
+        }
+      }
+      const shown = findings.filter((f) => f.severity !== 'info' && visible.has(f.range.start.line + 1));
+      if (findings.some((f) => f.severity !== 'info') && shown.length === 0) {
+        throw new Error('no error or warning finding lies in the visible part of the editor');
+      }
+      return seen;
+    },
+    30_000,
+  );
+}
+
+function counts(findings) {
+  const c = { error: 0, warning: 0, info: 0 };
+  for (const f of findings) c[f.severity] += 1;
+  return c;
+}
+
+/** The status bar's problems item agrees with the findings (of this file, or of every file published). */
+async function problemsMatch(page, expected, file) {
+  const one = counts(expected.find((e) => e.file === file).findings);
+  const all = counts(expected.flatMap((e) => e.findings));
+  let last;
+  try {
+    return await poll(
+      'the problems count in the status bar',
+      async () => {
+        last = await problemCounts(page);
+        const same = (c) => c.error === last.error && c.warning === last.warning;
+        return same(one) || same(all) ? last : undefined;
+      },
+      20_000,
+    );
+  } catch (err) {
+    throw new Error(
+      `${err.message}; status bar says "${last?.label}", findings: ${JSON.stringify(one)} in ${file}, ${JSON.stringify(all)} in all`,
+    );
+  }
+}
+
+function commandTitle(root, id) {
+  const pkg = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8'));
+  const c = (pkg.contributes?.commands ?? []).find((x) => x.command === id);
+  if (!c) throw new Error(`package.json contributes no command ${id}`);
+  return c.category ? `${c.category}: ${c.title}` : c.title;
+}
+
+export async function uiChecks({ page, tally, expected, workspace, output, root }) {
+  const show = pickShowcase(expected, workspace);
+  if (!show) throw new Error('no example to show');
+  const lines = readFileSync(join(workspace, show.file), 'utf8').split(/\r?\n/);
+
+  await tally.check(`UI: ${show.file} shows squiggles on the lines of its findings`, async () => {
+    await quickOpen(page, show.file);
+    await squigglesMatch(page, show.findings);
+    await screenshot(page, output, 'squiggles');
+  });
+
+  await tally.check(`UI: the problems count in the status bar matches the findings`, async () => {
+    const c = await problemsMatch(page, expected, show.file);
+    console.log(`        status bar: "${c.label}"`);
+  });
+
+  const millerLine = lines.findIndex((l) => /^\s*miller\b/.test(l));
+  await tally.check(`UI: the hover over the Miller capacitor shows pole values`, async () => {
+    if (millerLine < 0) throw new Error(`${show.file} has no miller line`);
+    const col = lines[millerLine].search(/\S/) + 2;
+    await goToLine(page, millerLine + 1, col);
+    await page.keyboard.press('Control+K');
+    await page.keyboard.press('Control+I');
+    const hover = page.locator('.monaco-hover:not(.hidden) .hover-contents').first();
+    const text = await poll('the hover widget', async () => {
+      if (!(await hover.isVisible())) return undefined;
+      const t = await hover.innerText();
+      return /pole/i.test(t) ? t : undefined;
+    });
+    const hz = hzValuesIn(text);
+    if (hz.length < 2) throw new Error(`the hover shows fewer than two frequencies:\n${text}`);
+    await screenshot(page, output, 'hover');
+    await page.keyboard.press('Escape');
+  });
+
+  await tally.check('UI: the status bar shows the phase margin of the design under the cursor', async () => {
+    await goToLine(page, Math.max(1, millerLine + 1), 1);
+    const text = await poll('a status bar item with the phase margin', async () => {
+      const items = await page.locator('#workbench\\.parts\\.statusbar .statusbar-item').allInnerTexts();
+      return items.find((t) => /PM/.test(t) && /\d/.test(t));
+    });
+    console.log(`        status bar item: "${text.replace(/\s+/g, ' ').trim()}"`);
+    if (!/[-−]?\d+(\.\d+)?\s*°/.test(text)) throw new Error(`no phase margin in degrees in "${text}"`);
+  });
+
+  let frame;
+  await tally.check('UI: the panel opens from the command palette and draws its charts', async () => {
+    await goToLine(page, Math.max(1, millerLine + 1), 1);
+    await runCommand(page, commandTitle(root, 'ampnote.showPanel'));
+    frame = page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
+    await poll(
+      'a drawn chart in the panel',
+      async () => ((await canvasInk(frame)) > 0 ? true : undefined),
+      30_000,
+    );
+    await screenshot(page, output, 'panel');
+  });
+
+  await tally.check('UI: moving the Cc slider redraws the poles', async () => {
+    if (!frame) throw new Error('the panel did not open');
+    const slider = frame.locator('input[type=range]').first();
+    await slider.waitFor({ state: 'visible', timeout: 10_000 });
+    const before = await panelFingerprint(frame);
+    const { min, max, value } = await slider.evaluate((el) => ({
+      min: el.min,
+      max: el.max,
+      value: el.value,
+    }));
+    const target = Number(value) === Number(max) ? min : max;
+    await slider.fill(String(target));
+    await poll(
+      'the charts to change after the slider moved',
+      async () => {
+        const now = await panelFingerprint(frame);
+        return now.text !== before.text || now.ink !== before.ink ? now : undefined;
+      },
+      20_000,
+    );
+    await screenshot(page, output, 'panel-slider');
+  });
+}
+
+/** Diagnostics of the packaged extension on one example, seen in the UI. */
+export async function smokeChecks({ page, tally, expected, output, label }) {
+  const target = expected.find((e) => e.findings.some((f) => f.severity !== 'info')) ?? expected[0];
+  await tally.check(
+    `${label}: ${target.file} shows squiggles on the lines of its findings`,
+    async () => {
+      await quickOpen(page, target.file);
+      await squigglesMatch(page, target.findings);
+      await screenshot(page, output, `${label}-squiggles`);
+    },
+    90_000,
+  );
+  await tally.check(`${label}: the problems count in the status bar matches the findings`, async () => {
+    const c = await problemsMatch(page, expected, target.file);
+    console.log(`        status bar: "${c.label}"`);
+  });
+}
+
+/** How many pixels of all the panel's canvases are not transparent (0 when nothing is drawn). */
+async function canvasInk(frame) {
+  return frame.locator('body').evaluate(() => {
+    let ink = 0;
+    for (const c of document.querySelectorAll('canvas')) {
+      if (c.width === 0 || c.height === 0) continue;
+      const ctx = c.getContext('2d');
+      if (!ctx) continue;
+      const d = ctx.getImageData(0, 0, c.width, c.height).data;
+      for (let i = 3; i < d.length; i += 4) if (d[i] !== 0) ink += 1;
+    }
+    return ink;
+  });
+}
+
+/** The panel's text and a checksum of its drawn pixels: either changes when the poles move. */
+async function panelFingerprint(frame) {
+  return frame.locator('body').evaluate(() => {
+    let sum = 0;
+    for (const c of document.querySelectorAll('canvas')) {
+      const ctx = c.getContext('2d');
+      if (!ctx || c.width === 0) continue;
+      const d = ctx.getImageData(0, 0, c.width, c.height).data;
+      for (let i = 0; i < d.length; i += 97) sum = (sum * 31 + d[i]) % 1_000_000_007;
+    }
+    return { text: document.body.innerText, ink: sum };
+  });
+}

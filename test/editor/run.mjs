@@ -1,0 +1,237 @@
+// Tests inside a real editor: the browser build of VS Code (code-server, installed into .cache) with this
+// extension, driven three ways — the extension-host suite with the real `vscode` API, the UI through
+// Chromium, and the packaged .vsix installed as a user would. Prints `N passed, N failed` last.
+import { spawnSync } from 'node:child_process';
+import { cpSync, existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { editorDir, installEditor, installVsix, root, startEditor } from '../../scripts/editor.mjs';
+import { launchBrowser, openWorkbench, poll, screenshot } from './lib/browser.mjs';
+import { checkerExpectations, exampleFiles } from './lib/expectations.mjs';
+import { bundleSuite } from './lib/suiteBundle.mjs';
+import { Tally } from './lib/tally.mjs';
+import { uiChecks, smokeChecks } from './lib/uiChecks.mjs';
+
+const OUTPUT = join(root, 'test-output', 'editor');
+const WORK = join(editorDir, 'work');
+const started = Date.now();
+const tally = new Tally();
+/** Everything started here, stopped in reverse order on any exit. */
+const running = [];
+
+async function stopAll() {
+  while (running.length > 0) {
+    const r = running.pop();
+    try {
+      await r.stop();
+    } catch {
+      // already gone
+    }
+  }
+}
+
+for (const sig of ['SIGINT', 'SIGTERM']) {
+  process.once(sig, async () => {
+    await stopAll();
+    process.exit(130);
+  });
+}
+
+/** The whole run may not exceed this; past it everything is stopped and the run fails. */
+const WATCHDOG_MS = Number(process.env.AMPNOTE_EDITOR_TIMEOUT_MS ?? 15 * 60_000);
+const watchdog = setTimeout(async () => {
+  console.error(`editor tests: over ${WATCHDOG_MS / 1000} s, stopping everything`);
+  await stopAll();
+  console.log(`${tally.passed} passed, ${tally.failed + 1} failed`);
+  process.exit(1);
+}, WATCHDOG_MS);
+watchdog.unref();
+
+function step(what) {
+  console.log(`\n== ${what} (${((Date.now() - started) / 1000).toFixed(1)} s)`);
+}
+
+async function main() {
+  rmSync(OUTPUT, { recursive: true, force: true });
+  mkdirSync(OUTPUT, { recursive: true });
+
+  step('build');
+  if (!['dist/client.js', 'dist/server.js'].every((f) => existsSync(join(root, f))) || process.env.CI) {
+    const b = spawnSync('npm', ['run', 'build'], { cwd: root, stdio: 'inherit' });
+    if (b.status !== 0) throw new Error('npm run build failed');
+  }
+
+  step('editor install');
+  const installed = await tally.check(
+    'code-server is installed (or reused from .cache/editor)',
+    async () => installEditor({ log: (s) => console.log(`  ${s}`) }),
+    10 * 60_000,
+  );
+  if (!installed) return;
+
+  // A scratch copy of the examples: the checks edit and save files, never the project's own.
+  const workspace = join(WORK, 'examples');
+  rmSync(WORK, { recursive: true, force: true });
+  mkdirSync(WORK, { recursive: true });
+  cpSync(join(root, 'examples'), workspace, { recursive: true });
+  const files = exampleFiles(workspace);
+
+  step('expectations from the terminal checker');
+  const expected = await tally.check(
+    `the terminal checker reports on ${files.length} example(s)`,
+    async () => {
+      if (files.length === 0) throw new Error('examples/ has no .ampnote files');
+      return checkerExpectations(root, workspace);
+    },
+  );
+  if (!expected) return;
+  for (const e of expected) {
+    const counts = countBy(e.findings.map((f) => `${f.code}/${f.severity}`));
+    console.log(`  ${e.file}: ${e.findings.length} finding(s) ${JSON.stringify(counts)}`);
+  }
+
+  const suiteDir = join(editorDir, 'suite');
+  const suiteEntry = await bundleSuite(root, suiteDir);
+  const resultsFile = join(suiteDir, 'results.json');
+  const configFile = join(suiteDir, 'config.json');
+  const writeConfig = (mode) => {
+    rmSync(resultsFile, { force: true });
+    writeFileSync(configFile, JSON.stringify({ mode, workspace, results: resultsFile, expected }, null, 2));
+  };
+
+  step('editor start');
+  const editor = await startEditor({
+    profile: 'dev',
+    fresh: true,
+    env: { AMPNOTE_EDITOR_SUITE: configFile },
+  });
+  running.push(editor);
+  console.log(`  code-server on ${editor.url}`);
+  const browser = await launchBrowser();
+  running.push({ stop: () => browser.close() });
+
+  step('extension-host suite (real vscode API)');
+  writeConfig('full');
+  await hostSuite(browser, editor, workspace, suiteEntry, resultsFile, root, 'host');
+
+  step('UI through Chromium');
+  {
+    const consoleLines = [];
+    const page = await openWorkbench(
+      browser,
+      editor.pageUrl({ folder: workspace, extensionDevelopmentPath: root }),
+      { consoleLines },
+    );
+    try {
+      await uiChecks({ page, tally, expected, workspace, output: OUTPUT, root });
+    } finally {
+      writeFileSync(join(OUTPUT, 'ui-console.log'), consoleLines.join('\n'));
+      await page.context().close();
+    }
+  }
+  await editor.stop();
+  running.splice(running.indexOf(editor), 1);
+
+  step('packaged extension (.vsix)');
+  const vsix = await tally.check(
+    'npm run package writes out/ampnote.vsix',
+    async () => {
+      const p = spawnSync('npm', ['run', 'package'], { cwd: root, encoding: 'utf8' });
+      const file = join(root, 'out', 'ampnote.vsix');
+      if (p.status !== 0)
+        throw new Error(`npm run package exited ${p.status}:\n${(p.stdout + p.stderr).slice(-3000)}`);
+      if (!existsSync(file)) throw new Error('out/ampnote.vsix was not written');
+      return file;
+    },
+    5 * 60_000,
+  );
+  if (!vsix) return;
+  const packagedDir = join(editorDir, 'profiles', 'packaged-extensions');
+  rmSync(packagedDir, { recursive: true, force: true });
+  const ok = await tally.check(
+    'code-server --install-extension installs the .vsix into a fresh folder',
+    async () => {
+      installVsix(vsix, packagedDir);
+      const listed = spawnSync('ls', [packagedDir], { encoding: 'utf8' }).stdout;
+      if (!/ampnote\.ampnote-/.test(listed)) throw new Error(`extensions folder holds: ${listed}`);
+    },
+  );
+  if (!ok) return;
+  const packaged = await startEditor({
+    profile: 'packaged',
+    fresh: true,
+    extensionsDir: packagedDir,
+    env: { AMPNOTE_EDITOR_SUITE: configFile },
+  });
+  running.push(packaged);
+  {
+    const consoleLines = [];
+    const page = await openWorkbench(browser, packaged.pageUrl({ folder: workspace }), { consoleLines });
+    try {
+      await smokeChecks({ page, tally, expected, output: OUTPUT, label: 'packaged' });
+    } finally {
+      writeFileSync(join(OUTPUT, 'packaged-console.log'), consoleLines.join('\n'));
+      await page.context().close();
+    }
+  }
+}
+
+/** Loads the workbench with extensionTestsPath and counts each check the suite reports. */
+async function hostSuite(browser, editor, workspace, suiteEntry, resultsFile, extensionPath, label) {
+  let exitCode;
+  const consoleLines = [];
+  const page = await openWorkbench(
+    browser,
+    editor.pageUrl({
+      folder: workspace,
+      extensionDevelopmentPath: extensionPath,
+      extensionTestsPath: suiteEntry,
+    }),
+    { onExit: (code) => (exitCode = code), consoleLines },
+  );
+  try {
+    await poll('the extension-host suite to finish', () => exitCode, 5 * 60_000, 250).catch((err) =>
+      tally.fail(`${label}: the extension-host suite finished`, err),
+    );
+    await screenshot(page, OUTPUT, `${label}-end`).catch(() => {});
+  } finally {
+    writeFileSync(join(OUTPUT, `${label}-console.log`), consoleLines.join('\n'));
+    await page.context().close();
+  }
+  const results = existsSync(resultsFile) ? JSON.parse(readFileSync(resultsFile, 'utf8')) : [];
+  for (const r of results) {
+    if (r.ok) tally.pass(`${label}: ${r.name}`);
+    else tally.fail(`${label}: ${r.name}`, r.error);
+  }
+  if (results.length === 0) {
+    const tail = consoleLines
+      .filter((l) => !/gallery|marketplace/i.test(l))
+      .slice(-30)
+      .join('\n');
+    tally.fail(
+      `${label}: the extension-host suite reported its checks`,
+      `no results (exit ${exitCode}); console:\n${tail}`,
+    );
+  } else if (exitCode !== undefined && (exitCode === 0) !== results.every((r) => r.ok)) {
+    tally.fail(`${label}: the extension host's exit code agrees with the checks`, `exit ${exitCode}`);
+  }
+}
+
+function countBy(items) {
+  const out = {};
+  for (const i of items) out[i] = (out[i] ?? 0) + 1;
+  return out;
+}
+
+try {
+  await main();
+} catch (err) {
+  tally.fail('editor tests ran to the end', err);
+} finally {
+  await stopAll();
+  clearTimeout(watchdog);
+  console.log(
+    `\neditor tests took ${((Date.now() - started) / 1000).toFixed(1)} s; screenshots in test-output/editor/`,
+  );
+  console.log(`${tally.passed} passed, ${tally.failed} failed`);
+  process.exitCode = tally.failed > 0 || tally.passed === 0 ? 1 : 0;
+}
