@@ -29,9 +29,9 @@ export const gmRatioCheck: Check = (input: CheckInput) =>
           key: `miller${index}`,
           severity: 'warning',
           message:
-            `gm2 = ${formatSi(second.stage.gm, 'S')} is only ${ratio.toPrecision(3)} × gm1 ` +
+            `gm2 = ${formatSi(second.stage.gm, 'S')} is only ${+ratio.toPrecision(3)} × gm1 ` +
             `(${formatSi(first.stage.gm, 'S')}); with no nulling resistor the right-half-plane zero gm2/Cc sits ` +
-            `only ${ratio.toPrecision(3)} × above the gain-bandwidth gm1/Cc — keep gm2 ≥ ${input.settings.gmRatio} × gm1`,
+            `only ${+ratio.toPrecision(3)} × above the gain-bandwidth gm1/Cc — keep gm2 ≥ ${input.settings.gmRatio} × gm1`,
           range: gmField?.range ?? second.stage.origin.range,
           related: defined([
             gm1Field

@@ -37,7 +37,7 @@ export const nondominantPoleCheck: Check = (input: CheckInput) =>
           key: 'p2',
           severity: 'warning',
           message:
-            `Non-dominant pole at ${formatHz(p2.hz)} is only ${(p2.hz / ugf).toPrecision(3)} × the UGF ` +
+            `Non-dominant pole at ${formatHz(p2.hz)} is only ${+(p2.hz / ugf).toPrecision(3)} × the UGF ` +
             `(${formatHz(ugf)}); it should lie at or above ${factor} × UGF (${formatHz(factor * ugf)})`,
           range: compensationRange(input.source, comp),
           related: p2.participation.length
