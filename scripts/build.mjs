@@ -11,6 +11,8 @@ const entries = [
   { ...common, entryPoints: ['shared/src/cli/main.ts'], outfile: 'dist/cli.js', platform: 'node', format: 'cjs', banner: { js: '#!/usr/bin/env node' } },
   // The panel script runs in the webview: a browser bundle with chart.js inside, served from media/.
   { ...common, entryPoints: ['client/src/webview/panel.ts'], outfile: 'client/media/panel.js', platform: 'browser', format: 'iife', target: 'es2022' },
+  // The same chart code as a global `AmpnoteCharts`, for the terminal checker's self-contained HTML report.
+  { ...common, entryPoints: ['client/src/webview/charts.ts'], outfile: 'dist/charts.js', platform: 'browser', format: 'iife', globalName: 'AmpnoteCharts', target: 'es2022' },
 ];
 
 mkdirSync('dist', { recursive: true });

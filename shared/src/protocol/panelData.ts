@@ -25,6 +25,14 @@ export interface LocusSeries {
   /** Farads; the first point is Cc = 0 (uncompensated), drawn at the axis' left edge. */
   readonly cc: readonly number[];
   readonly hz: readonly number[];
+  /** For zero branches: whether each point lies in the right half-plane. */
+  readonly rhp?: readonly boolean[];
+}
+
+/** A slider's span (SI units); the panel moves it on a logarithmic scale. */
+export interface SliderRange {
+  readonly min: number;
+  readonly max: number;
 }
 
 export interface PanelData {
@@ -40,6 +48,8 @@ export interface PanelData {
   /** The values the charts show (the slider's, when one is moved; else as written). */
   readonly cc?: number;
   readonly rz?: number;
+  /** Spans for the Cc and Rz sliders around the written values; absent without compensation. */
+  readonly sliders?: { readonly cc: SliderRange; readonly rz: SliderRange };
   readonly poles: readonly PanelPole[];
   readonly zeros: readonly PanelZero[];
   readonly locus: {

@@ -4,7 +4,9 @@ import type { PanelData } from './panelData';
 export type HostToWebview =
   | { readonly type: 'data'; readonly data: PanelData | null }
   | { readonly type: 'theme' }
-  | { readonly type: 'restore'; readonly state: PanelState };
+  | { readonly type: 'restore'; readonly state: PanelState }
+  /** A line for the panel's status area (busy, an error from the server); empty clears it. */
+  | { readonly type: 'status'; readonly text: string; readonly error?: boolean };
 
 export type WebviewToHost =
   | { readonly type: 'ready' }

@@ -1,0 +1,355 @@
+// Hosts the pole-split webview: follows the active editor and the design under the cursor, asks the server
+// for PanelData (with the sliders' values), writes an applied value as an ordinary undoable edit, and saves
+// exported charts where the user chooses.
+import { randomBytes } from 'node:crypto';
+import * as vscode from 'vscode';
+import type { PanelData } from '../../shared/src/protocol/panelData';
+import {
+  CompensationEditRequest,
+  PanelDataRequest,
+  type CompensationEditParams,
+  type CompensationEditResult,
+  type PanelDataParams,
+  type PanelDataResult,
+} from '../../shared/src/protocol/requests';
+import type {
+  ChartId,
+  HostToWebview,
+  PanelState,
+  WebviewToHost,
+} from '../../shared/src/protocol/webviewMessages';
+import { panelHtml } from './panelHtml';
+import type { ServerRequests } from './requests';
+
+export const PANEL_VIEW_TYPE = 'ampnote.polePanel';
+const FOLLOW_MS = 200;
+const EDIT_MS = 350;
+
+export interface ShowPanelArgs {
+  readonly uri?: string;
+  readonly design?: string;
+}
+
+interface Target {
+  readonly uri: string;
+  /** Set when the panel was opened for a named design (code lens); otherwise the cursor decides. */
+  design?: string;
+  position?: { line: number; character: number };
+}
+
+const CHART_TITLES: Record<ChartId, string> = {
+  locus: 'pole-split',
+  bode: 'loop-gain',
+  step: 'step',
+  splane: 'pole-zero-map',
+};
+
+function isPositiveNumber(v: unknown): v is number {
+  return typeof v === 'number' && Number.isFinite(v) && v >= 0;
+}
+
+function isChartId(v: unknown): v is ChartId {
+  return v === 'locus' || v === 'bode' || v === 'step' || v === 'splane';
+}
+
+/** Messages from the webview are checked before use: the page is ours, but its input is the user's. */
+export function parseWebviewMessage(raw: unknown): WebviewToHost | undefined {
+  if (!raw || typeof raw !== 'object') return undefined;
+  const m = raw as Record<string, unknown>;
+  const values = () => ({
+    cc: isPositiveNumber(m.cc) && m.cc > 0 ? m.cc : undefined,
+    rz: isPositiveNumber(m.rz) ? m.rz : undefined,
+  });
+  switch (m.type) {
+    case 'ready':
+      return { type: 'ready' };
+    case 'slider':
+      return { type: 'slider', ...values() };
+    case 'apply':
+      return { type: 'apply', ...values() };
+    case 'exportCsv':
+      return isChartId(m.chart) && typeof m.csv === 'string'
+        ? { type: 'exportCsv', chart: m.chart, csv: m.csv }
+        : undefined;
+    case 'exportPng':
+      return isChartId(m.chart) &&
+        typeof m.dataUrl === 'string' &&
+        m.dataUrl.startsWith('data:image/png;base64,')
+        ? { type: 'exportPng', chart: m.chart, dataUrl: m.dataUrl }
+        : undefined;
+    default:
+      return undefined;
+  }
+}
+
+export class PanelHost implements vscode.Disposable {
+  private panel: vscode.WebviewPanel | undefined;
+  private target: Target | undefined;
+  private overrides: { cc?: number; rz?: number } = {};
+  private last: PanelData | null = null;
+  private inFlight: vscode.CancellationTokenSource | undefined;
+  private timer: NodeJS.Timeout | undefined;
+  private readonly subscriptions: vscode.Disposable[] = [];
+
+  constructor(
+    private readonly context: vscode.ExtensionContext,
+    private readonly server: ServerRequests,
+    private readonly output: vscode.OutputChannel,
+  ) {
+    this.subscriptions.push(
+      vscode.window.onDidChangeActiveTextEditor((editor) => {
+        if (editor && editor.document.languageId === 'ampnote') this.follow(editor, FOLLOW_MS);
+      }),
+      vscode.window.onDidChangeTextEditorSelection((e) => {
+        if (e.textEditor.document.languageId === 'ampnote') this.follow(e.textEditor, FOLLOW_MS);
+      }),
+      vscode.workspace.onDidChangeTextDocument((e) => {
+        if (this.target && e.document.uri.toString() === this.target.uri && e.contentChanges.length > 0)
+          this.schedule(EDIT_MS);
+      }),
+      vscode.workspace.onDidChangeConfiguration((e) => {
+        if (e.affectsConfiguration('ampnote')) this.schedule(EDIT_MS);
+      }),
+      vscode.window.onDidChangeActiveColorTheme(() => this.post({ type: 'theme' })),
+      vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, {
+        deserializeWebviewPanel: async (panel, state: unknown) => {
+          this.adopt(panel);
+          const editor = vscode.window.activeTextEditor;
+          if (editor && editor.document.languageId === 'ampnote') this.follow(editor, 0);
+          if (state && typeof state === 'object' && isChartId((state as PanelState).selected)) {
+            this.post({ type: 'restore', state: state as PanelState });
+          }
+        },
+      }),
+    );
+  }
+
+  show(args?: ShowPanelArgs): void {
+    const editor = vscode.window.activeTextEditor;
+    if (args?.uri) {
+      const position =
+        editor && editor.document.uri.toString() === args.uri ? editor.selection.active : undefined;
+      this.setTarget({
+        uri: args.uri,
+        design: args.design,
+        position: position && { line: position.line, character: position.character },
+      });
+    } else if (editor && editor.document.languageId === 'ampnote') {
+      const p = editor.selection.active;
+      this.setTarget({
+        uri: editor.document.uri.toString(),
+        position: { line: p.line, character: p.character },
+      });
+    }
+    if (this.panel) {
+      this.panel.reveal(this.panel.viewColumn ?? vscode.ViewColumn.Beside, true);
+    } else {
+      const panel = vscode.window.createWebviewPanel(
+        PANEL_VIEW_TYPE,
+        'Pole split',
+        { viewColumn: vscode.ViewColumn.Beside, preserveFocus: true },
+        {
+          enableScripts: true,
+          retainContextWhenHidden: true,
+          localResourceRoots: [this.mediaRoot()],
+        },
+      );
+      this.adopt(panel);
+    }
+    this.schedule(0);
+  }
+
+  dispose(): void {
+    if (this.timer) clearTimeout(this.timer);
+    this.inFlight?.cancel();
+    this.panel?.dispose();
+    for (const d of this.subscriptions) d.dispose();
+  }
+
+  private mediaRoot(): vscode.Uri {
+    return vscode.Uri.joinPath(this.context.extensionUri, 'client', 'media');
+  }
+
+  private adopt(panel: vscode.WebviewPanel): void {
+    this.panel = panel;
+    const webview = panel.webview;
+    webview.options = { enableScripts: true, localResourceRoots: [this.mediaRoot()] };
+    panel.iconPath = vscode.Uri.joinPath(this.mediaRoot(), 'icon.png');
+    webview.html = panelHtml({
+      nonce: randomBytes(16).toString('hex'),
+      cspSource: webview.cspSource,
+      scriptUri: webview.asWebviewUri(vscode.Uri.joinPath(this.mediaRoot(), 'panel.js')).toString(),
+      styleUri: webview.asWebviewUri(vscode.Uri.joinPath(this.mediaRoot(), 'panel.css')).toString(),
+    });
+    const messages = webview.onDidReceiveMessage((raw) => void this.onMessage(raw));
+    panel.onDidDispose(() => {
+      messages.dispose();
+      this.inFlight?.cancel();
+      this.panel = undefined;
+    });
+  }
+
+  private setTarget(next: Target): void {
+    const sameDocument = this.target?.uri === next.uri;
+    if (!sameDocument || (next.design !== undefined && next.design !== this.last?.design))
+      this.overrides = {};
+    this.target = next;
+  }
+
+  private follow(editor: vscode.TextEditor, delay: number): void {
+    if (!this.panel) return;
+    const p = editor.selection.active;
+    // Moving the cursor lets the cursor choose the design again (a code lens only chose the first one).
+    this.setTarget({
+      uri: editor.document.uri.toString(),
+      position: { line: p.line, character: p.character },
+    });
+    this.schedule(delay);
+  }
+
+  private schedule(delay: number): void {
+    if (!this.panel) return;
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = setTimeout(() => void this.refresh(), delay);
+  }
+
+  private post(message: HostToWebview): void {
+    void this.panel?.webview.postMessage(message);
+  }
+
+  private async refresh(): Promise<void> {
+    const target = this.target;
+    if (!this.panel || !target) {
+      this.post({ type: 'data', data: null });
+      return;
+    }
+    this.inFlight?.cancel();
+    const cts = new vscode.CancellationTokenSource();
+    this.inFlight = cts;
+    const params: PanelDataParams = {
+      uri: target.uri,
+      design: target.design,
+      position: target.design === undefined ? target.position : undefined,
+      cc: this.overrides.cc,
+      rz: this.overrides.rz,
+    };
+    try {
+      const data = await this.server.request<PanelDataParams, PanelDataResult>(
+        PanelDataRequest.method,
+        params,
+        cts.token,
+      );
+      if (cts.token.isCancellationRequested) return;
+      if (data && this.last && (data.design !== this.last.design || data.uri !== this.last.uri)) {
+        // Another design came under the cursor: slider values belong to the previous one.
+        if (this.overrides.cc !== undefined || this.overrides.rz !== undefined) {
+          this.overrides = {};
+          this.last = data;
+          this.schedule(0);
+          return;
+        }
+      }
+      this.last = data;
+      if (this.panel) this.panel.title = data ? `Pole split: ${data.design}` : 'Pole split';
+      this.post({ type: 'data', data });
+    } catch (err) {
+      if (cts.token.isCancellationRequested) return;
+      const text = err instanceof Error ? err.message : String(err);
+      this.output.appendLine(`[panel] ${text}`);
+      this.post({ type: 'status', text: `Could not compute the panel: ${text}`, error: true });
+    }
+  }
+
+  private async onMessage(raw: unknown): Promise<void> {
+    const msg = parseWebviewMessage(raw);
+    if (!msg) {
+      this.output.appendLine('[panel] ignored a malformed message from the webview');
+      return;
+    }
+    switch (msg.type) {
+      case 'ready':
+        this.schedule(0);
+        return;
+      case 'slider':
+        this.overrides = { cc: msg.cc, rz: msg.rz };
+        this.schedule(0);
+        return;
+      case 'apply':
+        await this.apply(msg.cc, msg.rz);
+        return;
+      case 'exportPng':
+        await this.save(
+          msg.chart,
+          'png',
+          Buffer.from(msg.dataUrl.slice('data:image/png;base64,'.length), 'base64'),
+        );
+        return;
+      case 'exportCsv':
+        await this.save(msg.chart, 'csv', Buffer.from(msg.csv, 'utf8'));
+        return;
+    }
+  }
+
+  private async apply(cc: number | undefined, rz: number | undefined): Promise<void> {
+    const data = this.last;
+    if (!data || (cc === undefined && rz === undefined)) return;
+    const params: CompensationEditParams = { uri: data.uri, design: data.design, cc, rz };
+    try {
+      const result = await this.server.request<CompensationEditParams, CompensationEditResult>(
+        CompensationEditRequest.method,
+        params,
+      );
+      if (!result || result.edits.length === 0) {
+        void vscode.window.showWarningMessage(
+          `Ampnote: the values could not be written into design ${data.design}.`,
+        );
+        return;
+      }
+      const uri = vscode.Uri.parse(data.uri);
+      const edit = new vscode.WorkspaceEdit();
+      for (const e of result.edits) {
+        edit.replace(
+          uri,
+          new vscode.Range(
+            e.range.start.line,
+            e.range.start.character,
+            e.range.end.line,
+            e.range.end.character,
+          ),
+          e.newText,
+        );
+      }
+      if (await vscode.workspace.applyEdit(edit)) {
+        this.overrides = {};
+        this.schedule(EDIT_MS);
+      }
+    } catch (err) {
+      const text = err instanceof Error ? err.message : String(err);
+      this.output.appendLine(`[panel] apply: ${text}`);
+      void vscode.window.showErrorMessage(`Ampnote: could not write the values: ${text}`);
+    }
+  }
+
+  private async save(chart: ChartId, ext: 'png' | 'csv', bytes: Uint8Array): Promise<void> {
+    const data = this.last;
+    const base = data ? vscode.Uri.parse(data.uri) : undefined;
+    const name = `${(data?.design ?? 'design').replace(/[^\w.-]+/g, '_')}-${CHART_TITLES[chart]}.${ext}`;
+    const folder =
+      base && base.scheme === 'file'
+        ? vscode.Uri.joinPath(base, '..')
+        : vscode.workspace.workspaceFolders?.[0]?.uri;
+    const target = await vscode.window.showSaveDialog({
+      defaultUri: folder ? vscode.Uri.joinPath(folder, name) : undefined,
+      filters: ext === 'png' ? { 'PNG image': ['png'] } : { 'CSV table': ['csv'] },
+      saveLabel: ext === 'png' ? 'Save chart' : 'Save data',
+    });
+    if (!target) return;
+    try {
+      await vscode.workspace.fs.writeFile(target, bytes);
+    } catch (err) {
+      void vscode.window.showErrorMessage(
+        `Ampnote: could not save ${target.fsPath}: ${err instanceof Error ? err.message : String(err)}`,
+      );
+    }
+  }
+}

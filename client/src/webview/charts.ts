@@ -1,0 +1,721 @@
+// The panel's four charts, drawn with chart.js from PanelData alone. No editor API here: the same module is
+// bundled into the webview script and, as a global `AmpnoteCharts`, into the terminal checker's report.
+import {
+  Chart,
+  Filler,
+  Legend,
+  LinearScale,
+  LineElement,
+  LogarithmicScale,
+  PointElement,
+  ScatterController,
+  Tooltip,
+  type ChartConfiguration,
+  type ChartDataset,
+  type Plugin,
+  type Scale,
+  type TooltipItem,
+} from 'chart.js';
+import type { PanelData, PanelPole } from '../../../shared/src/protocol/panelData';
+import type { ChartId } from '../../../shared/src/protocol/webviewMessages';
+import { formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
+import { symlog, symlogInverse, symlogKnee, symlogTicks } from './symlog';
+import { withAlpha, type ChartColors } from './theme';
+
+export { chartCsv } from './chartCsv';
+export { readThemeColors, withAlpha, type ChartColors } from './theme';
+export { symlog, symlogInverse, symlogKnee } from './symlog';
+
+Chart.register(
+  ScatterController,
+  LineElement,
+  PointElement,
+  LinearScale,
+  LogarithmicScale,
+  Tooltip,
+  Legend,
+  Filler,
+);
+
+export const CHART_IDS: readonly ChartId[] = ['locus', 'bode', 'step', 'splane'];
+
+/** What each dataset shows; tests and CSV export find datasets by role, not by position. */
+export type DatasetRole =
+  | 'pole-branch'
+  | 'zero-branch'
+  | 'current-cc'
+  | 'current-pole'
+  | 'current-zero'
+  | 'magnitude'
+  | 'phase'
+  | 'ugf'
+  | 'phase-margin'
+  | 'phase-reference'
+  | 'step'
+  | 'band-low'
+  | 'band-high'
+  | 'settling'
+  | 'pole'
+  | 'zero';
+
+/** A data point keeps the value it stands for beside its plotted position (which may be transformed). */
+export interface PlotPoint {
+  x: number;
+  y: number;
+  /** Swept Cc in farads (locus: the plotted x of Cc = 0 is the axis' left edge). */
+  cc?: number;
+  re?: number;
+  im?: number;
+  pole?: PanelPole;
+  rhp?: boolean;
+}
+
+export type RoleDataset = ChartDataset<'scatter', PlotPoint[]> & { role: DatasetRole };
+
+export type ChartSet = Record<ChartId, Chart<'scatter', PlotPoint[]>>;
+
+export interface DrawOptions {
+  readonly colors: ChartColors;
+  /** Existing charts to update in place (keeps hover state and avoids flicker while a slider moves). */
+  readonly previous?: Partial<ChartSet>;
+}
+
+/** Paints the theme background under each chart, so an exported PNG reads the same as the panel. */
+const backgroundPlugin: Plugin<'scatter'> = {
+  id: 'ampnoteBackground',
+  beforeDraw(chart, _args, opts: { color?: string }) {
+    if (!opts.color) return;
+    const { ctx, width, height } = chart;
+    ctx.save();
+    ctx.fillStyle = opts.color;
+    ctx.fillRect(0, 0, width, height);
+    ctx.restore();
+  },
+};
+
+const finite = (v: number) => Number.isFinite(v);
+
+function extent(values: readonly number[]): [number, number] | undefined {
+  const v = values.filter((x) => finite(x) && x > 0);
+  if (v.length === 0) return undefined;
+  return [Math.min(...v), Math.max(...v)];
+}
+
+function decadeTicks(min: number, max: number): number[] {
+  const out: number[] = [];
+  for (let k = Math.ceil(Math.log10(min) - 1e-9); 10 ** k <= max * (1 + 1e-9); k++) out.push(10 ** k);
+  return out;
+}
+
+function describePole(p: PanelPole, index: number): string[] {
+  const im =
+    Math.abs(p.s.im) > 1e-9 * Math.abs(p.s.re)
+      ? ` ${p.s.im >= 0 ? '+' : '−'} j${formatSi(Math.abs(p.s.im), '')}`
+      : '';
+  const lines = [
+    `pole ${index + 1}: ${formatSi(p.s.re, '')}${im} rad/s`,
+    `|p| = ${formatHz(p.hz)}, ζ = ${p.damping.toFixed(3)}`,
+    p.namedAfter === 'shared' ? 'no single node holds ≥ 80 %' : `named after node ${p.namedAfter}`,
+  ];
+  const parts = p.participation
+    .filter((q) => q.share >= 0.005)
+    .map((q) => `${q.node} ${(100 * q.share).toFixed(1)} %`);
+  if (parts.length > 0) lines.push(`participation: ${parts.join(', ')}`);
+  return lines;
+}
+
+function commonOptions(colors: ChartColors) {
+  return {
+    responsive: true,
+    maintainAspectRatio: false,
+    animation: false as const,
+    color: colors.foreground,
+    font: { family: colors.fontFamily, size: colors.fontSize },
+    interaction: { mode: 'nearest' as const, intersect: true },
+    plugins: {
+      ampnoteBackground: { color: colors.background },
+      legend: {
+        position: 'bottom' as const,
+        labels: {
+          color: colors.foreground,
+          boxWidth: 14,
+          boxHeight: 2,
+          font: { family: colors.fontFamily, size: colors.fontSize - 1 },
+        },
+      },
+      tooltip: {
+        backgroundColor: withAlpha(colors.background, 0.95),
+        titleColor: colors.foreground,
+        bodyColor: colors.foreground,
+        borderColor: colors.grid,
+        borderWidth: 1,
+        titleFont: { family: colors.fontFamily },
+        bodyFont: { family: colors.fontFamily },
+      },
+    },
+  };
+}
+
+function axis(colors: ChartColors, title: string) {
+  return {
+    grid: { color: colors.grid },
+    border: { color: colors.grid },
+    ticks: { color: colors.muted, font: { family: colors.fontFamily, size: colors.fontSize - 1 } },
+    title: {
+      display: true,
+      text: title,
+      color: colors.muted,
+      font: { family: colors.fontFamily, size: colors.fontSize - 1 },
+    },
+  };
+}
+
+function line(
+  role: DatasetRole,
+  label: string,
+  data: PlotPoint[],
+  color: string,
+  extra: Partial<RoleDataset> = {},
+): RoleDataset {
+  return {
+    role,
+    label,
+    data,
+    showLine: true,
+    borderColor: color,
+    backgroundColor: color,
+    borderWidth: 2,
+    pointRadius: 0,
+    pointHoverRadius: 0,
+    pointHitRadius: 0,
+    ...extra,
+  } as RoleDataset;
+}
+
+// ---- (a) pole split -------------------------------------------------------------------------------------
+
+/** Where Cc = 0 is drawn: half a decade left of the smallest swept value. */
+export function zeroCcEdge(data: PanelData): number | undefined {
+  const cc = data.locus.poles.flatMap((s) => s.cc).filter((c) => c > 0);
+  if (cc.length === 0) return undefined;
+  return Math.min(...cc) / Math.sqrt(10);
+}
+
+function locusConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'scatter', PlotPoint[]> {
+  const edge = zeroCcEdge(data);
+  const datasets: RoleDataset[] = [];
+  const px = (cc: number) => (cc > 0 ? cc : (edge ?? cc));
+  data.locus.poles.forEach((s, k) => {
+    const color = colors.series[k % colors.series.length]!;
+    datasets.push(
+      line(
+        'pole-branch',
+        s.label,
+        s.cc.map((cc, i) => ({ x: px(cc), y: s.hz[i]!, cc })),
+        color,
+      ),
+    );
+  });
+  data.locus.zeros.forEach((s, k) => {
+    datasets.push(
+      line(
+        'zero-branch',
+        s.label,
+        s.cc.map((cc, i) => ({ x: px(cc), y: s.hz[i]!, cc, rhp: s.rhp?.[i] })),
+        colors.zero,
+        {
+          borderDash: k % 2 === 0 ? [6, 4] : [2, 3],
+          borderWidth: 1.5,
+        },
+      ),
+    );
+  });
+  const allHz = [...data.locus.poles, ...data.locus.zeros].flatMap((s) => s.hz);
+  const yr = extent(allHz);
+  const cc = data.cc;
+  if (cc !== undefined && cc > 0 && yr) {
+    const [lo, hi] = [yr[0] / 3, yr[1] * 3];
+    datasets.push(
+      line(
+        'current-cc',
+        `Cc = ${formatSi(cc, 'F')}`,
+        [
+          { x: cc, y: lo, cc },
+          { x: cc, y: hi, cc },
+        ],
+        withAlpha(colors.marker, 0.7),
+        {
+          borderDash: [3, 3],
+          borderWidth: 1,
+        },
+      ),
+    );
+    datasets.push({
+      role: 'current-pole',
+      label: 'poles at this Cc',
+      data: data.poles.map((p) => ({ x: cc, y: p.hz, cc, pole: p })),
+      showLine: false,
+      pointStyle: 'crossRot',
+      pointRadius: 7,
+      pointHoverRadius: 9,
+      pointHitRadius: 8,
+      borderWidth: 2,
+      borderColor: colors.marker,
+      backgroundColor: colors.marker,
+    } as RoleDataset);
+    if (data.zeros.length > 0) {
+      datasets.push({
+        role: 'current-zero',
+        label: 'zeros at this Cc',
+        data: data.zeros
+          .filter((z) => z.hz > 0 && finite(z.hz))
+          .map((z) => ({ x: cc, y: z.hz, cc, rhp: z.rhp })),
+        showLine: false,
+        pointStyle: 'circle',
+        pointRadius: 6,
+        pointHoverRadius: 8,
+        pointHitRadius: 8,
+        borderWidth: 2,
+        borderColor: colors.zero,
+        backgroundColor: 'transparent',
+      } as RoleDataset);
+    }
+  }
+  const base = commonOptions(colors);
+  return {
+    type: 'scatter',
+    data: { datasets },
+    plugins: [backgroundPlugin],
+    options: {
+      ...base,
+      scales: {
+        x: {
+          type: 'logarithmic',
+          ...axis(colors, 'compensation capacitor Cc (F)'),
+          min: edge,
+          afterBuildTicks: (scale: Scale) => {
+            if (edge === undefined) return;
+            const max = scale.max;
+            scale.ticks = [{ value: edge }, ...decadeTicks(edge * 2, max).map((value) => ({ value }))];
+          },
+          ticks: {
+            ...axis(colors, '').ticks,
+            callback: (v: string | number) =>
+              edge !== undefined && Math.abs(Number(v) / edge - 1) < 1e-9 ? '0' : formatSi(Number(v), 'F', 2),
+          },
+        },
+        y: {
+          type: 'logarithmic',
+          ...axis(colors, 'pole / zero magnitude (Hz)'),
+          afterBuildTicks: (scale: Scale) => {
+            scale.ticks = decadeTicks(scale.min, scale.max).map((value) => ({ value }));
+          },
+          ticks: { ...axis(colors, '').ticks, callback: (v: string | number) => formatHz(Number(v), 2) },
+        },
+      },
+      plugins: {
+        ...base.plugins,
+        tooltip: {
+          ...base.plugins.tooltip,
+          callbacks: {
+            title: (items: TooltipItem<'scatter'>[]) => {
+              const p = items[0]?.raw as PlotPoint | undefined;
+              return p?.cc === undefined ? '' : `Cc = ${formatSi(p.cc, 'F')}`;
+            },
+            label: (item: TooltipItem<'scatter'>) => {
+              const p = item.raw as PlotPoint;
+              const ds = item.dataset as RoleDataset;
+              if (p.pole) return describePole(p.pole, item.dataIndex);
+              if (ds.role === 'current-cc') return ds.label ?? '';
+              const side = p.rhp === undefined ? '' : p.rhp ? ' (right half-plane)' : ' (left half-plane)';
+              return `${ds.label}: ${formatHz(p.y)}${side}`;
+            },
+          },
+        },
+      },
+    },
+  } as ChartConfiguration<'scatter', PlotPoint[]>;
+}
+
+// ---- (b) loop gain ---------------------------------------------------------------------------------------
+
+function bodeConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'scatter', PlotPoint[]> {
+  const b = data.bode;
+  const mag = b.hz.map((hz, i) => ({ x: hz, y: b.magDb[i]! }));
+  const phase = b.hz.map((hz, i) => ({ x: hz, y: b.phaseDeg[i]! }));
+  const datasets: RoleDataset[] = [
+    line('magnitude', '|L| (dB)', mag, colors.series[0]!, { yAxisID: 'y' }),
+    line('phase', 'phase of L (°)', phase, colors.series[1]!, { yAxisID: 'phase', borderWidth: 1.5 }),
+  ];
+  const dbs = b.magDb.filter(finite);
+  if (b.hz.length > 0) {
+    datasets.push(
+      line(
+        'phase-reference',
+        '−180°',
+        [
+          { x: b.hz[0]!, y: -180 },
+          { x: b.hz[b.hz.length - 1]!, y: -180 },
+        ],
+        withAlpha(colors.series[1]!, 0.45),
+        {
+          yAxisID: 'phase',
+          borderDash: [2, 4],
+          borderWidth: 1,
+        },
+      ),
+    );
+  }
+  if (b.ugfHz !== undefined && dbs.length > 0) {
+    datasets.push(
+      line(
+        'ugf',
+        `UGF ${formatHz(b.ugfHz)}`,
+        [
+          { x: b.ugfHz, y: Math.min(...dbs) },
+          { x: b.ugfHz, y: Math.max(...dbs) },
+        ],
+        withAlpha(colors.marker, 0.7),
+        {
+          yAxisID: 'y',
+          borderDash: [3, 3],
+          borderWidth: 1,
+        },
+      ),
+    );
+    if (b.phaseMarginDeg !== undefined) {
+      datasets.push(
+        line(
+          'phase-margin',
+          `PM ${formatDeg(b.phaseMarginDeg)}`,
+          [
+            { x: b.ugfHz, y: -180 },
+            { x: b.ugfHz, y: b.phaseMarginDeg - 180 },
+          ],
+          colors.band,
+          {
+            yAxisID: 'phase',
+            borderWidth: 4,
+            pointRadius: 3,
+            pointStyle: 'line',
+          },
+        ),
+      );
+    }
+  }
+  const base = commonOptions(colors);
+  const hzTicks = (scale: Scale) => {
+    scale.ticks = decadeTicks(scale.min, scale.max).map((value) => ({ value }));
+  };
+  return {
+    type: 'scatter',
+    data: { datasets },
+    plugins: [backgroundPlugin],
+    options: {
+      ...base,
+      interaction: { mode: 'index', intersect: false, axis: 'x' },
+      scales: {
+        x: {
+          type: 'logarithmic',
+          ...axis(colors, 'frequency (Hz)'),
+          min: b.hz[0],
+          max: b.hz[b.hz.length - 1],
+          afterBuildTicks: hzTicks,
+          ticks: { ...axis(colors, '').ticks, callback: (v: string | number) => formatHz(Number(v), 2) },
+        },
+        y: { type: 'linear', position: 'left', ...axis(colors, 'loop gain (dB)') },
+        phase: {
+          type: 'linear',
+          position: 'right',
+          ...axis(colors, 'phase (°)'),
+          grid: { drawOnChartArea: false, color: colors.grid },
+          ticks: { ...axis(colors, '').ticks, stepSize: 45 },
+        },
+      },
+      plugins: {
+        ...base.plugins,
+        tooltip: {
+          ...base.plugins.tooltip,
+          filter: (item: TooltipItem<'scatter'>) => {
+            const role = (item.dataset as RoleDataset).role;
+            return role === 'magnitude' || role === 'phase';
+          },
+          callbacks: {
+            title: (items: TooltipItem<'scatter'>[]) =>
+              items[0] ? formatHz((items[0].raw as PlotPoint).x) : '',
+            label: (item: TooltipItem<'scatter'>) => {
+              const p = item.raw as PlotPoint;
+              return (item.dataset as RoleDataset).role === 'magnitude'
+                ? `|L| ${p.y.toFixed(2)} dB`
+                : `phase ${p.y.toFixed(1)}°`;
+            },
+          },
+        },
+      },
+    },
+  } as ChartConfiguration<'scatter', PlotPoint[]>;
+}
+
+// ---- (c) closed-loop step ----------------------------------------------------------------------------------
+
+function stepConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'scatter', PlotPoint[]> {
+  const st = data.step;
+  const t0 = st.t[0] ?? 0;
+  const t1 = st.t[st.t.length - 1] ?? 1;
+  const datasets: RoleDataset[] = [
+    line(
+      'step',
+      'output (V per V of input step)',
+      st.t.map((t, i) => ({ x: t, y: st.y[i]! })),
+      colors.series[0]!,
+    ),
+  ];
+  if (st.t.length > 0 && finite(st.final)) {
+    const band = Math.abs(st.final) * st.tolerance;
+    const bandColor = withAlpha(colors.band, 0.8);
+    datasets.push(
+      line(
+        'band-low',
+        `±${(100 * st.tolerance).toPrecision(2)} % band`,
+        [
+          { x: t0, y: st.final - band },
+          { x: t1, y: st.final - band },
+        ],
+        bandColor,
+        {
+          borderWidth: 1,
+          borderDash: [4, 3],
+        },
+      ),
+      line(
+        'band-high',
+        'band (upper)',
+        [
+          { x: t0, y: st.final + band },
+          { x: t1, y: st.final + band },
+        ],
+        bandColor,
+        {
+          borderWidth: 1,
+          borderDash: [4, 3],
+          fill: '-1',
+          backgroundColor: withAlpha(colors.band, 0.18),
+        },
+      ),
+    );
+  }
+  if (st.settlingTime !== undefined && st.y.length > 0) {
+    const ys = st.y.filter(finite);
+    datasets.push(
+      line(
+        'settling',
+        `settled at ${formatSi(st.settlingTime, 's')}`,
+        [
+          { x: st.settlingTime, y: Math.min(0, ...ys) },
+          { x: st.settlingTime, y: Math.max(...ys) },
+        ],
+        withAlpha(colors.marker, 0.7),
+        {
+          borderDash: [3, 3],
+          borderWidth: 1,
+        },
+      ),
+    );
+  }
+  const base = commonOptions(colors);
+  return {
+    type: 'scatter',
+    data: { datasets },
+    plugins: [backgroundPlugin],
+    options: {
+      ...base,
+      interaction: { mode: 'index', intersect: false, axis: 'x' },
+      scales: {
+        x: {
+          type: 'linear',
+          ...axis(colors, 'time (s)'),
+          min: t0,
+          max: t1,
+          ticks: {
+            ...axis(colors, '').ticks,
+            maxTicksLimit: 7,
+            callback: (v: string | number) => formatSi(Number(v), 's', 2),
+          },
+        },
+        y: { type: 'linear', ...axis(colors, 'output') },
+      },
+      plugins: {
+        ...base.plugins,
+        legend: {
+          ...base.plugins.legend,
+          labels: {
+            ...base.plugins.legend.labels,
+            filter: (item: { text: string }) => item.text !== 'band (upper)',
+          },
+        },
+        tooltip: {
+          ...base.plugins.tooltip,
+          filter: (item: TooltipItem<'scatter'>) => (item.dataset as RoleDataset).role === 'step',
+          callbacks: {
+            title: (items: TooltipItem<'scatter'>[]) =>
+              items[0] ? formatSi((items[0].raw as PlotPoint).x, 's') : '',
+            label: (item: TooltipItem<'scatter'>) => `output ${(item.raw as PlotPoint).y.toPrecision(5)}`,
+          },
+        },
+      },
+    },
+  } as ChartConfiguration<'scatter', PlotPoint[]>;
+}
+
+// ---- (d) s-plane ---------------------------------------------------------------------------------------
+
+/** The knee of the symmetric log axes of the s-plane map (rad/s), shared by both axes. */
+export function splaneKnee(data: PanelData): number {
+  return symlogKnee([...data.poles, ...data.zeros].flatMap((r) => [r.s.re, r.s.im]));
+}
+
+function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'scatter', PlotPoint[]> {
+  const v0 = splaneKnee(data);
+  const pt = (re: number, im: number) => ({ x: symlog(re, v0), y: symlog(im, v0), re, im });
+  const zeros = data.zeros.filter((z) => finite(z.s.re) && finite(z.s.im));
+  const datasets: RoleDataset[] = [
+    {
+      role: 'pole',
+      label: 'poles ×',
+      data: data.poles.map((p) => ({ ...pt(p.s.re, p.s.im), pole: p })),
+      showLine: false,
+      pointStyle: 'crossRot',
+      pointRadius: 8,
+      pointHoverRadius: 10,
+      pointHitRadius: 8,
+      borderWidth: 2.5,
+      borderColor: colors.series[0],
+      backgroundColor: colors.series[0],
+    } as RoleDataset,
+    {
+      role: 'zero',
+      label: 'zeros ○',
+      data: zeros.map((z) => ({ ...pt(z.s.re, z.s.im), rhp: z.rhp })),
+      showLine: false,
+      pointStyle: 'circle',
+      pointRadius: 7,
+      pointHoverRadius: 9,
+      pointHitRadius: 8,
+      borderWidth: 2,
+      borderColor: colors.zero,
+      backgroundColor: 'transparent',
+    } as RoleDataset,
+  ];
+  const xs = datasets.flatMap((d) => d.data.map((p) => p.x));
+  const ys = datasets.flatMap((d) => d.data.map((p) => Math.abs(p.y)));
+  const xMin = Math.min(-1, ...xs) - 0.5;
+  const xMax = Math.max(1, ...xs) + 0.5;
+  const yMax = Math.max(1, ...ys) + 0.5;
+  const maxAbs = symlogInverse(Math.max(-xMin, xMax, yMax), v0);
+  const ticks = symlogTicks(v0, maxAbs);
+  const label = (t: number) => {
+    const v = symlogInverse(t, v0);
+    return Math.abs(t) < 1e-12 ? '0' : formatSi(v, '', 1);
+  };
+  const base = commonOptions(colors);
+  const symAxis = (title: string, min: number, max: number) => ({
+    type: 'linear' as const,
+    ...axis(colors, title),
+    min,
+    max,
+    afterBuildTicks: (scale: Scale) => {
+      scale.ticks = ticks.filter((t) => t >= min && t <= max).map((value) => ({ value }));
+    },
+    ticks: { ...axis(colors, '').ticks, callback: (v: string | number) => label(Number(v)) },
+    grid: {
+      color: (ctx: { tick?: { value: number } }) =>
+        ctx.tick && Math.abs(ctx.tick.value) < 1e-12 ? withAlpha(colors.foreground, 0.6) : colors.grid,
+    },
+  });
+  return {
+    type: 'scatter',
+    data: { datasets },
+    plugins: [backgroundPlugin],
+    options: {
+      ...base,
+      scales: {
+        x: symAxis('σ = Re s (rad/s, symmetric log)', xMin, xMax),
+        y: symAxis('jω = Im s (rad/s, symmetric log)', -yMax, yMax),
+      },
+      plugins: {
+        ...base.plugins,
+        tooltip: {
+          ...base.plugins.tooltip,
+          callbacks: {
+            label: (item: TooltipItem<'scatter'>) => {
+              const p = item.raw as PlotPoint;
+              if (p.pole) return describePole(p.pole, item.dataIndex);
+              const hz = Math.hypot(p.re ?? 0, p.im ?? 0) / (2 * Math.PI);
+              return [
+                `zero: ${formatSi(p.re ?? 0, '')} ${(p.im ?? 0) >= 0 ? '+' : '−'} j${formatSi(Math.abs(p.im ?? 0), '')} rad/s`,
+                `|z| = ${formatHz(hz)}${p.rhp ? ', right half-plane' : ''}`,
+              ];
+            },
+          },
+        },
+      },
+    },
+  } as ChartConfiguration<'scatter', PlotPoint[]>;
+}
+
+const BUILDERS: Record<
+  ChartId,
+  (d: PanelData, c: ChartColors) => ChartConfiguration<'scatter', PlotPoint[]>
+> = {
+  locus: locusConfig,
+  bode: bodeConfig,
+  step: stepConfig,
+  splane: splaneConfig,
+};
+
+/** The canvas for a chart: `#chart-<id>` inside root, created (in a sized box) when the page has none. */
+function canvasFor(root: ParentNode, id: ChartId): HTMLCanvasElement {
+  const found = root.querySelector<HTMLCanvasElement>(`#chart-${id}`);
+  if (found) return found;
+  const box = document.createElement('div');
+  box.className = 'canvas-box';
+  box.style.position = 'relative';
+  box.style.height = '280px';
+  const canvas = document.createElement('canvas');
+  canvas.id = `chart-${id}`;
+  box.appendChild(canvas);
+  (root as Element).appendChild(box);
+  return canvas;
+}
+
+/**
+ * Draws (or redraws in place) the four charts from one PanelData. Returns the Chart objects, keyed by chart,
+ * so callers can export them and tests can read back what is drawn.
+ */
+export function drawCharts(root: ParentNode, data: PanelData, options: DrawOptions): ChartSet {
+  const out = {} as ChartSet;
+  for (const id of CHART_IDS) {
+    const config = BUILDERS[id](data, options.colors);
+    const existing = options.previous?.[id];
+    if (existing && existing.canvas && existing.canvas.isConnected) {
+      existing.data = config.data;
+      existing.options = config.options ?? {};
+      existing.update('none');
+      out[id] = existing;
+    } else {
+      const canvas = canvasFor(root, id);
+      Chart.getChart(canvas)?.destroy();
+      out[id] = new Chart(canvas, config);
+    }
+  }
+  return out;
+}
+
+export function destroyCharts(charts: Partial<ChartSet>): void {
+  for (const id of CHART_IDS) charts[id]?.destroy();
+}
+
+/** Datasets of one role, for export and for tests. */
+export function datasetsByRole(chart: Chart<'scatter', PlotPoint[]>, role: DatasetRole): RoleDataset[] {
+  return (chart.data.datasets as RoleDataset[]).filter((d) => d.role === role);
+}

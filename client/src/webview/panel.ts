@@ -1,0 +1,298 @@
+// The panel's script inside the webview: renders PanelData sent by the extension host, runs the Cc/Rz
+// sliders, exports, keeps its state across hide/show, and follows the theme. Every string the user wrote
+// (design names, messages quoting the file) is inserted with textContent.
+import type { PanelData } from '../../../shared/src/protocol/panelData';
+import type {
+  ChartId,
+  HostToWebview,
+  PanelState,
+  WebviewToHost,
+} from '../../../shared/src/protocol/webviewMessages';
+import { formatDb, formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
+import { chartCsv, CHART_IDS, drawCharts, readThemeColors, type ChartSet } from './charts';
+import { positionToValue, valueToPosition } from './sliderScale';
+
+interface VsCodeApi {
+  postMessage(message: WebviewToHost): void;
+  getState(): PanelState | undefined;
+  setState(state: PanelState): void;
+}
+declare function acquireVsCodeApi(): VsCodeApi;
+
+declare global {
+  interface Window {
+    /** The live Chart objects, for tests and for debugging in the webview's developer tools. */
+    __ampnoteCharts?: Partial<ChartSet>;
+    __ampnoteData?: PanelData | null;
+  }
+}
+
+const vscode = acquireVsCodeApi();
+const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as T;
+
+const ui = {
+  app: $('app'),
+  name: $('design-name'),
+  uri: $('design-uri'),
+  summary: $('summary'),
+  problems: $('problems'),
+  emptyNote: $('empty-note'),
+  grid: $('grid'),
+  caution: $('caution'),
+  controls: $('controls'),
+  ccSlider: $<HTMLInputElement>('cc-slider'),
+  ccValue: $<HTMLOutputElement>('cc-value'),
+  rzSlider: $<HTMLInputElement>('rz-slider'),
+  rzValue: $<HTMLOutputElement>('rz-value'),
+  rzBox: $('rz-box'),
+  apply: $<HTMLButtonElement>('apply'),
+  reset: $<HTMLButtonElement>('reset'),
+  status: $('slider-status'),
+};
+
+let state: PanelState = vscode.getState() ?? { selected: 'locus' };
+let data: PanelData | null = null;
+let charts: Partial<ChartSet> = {};
+let designKey = '';
+/** A slider value waiting to be sent while the previous request is still answering. */
+let pending: { cc?: number; rz?: number } | undefined;
+let inFlight = false;
+
+function saveState(next: Partial<PanelState>): void {
+  state = { ...state, ...next };
+  vscode.setState(state);
+}
+
+function post(message: WebviewToHost): void {
+  vscode.postMessage(message);
+}
+
+// ---- rendering ---------------------------------------------------------------------------------------
+
+function setText(el: HTMLElement, text: string): void {
+  el.textContent = text;
+}
+
+function renderSummary(d: PanelData): void {
+  ui.summary.replaceChildren();
+  const items: [string, string][] = [
+    ['UGF', d.summary.ugfHz !== undefined ? formatHz(d.summary.ugfHz) : '—'],
+    ['PM', d.summary.phaseMarginDeg !== undefined ? formatDeg(d.summary.phaseMarginDeg) : '—'],
+    ['GM', d.summary.gainMarginDb !== undefined ? formatDb(d.summary.gainMarginDb) : '—'],
+    ['DC gain', Number.isFinite(d.summary.dcGainDb) ? formatDb(d.summary.dcGainDb) : '—'],
+    ['slew', d.summary.slewVperUs !== undefined ? `${d.summary.slewVperUs.toPrecision(3)} V/µs` : '—'],
+  ];
+  for (const [k, v] of items) {
+    const box = document.createElement('div');
+    const dt = document.createElement('dt');
+    const dd = document.createElement('dd');
+    dt.textContent = k;
+    dd.textContent = v;
+    box.append(dt, dd);
+    ui.summary.appendChild(box);
+  }
+}
+
+function renderProblems(d: PanelData): void {
+  ui.problems.replaceChildren();
+  for (const p of d.problems) {
+    const li = document.createElement('li');
+    li.textContent = p;
+    ui.problems.appendChild(li);
+  }
+}
+
+function renderNotes(d: PanelData): void {
+  const notes: Record<ChartId, string> = {
+    locus: d.compensation
+      ? `Cc from 0 (left edge) to ${formatSi(d.locus.poles[0]?.cc.at(-1) ?? 0, 'F')}; × marks the poles at the Cc shown, ○ the zeros. Hover a pole for its node participation.`
+      : 'This design has no compensation capacitor to sweep.',
+    bode:
+      d.bode.ugfHz !== undefined
+        ? `Unity crossing at ${formatHz(d.bode.ugfHz)}${d.bode.crossings.length > 1 ? ` (the last of ${d.bode.crossings.length} crossings)` : ''}.`
+        : 'The loop gain never reaches unity.',
+    step:
+      d.step.t.length === 0
+        ? 'No step response for this design.'
+        : d.step.settlingTime !== undefined
+          ? `Settles into ±${(100 * d.step.tolerance).toPrecision(2)} % in ${formatSi(d.step.settlingTime, 's')}; overshoot ${d.step.overshootPct.toFixed(1)} %.`
+          : `Does not settle into ±${(100 * d.step.tolerance).toPrecision(2)} % within the time shown.`,
+    splane:
+      'Axes are symmetric-logarithmic: sign(v)·log10(1 + |v|/v0), with v0 a decade below the smallest root.',
+  };
+  for (const id of CHART_IDS) setText($(`note-${id}`), notes[id]);
+}
+
+function renderSliders(d: PanelData): void {
+  const s = d.sliders;
+  ui.controls.classList.toggle('hidden', !s || !d.compensation);
+  if (!s || !d.compensation) return;
+  const cc = d.cc ?? d.compensation.ccWritten;
+  ui.ccSlider.value = String(valueToPosition(cc, s.cc, false));
+  setText(ui.ccValue, formatSi(cc, 'F'));
+  ui.rzBox.classList.toggle('hidden', d.compensation.kind !== 'miller');
+  const rz = d.rz ?? d.compensation.rzWritten ?? 0;
+  ui.rzSlider.value = String(valueToPosition(rz, s.rz, true));
+  setText(ui.rzValue, rz > 0 ? formatSi(rz, 'ohm') : 'none');
+  const changed = state.cc !== undefined || state.rz !== undefined;
+  ui.apply.disabled = !changed;
+  ui.reset.disabled = !changed;
+}
+
+function layout(): void {
+  for (const id of CHART_IDS) $(`card-${id}`).classList.toggle('selected', id === state.selected);
+}
+
+function render(d: PanelData | null): void {
+  data = d;
+  window.__ampnoteData = d;
+  ui.app.classList.toggle('empty', d === null);
+  if (d === null) {
+    setText(ui.name, 'No design');
+    setText(ui.uri, '');
+    ui.summary.replaceChildren();
+    ui.problems.replaceChildren();
+    return;
+  }
+  const key = `${d.uri}#${d.design}`;
+  if (designKey === '') designKey = key;
+  if (designKey !== '' && key !== designKey) {
+    designKey = key;
+    if (state.cc !== undefined || state.rz !== undefined) saveState({ cc: undefined, rz: undefined });
+  }
+  setText(ui.name, d.design);
+  setText(ui.uri, decodeURIComponent(d.uri.replace(/^.*\//, '')));
+  setText(ui.caution, d.caution);
+  renderSummary(d);
+  renderProblems(d);
+  renderNotes(d);
+  renderSliders(d);
+  layout();
+  charts = drawCharts(ui.grid, d, { colors: readThemeColors(document.body), previous: charts });
+  window.__ampnoteCharts = charts;
+}
+
+function redrawForTheme(): void {
+  if (!data) return;
+  charts = drawCharts(ui.grid, data, { colors: readThemeColors(document.body), previous: charts });
+  window.__ampnoteCharts = charts;
+}
+
+// ---- sliders ------------------------------------------------------------------------------------------
+
+function sliderValues(): { cc?: number; rz?: number } {
+  const s = data?.sliders;
+  if (!s) return {};
+  return {
+    cc: positionToValue(Number(ui.ccSlider.value), s.cc, false),
+    rz:
+      data?.compensation?.kind === 'miller'
+        ? positionToValue(Number(ui.rzSlider.value), s.rz, true)
+        : undefined,
+  };
+}
+
+function sendSlider(values: { cc?: number; rz?: number }): void {
+  if (inFlight) {
+    pending = values;
+    return;
+  }
+  inFlight = true;
+  setText(ui.status, 'computing…');
+  post({ type: 'slider', ...values });
+}
+
+function onSliderInput(): void {
+  const v = sliderValues();
+  if (v.cc !== undefined) setText(ui.ccValue, formatSi(v.cc, 'F'));
+  if (v.rz !== undefined) setText(ui.rzValue, v.rz > 0 ? formatSi(v.rz, 'ohm') : 'none');
+  saveState({ cc: v.cc, rz: v.rz });
+  ui.apply.disabled = false;
+  ui.reset.disabled = false;
+  sendSlider(v);
+}
+
+ui.ccSlider.addEventListener('input', onSliderInput);
+ui.rzSlider.addEventListener('input', onSliderInput);
+ui.apply.addEventListener('click', () => {
+  const v = sliderValues();
+  post({
+    type: 'apply',
+    cc: state.cc !== undefined ? v.cc : undefined,
+    rz: state.rz !== undefined ? v.rz : undefined,
+  });
+  // The file now holds these values; the next data from the host shows them as written.
+  saveState({ cc: undefined, rz: undefined });
+  ui.apply.disabled = true;
+  ui.reset.disabled = true;
+});
+ui.reset.addEventListener('click', () => {
+  saveState({ cc: undefined, rz: undefined });
+  sendSlider({});
+});
+
+// ---- chart tools (event delegation: no inline handlers) ---------------------------------------------------
+
+ui.grid.addEventListener('click', (ev) => {
+  const button = (ev.target as HTMLElement).closest<HTMLButtonElement>('button[data-action]');
+  if (!button) return;
+  const chart = button.dataset.chart as ChartId;
+  switch (button.dataset.action) {
+    case 'select':
+      saveState({ selected: chart });
+      layout();
+      // The canvases changed size with the layout; chart.js follows on its own resize observer.
+      break;
+    case 'png': {
+      const c = charts[chart];
+      if (c) post({ type: 'exportPng', chart, dataUrl: c.toBase64Image('image/png', 1) });
+      break;
+    }
+    case 'csv':
+      if (data) post({ type: 'exportCsv', chart, csv: chartCsv(chart, data) });
+      break;
+  }
+});
+
+// ---- messages from the host -----------------------------------------------------------------------------
+
+window.addEventListener('message', (event: MessageEvent<HostToWebview>) => {
+  const msg = event.data;
+  if (!msg || typeof msg !== 'object') return;
+  switch (msg.type) {
+    case 'data': {
+      inFlight = false;
+      setText(ui.status, '');
+      ui.status.classList.remove('error');
+      render(msg.data);
+      if (pending) {
+        const next = pending;
+        pending = undefined;
+        sendSlider(next);
+      }
+      break;
+    }
+    case 'theme':
+      redrawForTheme();
+      break;
+    case 'restore':
+      saveState(msg.state);
+      layout();
+      break;
+    case 'status':
+      if (msg.error) inFlight = false;
+      setText(ui.status, msg.text);
+      ui.status.classList.toggle('error', msg.error === true);
+      break;
+  }
+});
+
+// The host sets the theme as classes on <body>; redraw when they change (the CSS variables change with them).
+new MutationObserver(() => redrawForTheme()).observe(document.body, {
+  attributes: true,
+  attributeFilter: ['class'],
+});
+
+layout();
+post({ type: 'ready' });
+if (state.cc !== undefined || state.rz !== undefined) post({ type: 'slider', cc: state.cc, rz: state.rz });
