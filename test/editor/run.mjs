@@ -2,12 +2,11 @@
 // extension, driven three ways — the extension-host suite with the real `vscode` API, the UI through
 // Chromium, and the packaged .vsix installed as a user would. Prints `N passed, N failed` last.
 import { spawnSync } from 'node:child_process';
-import { cpSync, existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { editorDir, installEditor, installVsix, root, startEditor } from '../../scripts/editor.mjs';
 import { launchBrowser, openWorkbench, poll, screenshot } from './lib/browser.mjs';
-import { checkerExpectations, exampleFiles } from './lib/expectations.mjs';
-import { bundleSuite } from './lib/suiteBundle.mjs';
+import { expectationsFor, scratchWorkspace, suiteFiles } from './lib/prepare.mjs';
 import { Tally } from './lib/tally.mjs';
 import { uiChecks, smokeChecks } from './lib/uiChecks.mjs';
 
@@ -55,10 +54,10 @@ async function main() {
   mkdirSync(OUTPUT, { recursive: true });
 
   step('build');
-  if (!['dist/client.js', 'dist/server.js'].every((f) => existsSync(join(root, f))) || process.env.CI) {
+  if (buildIsStale()) {
     const b = spawnSync('npm', ['run', 'build'], { cwd: root, stdio: 'inherit' });
     if (b.status !== 0) throw new Error('npm run build failed');
-  }
+  } else console.log('  dist/ is newer than the sources; not rebuilt');
 
   step('editor install');
   const installed = await tally.check(
@@ -68,41 +67,27 @@ async function main() {
   );
   if (!installed) return;
 
-  // A scratch copy of the examples: the checks edit and save files, never the project's own.
-  const workspace = join(WORK, 'examples');
-  rmSync(WORK, { recursive: true, force: true });
-  mkdirSync(WORK, { recursive: true });
-  cpSync(join(root, 'examples'), workspace, { recursive: true });
-  const files = exampleFiles(workspace);
-
   step('expectations from the terminal checker');
-  const expected = await tally.check(
-    `the terminal checker reports on ${files.length} example(s)`,
-    async () => {
-      if (files.length === 0) throw new Error('examples/ has no .ampnote files');
-      return checkerExpectations(root, workspace);
-    },
+  const prepared = await tally.check('the examples are copied into a scratch workspace', async () =>
+    scratchWorkspace(root, WORK),
+  );
+  if (!prepared) return;
+  const { workspace, files } = prepared;
+  const expected = await tally.check(`the terminal checker reports on ${files.length} example(s)`, async () =>
+    expectationsFor(root, workspace),
   );
   if (!expected) return;
   for (const e of expected) {
     const counts = countBy(e.findings.map((f) => `${f.code}/${f.severity}`));
     console.log(`  ${e.file}: ${e.findings.length} finding(s) ${JSON.stringify(counts)}`);
   }
-
-  const suiteDir = join(editorDir, 'suite');
-  const suiteEntry = await bundleSuite(root, suiteDir);
-  const resultsFile = join(suiteDir, 'results.json');
-  const configFile = join(suiteDir, 'config.json');
-  const writeConfig = (mode) => {
-    rmSync(resultsFile, { force: true });
-    writeFileSync(configFile, JSON.stringify({ mode, workspace, results: resultsFile, expected }, null, 2));
-  };
+  const suite = await suiteFiles(root, join(editorDir, 'suite'), workspace, expected);
 
   step('editor start');
   const editor = await startEditor({
     profile: 'dev',
     fresh: true,
-    env: { AMPNOTE_EDITOR_SUITE: configFile },
+    env: { AMPNOTE_EDITOR_SUITE: suite.config },
   });
   running.push(editor);
   console.log(`  code-server on ${editor.url}`);
@@ -110,8 +95,8 @@ async function main() {
   running.push({ stop: () => browser.close() });
 
   step('extension-host suite (real vscode API)');
-  writeConfig('full');
-  await hostSuite(browser, editor, workspace, suiteEntry, resultsFile, root, 'host');
+  suite.writeConfig('full');
+  await hostSuite(browser, editor, workspace, suite.entry, suite.results, root, 'host');
 
   step('UI through Chromium');
   {
@@ -160,9 +145,21 @@ async function main() {
     profile: 'packaged',
     fresh: true,
     extensionsDir: packagedDir,
-    env: { AMPNOTE_EDITOR_SUITE: configFile },
+    env: { AMPNOTE_EDITOR_SUITE: suite.config },
   });
   running.push(packaged);
+  // Tests run only in a development window; a manifest-only extension opens one without shadowing the
+  // installed package, which is what the smoke suite then exercises.
+  suite.writeConfig('smoke');
+  await hostSuite(
+    browser,
+    packaged,
+    workspace,
+    suite.entry,
+    suite.results,
+    testHostExtension(),
+    'packaged host',
+  );
   {
     const consoleLines = [];
     const page = await openWorkbench(browser, packaged.pageUrl({ folder: workspace }), { consoleLines });
@@ -214,6 +211,35 @@ async function hostSuite(browser, editor, workspace, suiteEntry, resultsFile, ex
   } else if (exitCode !== undefined && (exitCode === 0) !== results.every((r) => r.ok)) {
     tally.fail(`${label}: the extension host's exit code agrees with the checks`, `exit ${exitCode}`);
   }
+}
+
+/** An extension with only a manifest: no code, no contributions. */
+function testHostExtension() {
+  const dir = join(editorDir, 'test-host-extension');
+  mkdirSync(dir, { recursive: true });
+  const manifest = {
+    name: 'ampnote-editor-tests-host',
+    publisher: 'ampnote-tests',
+    version: '0.0.0',
+    description: 'Opens a development window so the suite can run against the installed package.',
+    engines: { vscode: '^1.91.0' },
+  };
+  writeFileSync(join(dir, 'package.json'), JSON.stringify(manifest, null, 2));
+  return dir;
+}
+
+/** True when a bundle is missing or any source file is newer than the oldest bundle. */
+function buildIsStale() {
+  const bundles = ['dist/client.js', 'dist/server.js', 'dist/cli.js'].map((f) => join(root, f));
+  if (!bundles.every((f) => existsSync(f))) return true;
+  const built = Math.min(...bundles.map((f) => statSync(f).mtimeMs));
+  const newer = (dir) =>
+    existsSync(dir) &&
+    readdirSync(dir, { recursive: true }).some((f) => statSync(join(dir, String(f))).mtimeMs > built);
+  return ['client/src', 'server/src', 'shared/src', 'package.json'].some((d) => {
+    const p = join(root, d);
+    return d.endsWith('.json') ? statSync(p).mtimeMs > built : newer(p);
+  });
 }
 
 function countBy(items) {

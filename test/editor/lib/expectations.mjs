@@ -37,7 +37,38 @@ export function checkerExpectations(root, workspace) {
     file,
     source: 'ampnote check --format json',
     ...fromReport(json, file, workspace),
+    designs: designsOf(cli, workspace, file),
   }));
+}
+
+/** Each design's place, nominal poles and loop figures from `ampnote analyze FILE --json`. */
+function designsOf(cli, workspace, file) {
+  const r = spawnSync(process.execPath, [cli, 'analyze', file, '--json', '--quiet'], {
+    cwd: workspace,
+    encoding: 'utf8',
+    timeout: 60_000,
+  });
+  let json;
+  try {
+    json = JSON.parse(r.stdout);
+  } catch {
+    throw new Error(
+      `ampnote analyze ${file} --json printed no JSON (exit ${r.status}):\n${(r.stderr || r.stdout).slice(0, 2000)}`,
+    );
+  }
+  return (json.designs ?? []).map((d) => {
+    const nominal = d.corners?.[0];
+    return {
+      name: d.name,
+      range: d.range,
+      polesHz: (nominal?.poles ?? []).map((p) => p.hz).filter((hz) => typeof hz === 'number'),
+      phaseMarginDeg: {
+        nominal: nominal?.loop?.phaseMarginDeg ?? null,
+        worst: d.worst?.phaseMarginDeg?.value ?? null,
+      },
+      ugfHz: { nominal: nominal?.loop?.ugfHz ?? null, worst: d.worst?.ugfHz?.value ?? null },
+    };
+  });
 }
 
 /** Findings (and pole frequencies per Miller line, when reported) of one file in the checker's JSON. */

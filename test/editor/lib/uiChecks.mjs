@@ -136,7 +136,17 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
       return items.find((t) => /PM/.test(t) && /\d/.test(t));
     });
     console.log(`        status bar item: "${text.replace(/\s+/g, ' ').trim()}"`);
-    if (!/[-−]?\d+(\.\d+)?\s*°/.test(text)) throw new Error(`no phase margin in degrees in "${text}"`);
+    const m = text.match(/PM\s*([-−]?\d+(?:\.\d+)?)\s*°/);
+    if (!m) throw new Error(`no phase margin in degrees in "${text}"`);
+    const shown = Number(m[1].replace('−', '-'));
+    const line = Math.max(0, millerLine);
+    const design = show.designs.find((d) => d.range.start.line <= line && line <= d.range.end.line);
+    if (!design) throw new Error(`the checker knows no design around line ${line + 1}`);
+    // Shown with one decimal: within 0.05° of the nominal or the worst-corner value the checker computes.
+    const near = (v) => v !== null && Math.abs(v - shown) <= 0.051;
+    if (!near(design.phaseMarginDeg.nominal) && !near(design.phaseMarginDeg.worst)) {
+      throw new Error(`status bar PM ${shown}° but the checker has ${JSON.stringify(design.phaseMarginDeg)} for ${design.name}`);
+    }
   });
 
   let frame;
@@ -152,9 +162,15 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     await screenshot(page, output, 'panel');
   });
 
+  await tally.check('UI: the panel carries the small-signal caution', async () => {
+    if (!frame) throw new Error('the panel did not open');
+    const text = await frame.locator('#caution').innerText({ timeout: 10_000 });
+    if (!/small-signal/i.test(text)) throw new Error(`caution reads "${text}"`);
+  });
+
   await tally.check('UI: moving the Cc slider redraws the poles', async () => {
     if (!frame) throw new Error('the panel did not open');
-    const slider = frame.locator('input[type=range]').first();
+    const slider = frame.locator('#cc-slider');
     await slider.waitFor({ state: 'visible', timeout: 10_000 });
     const before = await panelFingerprint(frame);
     const { min, max, value } = await slider.evaluate((el) => ({
@@ -162,17 +178,32 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
       max: el.max,
       value: el.value,
     }));
-    const target = Number(value) === Number(max) ? min : max;
+    // Far from where it is, so the poles move visibly.
+    const target = Number(value) - Number(min) > Number(max) - Number(value) ? min : max;
     await slider.fill(String(target));
-    await poll(
-      'the charts to change after the slider moved',
+    const after = await poll(
+      'the pole-zero map and the summary to change after the slider moved',
       async () => {
         const now = await panelFingerprint(frame);
-        return now.text !== before.text || now.ink !== before.ink ? now : undefined;
+        return now.splane !== before.splane && now.summary !== before.summary ? now : undefined;
       },
       20_000,
     );
+    console.log(`        summary before: ${before.summary.replace(/\s+/g, ' ')}`);
+    console.log(`        summary after:  ${after.summary.replace(/\s+/g, ' ')}`);
     await screenshot(page, output, 'panel-slider');
+  });
+
+  await tally.check('UI: Analyze File lists the designs with their phase margin', async () => {
+    await runCommand(page, commandTitle(root, 'ampnote.analyzeFile'));
+    const rows = page.locator('.quick-input-widget .monaco-list-row');
+    const texts = await poll('the list of designs', async () => {
+      const t = await rows.allInnerTexts();
+      return t.length > 0 && t.every((x) => /PM/.test(x)) ? t : undefined;
+    });
+    console.log(`        ${texts.map((t) => t.replace(/\s+/g, ' ')).join(' | ')}`);
+    await screenshot(page, output, 'analyze-file');
+    await page.keyboard.press('Escape');
   });
 }
 
@@ -209,16 +240,16 @@ async function canvasInk(frame) {
   });
 }
 
-/** The panel's text and a checksum of its drawn pixels: either changes when the poles move. */
+/** A checksum of the pole-zero map's pixels and the summary's text: both change when the poles move. */
 async function panelFingerprint(frame) {
   return frame.locator('body').evaluate(() => {
     let sum = 0;
-    for (const c of document.querySelectorAll('canvas')) {
-      const ctx = c.getContext('2d');
-      if (!ctx || c.width === 0) continue;
+    const c = document.getElementById('chart-splane');
+    const ctx = c && c.width > 0 ? c.getContext('2d') : null;
+    if (ctx) {
       const d = ctx.getImageData(0, 0, c.width, c.height).data;
-      for (let i = 0; i < d.length; i += 97) sum = (sum * 31 + d[i]) % 1_000_000_007;
+      for (let i = 0; i < d.length; i += 7) sum = (sum * 31 + d[i]) % 1_000_000_007;
     }
-    return { text: document.body.innerText, ink: sum };
+    return { splane: sum, summary: document.getElementById('summary')?.innerText ?? '' };
   });
 }

@@ -18,6 +18,17 @@ export interface ExpectedFile {
   /** Where the expectation comes from, for failure messages (e.g. `ampnote check --format json`). */
   readonly source: string;
   readonly findings: readonly ExpectedFinding[];
+  /** Each design's place and figures, from `ampnote analyze FILE --json`. */
+  readonly designs: readonly ExpectedDesign[];
+}
+
+export interface ExpectedDesign {
+  readonly name: string;
+  readonly range: ExpectedFinding['range'];
+  /** Nominal poles, |s|/2π in Hz. */
+  readonly polesHz: readonly number[];
+  readonly phaseMarginDeg: { readonly nominal: number | null; readonly worst: number | null };
+  readonly ugfHz: { readonly nominal: number | null; readonly worst: number | null };
 }
 
 export interface SuiteConfig {
