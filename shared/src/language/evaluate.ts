@@ -1,0 +1,898 @@
+// Design syntax → typed design models (nominal and one per corner) and the names the design declares.
+// Errors are reported where they are made, once: a statement that fails adds nothing to the model, and
+// whatever depends on it stays silent.
+import { si, type Amperes, type Farads, type Ohms } from '../units';
+import { DiagnosticSink, quote } from './diagnostics';
+import { evaluate, forEachRef, type Expr, type Quantity } from './expression';
+import { tokenRange, type Token } from './lexer';
+import type {
+  BufferedCap,
+  CornerSource,
+  DesignModel,
+  Element,
+  FieldOrigin,
+  Load,
+  Miller,
+  NodeDecl,
+  NodeName,
+  NodeRef,
+  Origin,
+  Param,
+  Requirement,
+  Stage,
+  SymbolInfo,
+} from './model';
+import { checkValue, type ValueRole } from './plausibility';
+import type { SourceRange } from './source';
+import { RESERVED_NAMES } from './parseStatement';
+import type { DesignSyntax, OverrideSyntax, Statement } from './syntax';
+import {
+  DIM,
+  describeDimension,
+  dimensionName,
+  isDimensionless,
+  sameDimension,
+  type Dimension,
+  type NamedDimension,
+} from './unitTable';
+import { closest, FIELDS_BY_STATEMENT, REQUIRED_FIELDS, REQUIREMENT_DIMENSIONS } from './vocabulary';
+
+type StatementOf<K extends Statement['kind']> = Extract<Statement, { kind: K }>;
+
+interface Declaration {
+  readonly kind: 'param' | 'stage' | 'node';
+  readonly token: Token;
+  readonly statement: Statement;
+}
+
+export interface DesignResult {
+  readonly nominal?: DesignModel;
+  readonly corners: CornerSource[];
+  readonly symbols: SymbolInfo[];
+}
+
+const node = (name: string): NodeName => name as NodeName;
+
+/** Everything about a design that does not change between corners. */
+class DesignScope {
+  readonly decls = new Map<string, Declaration>();
+  readonly corners = new Map<string, StatementOf<'corner'>>();
+  /** Statements left out of every model: broken, or a duplicate declaration. */
+  readonly skipped = new Set<Statement>();
+  readonly stages: StatementOf<'stage'>[] = [];
+  readonly params = new Map<string, StatementOf<'param'>>();
+
+  constructor(
+    readonly design: DesignSyntax,
+    readonly sink: DiagnosticSink,
+  ) {
+    for (const s of design.statements) {
+      if (s.broken) this.skipped.add(s);
+      switch (s.kind) {
+        case 'param':
+          if (s.name && this.declare('param', s.name, s, true)) this.params.set(s.name.text, s);
+          break;
+        case 'stage':
+          if (s.name && this.declare('stage', s.name, s, false)) this.stages.push(s);
+          else this.skipped.add(s);
+          break;
+        case 'node':
+          for (const n of s.names) this.declare('node', n, s, false);
+          break;
+        case 'corner':
+          if (!s.name) break;
+          if (RESERVED_NAMES.has(s.name.text)) {
+            sink.error(
+              'syntax',
+              `${quote(s.name.text)} is a keyword and cannot name a corner.`,
+              tokenRange(s.name),
+            );
+          } else if (this.corners.has(s.name.text)) {
+            const first = this.corners.get(s.name.text)!;
+            sink.error('reference', `Corner ${quote(s.name.text)} is already declared.`, tokenRange(s.name), [
+              { range: tokenRange(first.name!), message: `first declaration of ${quote(s.name.text)}` },
+            ]);
+            this.skipped.add(s);
+          } else this.corners.set(s.name.text, s);
+          break;
+        default:
+          break;
+      }
+    }
+  }
+
+  private declare(kind: Declaration['kind'], token: Token, statement: Statement, isParam: boolean): boolean {
+    const name = token.text;
+    if (RESERVED_NAMES.has(name) || (isParam && name === 'out')) {
+      const what = name === 'in' || name === 'gnd' || name === 'out' ? 'a built-in node' : 'a keyword';
+      this.sink.error(
+        'syntax',
+        `${quote(name)} is ${what} and cannot be declared as a ${kind}.`,
+        tokenRange(token),
+      );
+      this.skipped.add(statement);
+      return false;
+    }
+    const first = this.decls.get(name);
+    if (first) {
+      this.sink.error(
+        'reference',
+        `${quote(name)} is already declared (as a ${first.kind}).`,
+        tokenRange(token),
+        [{ range: tokenRange(first.token), message: `first declaration of ${quote(name)}` }],
+      );
+      if (kind !== 'node') this.skipped.add(statement);
+      return false;
+    }
+    this.decls.set(name, { kind, token, statement });
+    return true;
+  }
+
+  /** True when the text mentions `out` as a node anywhere (it is then a node of the design). */
+  mentionsOut(): boolean {
+    if (this.decls.has('out')) return false;
+    return this.design.statements.some((s) => nodeTokens(s).some((t) => t.text === 'out'));
+  }
+}
+
+/** The node names a statement refers to (not the ones it declares). */
+function nodeTokens(s: Statement): Token[] {
+  const out: (Token | undefined)[] = [];
+  switch (s.kind) {
+    case 'stage':
+      out.push(s.from);
+      break;
+    case 'load':
+      out.push(s.at);
+      break;
+    case 'miller':
+    case 'indirect':
+    case 'feedforward':
+      out.push(s.from, s.to);
+      break;
+    case 'element':
+      out.push(s.a, s.b);
+      break;
+    case 'output':
+      out.push(s.node);
+      break;
+    default:
+      break;
+  }
+  return out.filter((t): t is Token => t !== undefined);
+}
+
+/** Overrides of one corner, sorted by what they replace. */
+interface Overrides {
+  readonly params: ReadonlyMap<string, OverrideSyntax>;
+  /** Keyed by statement, then field name. */
+  readonly fields: ReadonlyMap<Statement, ReadonlyMap<string, OverrideSyntax>>;
+}
+
+const NO_OVERRIDES: Overrides = { params: new Map(), fields: new Map() };
+
+type FieldResult =
+  | { readonly status: 'absent' }
+  | { readonly status: 'failed' }
+  | { readonly status: 'ok'; readonly value: number; readonly origin: FieldOrigin };
+
+/** One evaluation of a design: nominal, or one corner. */
+class ModelBuilder {
+  private readonly paramState = new Map<string, Quantity | null | 'visiting'>();
+  private readonly stack: string[] = [];
+  private readonly cycleMembers = new Set<string>();
+  /** Set when an override of this corner could not be evaluated. */
+  overrideFailed = false;
+
+  constructor(
+    readonly scope: DesignScope,
+    readonly overrides: Overrides,
+    /** The nominal parameter dimensions, for checking corner overrides. */
+    readonly nominalDims?: ReadonlyMap<string, Dimension>,
+  ) {}
+
+  get sink(): DiagnosticSink {
+    return this.scope.sink;
+  }
+
+  // ---- parameters ----
+
+  param(name: string): Quantity | undefined {
+    const state = this.paramState.get(name);
+    if (state === 'visiting') {
+      this.reportCycle(name);
+      return undefined;
+    }
+    if (state !== undefined) return state ?? undefined;
+    const stmt = this.scope.params.get(name)!;
+    const override = this.overrides.params.get(name);
+    const field = stmt.fields.find((f) => f.name === 'value');
+    const expr = override?.expr ?? field?.expr;
+    if (!expr || (!override && this.scope.skipped.has(stmt))) {
+      this.paramState.set(name, null);
+      return undefined;
+    }
+    this.paramState.set(name, 'visiting');
+    this.stack.push(name);
+    let q = this.eval(expr, false);
+    this.stack.pop();
+    if (this.cycleMembers.has(name)) q = undefined;
+    if (q && !Number.isFinite(q.value)) {
+      this.sink.error(
+        'plausibility',
+        `Parameter ${quote(name)} is not a finite number (a division by zero?).`,
+        expr.range,
+      );
+      q = undefined;
+    }
+    if (q && override && this.nominalDims?.has(name)) {
+      const want = this.nominalDims.get(name)!;
+      if (isDimensionless(q.dim) && !isDimensionless(want)) q = { value: q.value, dim: want };
+      else if (!sameDimension(q.dim, want)) {
+        this.sink.error(
+          'unit',
+          `Parameter ${quote(name)} is ${describeDimension(want)}; this corner gives ${describeDimension(q.dim)}.`,
+          override.expr.range,
+        );
+        q = undefined;
+      }
+    }
+    if (!q && override) this.overrideFailed = true;
+    this.paramState.set(name, q ?? null);
+    return q;
+  }
+
+  private reportCycle(name: string): void {
+    const members = this.stack.slice(this.stack.indexOf(name));
+    if (members.some((m) => this.cycleMembers.has(m))) return;
+    for (const m of members) this.cycleMembers.add(m);
+    const declOf = (m: string): SourceRange => tokenRange(this.scope.decls.get(m)!.token);
+    // Report at the member declared first, so the message does not depend on where evaluation entered.
+    const order = [...members].sort((a, b) => {
+      const ra = declOf(a).start;
+      const rb = declOf(b).start;
+      return ra.line - rb.line || ra.character - rb.character;
+    });
+    const first = order[0]!;
+    const rotated = [...members.slice(members.indexOf(first)), ...members.slice(0, members.indexOf(first))];
+    const chain = [...rotated, first].map(quote).join(' → ');
+    const message =
+      members.length === 1
+        ? `Parameter ${quote(first)} refers to itself.`
+        : `Parameters depend on each other in a cycle: ${chain}.`;
+    this.sink.error(
+      'reference',
+      message,
+      declOf(first),
+      rotated.slice(1).map((m) => ({ range: declOf(m), message: `${quote(m)} is part of the cycle` })),
+    );
+  }
+
+  /** Evaluates an expression; `ugfAllowed` binds `ugf` (only inside `require zero`). */
+  eval(expr: Expr, ugfAllowed: boolean): Quantity | undefined {
+    return evaluate(
+      expr,
+      (name, range) => {
+        if (ugfAllowed && name === 'ugf') return { value: 1, dim: DIM.ugf };
+        const decl = this.scope.decls.get(name);
+        if (decl?.kind === 'param') return this.param(name);
+        if (decl) {
+          this.sink.error('reference', `${quote(name)} is a ${decl.kind} (a node), not a value.`, range);
+          return undefined;
+        }
+        const near = closest(name, [...this.scope.params.keys(), ...(ugfAllowed ? ['ugf'] : [])]);
+        const hint = near
+          ? ` Did you mean ${quote(near)}?`
+          : name === 'ugf'
+            ? ' `ugf` can only be used in `require zero >= N * ugf`.'
+            : '';
+        this.sink.error('reference', `Undefined name ${quote(name)}.${hint}`, range);
+        return undefined;
+      },
+      this.sink,
+    );
+  }
+
+  // ---- fields ----
+
+  field(
+    s: Statement,
+    name: string,
+    dimName: NamedDimension,
+    role: ValueRole,
+    displayName = name,
+  ): FieldResult {
+    const override = this.overrides.fields.get(s)?.get(name);
+    const written = s.fields.find((f) => f.name === name);
+    const expr = override?.expr ?? written?.expr;
+    const text = override?.text ?? written?.text ?? '';
+    if (!expr) return { status: 'absent' };
+    const fail = (): FieldResult => {
+      if (override) this.overrideFailed = true;
+      return { status: 'failed' };
+    };
+    const q = this.eval(expr, dimName === 'ugf');
+    if (!q) return fail();
+    const want = DIM[dimName];
+    if (!isDimensionless(q.dim) && !sameDimension(q.dim, want)) {
+      this.sink.error(
+        'unit',
+        `${quote(displayName)} expects ${describeDimension(want)}, but this is ${describeDimension(q.dim)}.`,
+        expr.range,
+      );
+      return fail();
+    }
+    if (!checkValue(role, displayName, q.value, expr, expr.range, this.sink)) return fail();
+    const param = expr.kind === 'ref' && this.scope.params.has(expr.name) ? expr.name : undefined;
+    return { status: 'ok', value: q.value, origin: { range: expr.range, text, ...(param ? { param } : {}) } };
+  }
+
+  // ---- nodes ----
+
+  resolveNode(t: Token): NodeRef | undefined {
+    const name = t.text;
+    if (name === 'gnd') return { kind: 'ground' };
+    if (name === 'in') return { kind: 'node', name: node('in') };
+    const decl = this.scope.decls.get(name);
+    if (decl && decl.kind !== 'param') return { kind: 'node', name: node(name) };
+    if (name === 'out') return { kind: 'node', name: node('out') };
+    if (decl) {
+      this.sink.error('reference', `${quote(name)} is a parameter, not a node.`, tokenRange(t));
+      return undefined;
+    }
+    const nodes = [...this.scope.decls.values()].filter((d) => d.kind !== 'param').map((d) => d.token.text);
+    const near = closest(name, [...nodes, 'in', 'gnd', 'out']);
+    this.sink.error(
+      'reference',
+      `Undefined node ${quote(name)}.${near ? ` Did you mean ${quote(near)}?` : ''}`,
+      tokenRange(t),
+    );
+    return undefined;
+  }
+
+  resolveNodeName(t: Token, what: string): NodeName | undefined {
+    const ref = this.resolveNode(t);
+    if (ref?.kind === 'ground') {
+      this.sink.error('reference', `${what} cannot be ground.`, tokenRange(t));
+      return undefined;
+    }
+    return ref?.name;
+  }
+
+  origin(s: Statement, fields: Record<string, FieldOrigin>): Origin {
+    return { range: s.range, keywordRange: tokenRange(s.keyword), insertAt: s.insertAt, fields };
+  }
+
+  // ---- the whole model ----
+
+  build(): DesignModel | undefined {
+    const { scope, sink } = this;
+    const design = scope.design;
+    const live = (s: Statement): boolean => !scope.skipped.has(s);
+
+    // Nodes, in text order: the input, then every stage and declared node, then `out` when only mentioned.
+    const nodes: NodeDecl[] = [];
+    const inMention = design.statements.flatMap(nodeTokens).find((t) => t.text === 'in');
+    nodes.push({ name: node('in'), kind: 'input', ...(inMention ? { range: tokenRange(inMention) } : {}) });
+    for (const d of scope.decls.values())
+      if (d.kind !== 'param')
+        nodes.push({
+          name: node(d.token.text),
+          kind: d.kind === 'stage' ? 'stage' : 'declared',
+          range: tokenRange(d.token),
+        });
+    if (scope.mentionsOut()) {
+      const first = design.statements.flatMap(nodeTokens).find((t) => t.text === 'out')!;
+      nodes.push({ name: node('out'), kind: 'output', range: tokenRange(first) });
+    }
+
+    // The output: named, else the last stage, else `out` when the text uses it.
+    const outputs = design.statements.filter((s): s is StatementOf<'output'> => s.kind === 'output');
+    outputs
+      .slice(1)
+      .forEach((s) =>
+        sink.error('syntax', '`output` is given twice; the first one is used.', tokenRange(s.keyword), [
+          { range: tokenRange(outputs[0]!.keyword), message: 'first `output`' },
+        ]),
+      );
+    let output: NodeName | undefined;
+    const outStmt = outputs[0];
+    if (outStmt) {
+      if (!outStmt.node || !live(outStmt)) return undefined;
+      output = this.resolveNodeName(outStmt.node, 'The output');
+      if (!output) return undefined;
+    } else if (scope.stages.length) output = node(scope.stages[scope.stages.length - 1]!.name!.text);
+    else if (scope.mentionsOut() || scope.decls.get('out')?.kind === 'node') output = node('out');
+    else {
+      sink.error(
+        'reference',
+        `Design ${quote(design.name)} has no stage and names no output: add \`output NODE\`.`,
+        design.nameToken ? tokenRange(design.nameToken) : tokenRange(design.keyword),
+      );
+      return undefined;
+    }
+
+    const stages: Stage[] = [];
+    const loads: Load[] = [];
+    const millers: Miller[] = [];
+    const buffered: BufferedCap[] = [];
+    const elements: Element[] = [];
+    const requirements: Requirement[] = [];
+    let beta = 1;
+    let betaOrigin: Origin | undefined;
+    let feedbackSeen: Statement | undefined;
+
+    /** Evaluates the listed fields; reports missing required ones; undefined when any failed. */
+    const fieldsOf = (
+      s: Statement,
+      specs: readonly [string, NamedDimension, ValueRole][],
+      kind = s.kind,
+    ): { values: Record<string, number>; origins: Record<string, FieldOrigin> } | undefined => {
+      const values: Record<string, number> = {};
+      const origins: Record<string, FieldOrigin> = {};
+      let ok = true;
+      const missing: string[] = [];
+      for (const [name, dim, role] of specs) {
+        const r = this.field(s, name, dim, role);
+        if (r.status === 'ok') {
+          values[name] = r.value;
+          origins[name] = r.origin;
+        } else if (r.status === 'failed') ok = false;
+        else if (REQUIRED_FIELDS[kind]?.includes(name)) missing.push(name);
+      }
+      if (missing.length) {
+        const blame = 'name' in s && s.name ? spanFrom(s.keyword, s.name) : tokenRange(s.keyword);
+        sink.error(
+          'syntax',
+          `${quote(kind)} needs ${missing.map((m) => quote(`${m} = …`)).join(' and ')}.`,
+          blame,
+        );
+        ok = false;
+      }
+      return ok ? { values, origins } : undefined;
+    };
+
+    let previous: NodeName = node('in');
+    for (const s of design.statements) {
+      if (s.kind === 'stage') {
+        // The default input is the stage before, even if that stage itself has an error.
+        const own = s.name && scope.decls.get(s.name.text)?.statement === s ? node(s.name.text) : undefined;
+        const prev = previous;
+        if (own) previous = own;
+        if (!live(s) || !own) continue;
+        const input: NodeRef | undefined = s.from ? this.resolveNode(s.from) : { kind: 'node', name: prev };
+        const f = fieldsOf(s, [
+          ['gm', 'S', 'gm'],
+          ['rout', 'ohm', 'rout'],
+          ['cap', 'F', 'cap'],
+          ['bias', 'A', 'bias'],
+        ]);
+        if (!f || !input) continue;
+        stages.push({
+          name: own,
+          input,
+          gm: si(f.values.gm!),
+          rout: si(f.values.rout!),
+          cap: si(f.values.cap ?? 0),
+          polarity: s.polarity?.value ?? 'noninverting',
+          ...(f.values.bias !== undefined ? { bias: si<Amperes>(f.values.bias) } : {}),
+          origin: this.origin(s, f.origins),
+        });
+        continue;
+      }
+      if (!live(s)) continue;
+      switch (s.kind) {
+        case 'load': {
+          const at = s.at ? this.resolveNodeName(s.at, 'A load') : output;
+          const f = fieldsOf(s, [
+            ['cap', 'F', 'cap-board'],
+            ['res', 'ohm', 'res'],
+          ]);
+          if (!f || !at) break;
+          if (f.values.cap === undefined && f.values.res === undefined && !s.fields.length) {
+            sink.error('syntax', '`load` needs `cap = …` or `res = …`.', tokenRange(s.keyword));
+            break;
+          }
+          loads.push({
+            node: at,
+            ...(f.values.cap !== undefined ? { cap: si<Farads>(f.values.cap) } : {}),
+            ...(f.values.res !== undefined ? { res: si<Ohms>(f.values.res) } : {}),
+            origin: this.origin(s, f.origins),
+          });
+          break;
+        }
+        case 'miller':
+        case 'indirect': {
+          const from = s.from && this.resolveNodeName(s.from, `A ${s.kind} capacitor's node`);
+          const to = s.to && this.resolveNodeName(s.to, `A ${s.kind} capacitor's node`);
+          const f =
+            s.kind === 'miller'
+              ? fieldsOf(s, [
+                  ['cc', 'F', 'cap'],
+                  ['rz', 'ohm', 'rz'],
+                ])
+              : fieldsOf(s, [
+                  ['cc', 'F', 'cap'],
+                  ['gm', 'S', 'gm-buffer'],
+                  ['cap', 'F', 'cap'],
+                ]);
+          if (!f || !from || !to) break;
+          if (from === to) {
+            sink.error('reference', `${quote(s.kind)} needs two different nodes.`, spanFrom(s.from!, s.to!));
+            break;
+          }
+          if (s.kind === 'miller')
+            millers.push({
+              from,
+              to,
+              cc: si(f.values.cc!),
+              ...(f.values.rz !== undefined ? { rz: si<Ohms>(f.values.rz) } : {}),
+              origin: this.origin(s, f.origins),
+            });
+          else
+            buffered.push({
+              from,
+              to,
+              cc: si(f.values.cc!),
+              gm: si(f.values.gm!),
+              ...(f.values.cap !== undefined ? { cap: si<Farads>(f.values.cap) } : {}),
+              origin: this.origin(s, f.origins),
+            });
+          break;
+        }
+        case 'feedforward': {
+          const control = s.from && this.resolveNode(s.from);
+          const out = s.to && this.resolveNode(s.to);
+          const f = fieldsOf(s, [['gm', 'S', 'gm']]);
+          if (!f || !control || !out) break;
+          elements.push({
+            kind: 'gm',
+            control,
+            output: out,
+            value: si(f.values.gm!),
+            polarity: s.polarity?.value ?? 'noninverting',
+            origin: this.origin(s, f.origins),
+          });
+          break;
+        }
+        case 'element': {
+          if (!s.element || !s.a || !s.b) break;
+          const a = this.resolveNode(s.a);
+          const b = this.resolveNode(s.b);
+          const spec: [string, NamedDimension, ValueRole] =
+            s.element === 'res'
+              ? ['value', 'ohm', 'res']
+              : s.element === 'cap'
+                ? ['value', 'F', 'cap-board']
+                : ['value', 'S', 'gm'];
+          const r = this.field(s, 'value', spec[1], spec[2], `element ${s.element}`);
+          if (r.status !== 'ok' || !a || !b) break;
+          const origin = this.origin(s, { value: r.origin });
+          const same = a.kind === b.kind && (a.kind === 'ground' || (b.kind === 'node' && a.name === b.name));
+          if (same && s.element !== 'gm') {
+            sink.error(
+              'reference',
+              `This ${s.element === 'res' ? 'resistor' : 'capacitor'} connects a node to itself.`,
+              spanFrom(s.a, s.b),
+            );
+            break;
+          }
+          if (s.element === 'res') elements.push({ kind: 'res', a, b, value: si(r.value), origin });
+          else if (s.element === 'cap') elements.push({ kind: 'cap', a, b, value: si(r.value), origin });
+          else
+            elements.push({
+              kind: 'gm',
+              control: a,
+              output: b,
+              value: si(r.value),
+              polarity: s.polarity?.value ?? 'noninverting',
+              origin,
+            });
+          break;
+        }
+        case 'feedback': {
+          if (feedbackSeen) {
+            sink.error('syntax', '`feedback` is given twice; the first one is used.', tokenRange(s.keyword), [
+              { range: tokenRange(feedbackSeen.keyword), message: 'first `feedback`' },
+            ]);
+            break;
+          }
+          feedbackSeen = s;
+          const f = fieldsOf(s, [['beta', 'one', 'beta']]);
+          if (!f) break;
+          beta = f.values.beta!;
+          betaOrigin = this.origin(s, f.origins);
+          break;
+        }
+        case 'require': {
+          const req = this.requirement(s);
+          if (req) requirements.push(req);
+          break;
+        }
+        default:
+          break;
+      }
+    }
+
+    const params: Param[] = [];
+    for (const [name, s] of scope.params) {
+      if (scope.skipped.has(s) && !this.overrides.params.has(name)) continue;
+      const q = this.param(name);
+      if (!q) continue;
+      const override = this.overrides.params.get(name);
+      const written = s.fields[0]!;
+      const fieldOrigin: FieldOrigin = override
+        ? { range: override.expr.range, text: override.text }
+        : { range: written.expr.range, text: written.text };
+      params.push({
+        name,
+        value: q.value,
+        dimension: dimensionName(q.dim),
+        origin: this.origin(s, { value: fieldOrigin }),
+      });
+    }
+
+    return {
+      name: design.name,
+      nodes,
+      input: node('in'),
+      output,
+      stages,
+      loads,
+      millers,
+      buffered,
+      elements,
+      beta: si(beta),
+      ...(betaOrigin ? { betaOrigin } : {}),
+      requirements,
+      params,
+    };
+  }
+
+  private requirement(s: StatementOf<'require'>): Requirement | undefined {
+    const kind = s.requirement;
+    if (!kind) return undefined;
+    if (kind === 'settle') {
+      const tol = this.field(s, 'tolerance', 'one', 'tolerance');
+      const within = this.field(s, 'within', 's', 'within');
+      if (tol.status !== 'ok' || within.status !== 'ok') return undefined;
+      return {
+        kind: 'settle',
+        tolerance: si(tol.value),
+        within: si(within.value),
+        origin: this.origin(s, { tolerance: tol.origin, within: within.origin }),
+      };
+    }
+    const op = s.op ?? '>=';
+    if (kind === 'zero') {
+      const r = this.field(s, 'factor', 'ugf', 'zero', 'zero');
+      if (r.status !== 'ok') return undefined;
+      return { kind: 'zero', op: '>=', factor: si(r.value), origin: this.origin(s, { factor: r.origin }) };
+    }
+    const role: ValueRole = kind;
+    const r = this.field(s, 'value', REQUIREMENT_DIMENSIONS[kind], role, kind);
+    if (r.status !== 'ok') return undefined;
+    const origin = this.origin(s, { value: r.origin });
+    switch (kind) {
+      case 'ugf':
+        return { kind, op, value: si(r.value), origin };
+      case 'pm':
+        return { kind, op, value: si(r.value), origin };
+      case 'gainmargin':
+        return { kind: 'gain-margin', op, value: si(r.value), origin };
+      case 'slew':
+        return { kind, op, value: si(r.value), origin };
+      case 'dcgain':
+        return { kind: 'dc-gain', op, value: si(r.value), origin };
+    }
+  }
+
+  nominalDimensions(): Map<string, Dimension> {
+    const out = new Map<string, Dimension>();
+    for (const [name, state] of this.paramState) if (state && state !== 'visiting') out.set(name, state.dim);
+    return out;
+  }
+}
+
+const spanFrom = (a: Token, b: Token): SourceRange => ({
+  start: { line: a.line, character: a.start },
+  end: { line: b.line, character: b.end },
+});
+
+/** Sorts a corner's overrides by target; reports targets that do not exist. */
+function collectOverrides(scope: DesignScope, corner: StatementOf<'corner'>): Overrides | undefined {
+  const params = new Map<string, OverrideSyntax>();
+  const fields = new Map<Statement, Map<string, OverrideSyntax>>();
+  const sink = scope.sink;
+  let ok = true;
+  const unique = (kind: Statement['kind'], o: OverrideSyntax): Statement | undefined => {
+    const all = scope.design.statements.filter((s) => s.kind === kind && !scope.skipped.has(s));
+    if (kind === 'load') {
+      const atOutput = all.filter((s) => s.kind === 'load' && (!s.at || s.at.text === 'out'));
+      if (atOutput.length >= 1) return atOutput[0];
+    }
+    if (all.length === 1) return all[0];
+    sink.error(
+      'reference',
+      all.length === 0
+        ? `There is no \`${kind}\` statement for ${quote(o.targetText)} to override.`
+        : `There are ${all.length} \`${kind}\` statements, so ${quote(o.targetText)} is ambiguous: put the value in a \`param\` and override that.`,
+      o.targetRange,
+    );
+    return undefined;
+  };
+  for (const o of corner.overrides) {
+    const name = o.target.text;
+    const decl = scope.decls.get(name);
+    if (!o.field) {
+      if (decl?.kind === 'param') {
+        if (!scope.skipped.has(decl.statement)) params.set(name, o);
+        continue;
+      }
+      ok = false;
+      if (decl) {
+        sink.error(
+          'reference',
+          `${quote(name)} is a ${decl.kind}; a corner overrides a parameter (\`gm1 = …\`) or a field (\`${name}.gm = …\`).`,
+          o.targetRange,
+        );
+      } else {
+        const near = closest(name, scope.params.keys());
+        sink.error(
+          'reference',
+          `Undefined parameter ${quote(name)}.${near ? ` Did you mean ${quote(near)}?` : ''}`,
+          o.targetRange,
+        );
+      }
+      continue;
+    }
+    let target: Statement | undefined;
+    if (decl?.kind === 'stage') target = decl.statement;
+    else if (!decl && ['load', 'miller', 'indirect', 'feedforward', 'feedback'].includes(name))
+      target = unique(name as Statement['kind'], o);
+    else {
+      sink.error(
+        'reference',
+        decl
+          ? `${quote(name)} is a ${decl.kind}; only stages and the \`load\`, \`miller\`, \`indirect\`, \`feedforward\` and \`feedback\` statements have fields.`
+          : `Undefined name ${quote(name)}.`,
+        tokenRange(o.target),
+      );
+      ok = false;
+      continue;
+    }
+    if (!target) {
+      ok = false;
+      continue;
+    }
+    const allowed = FIELDS_BY_STATEMENT[target.kind] ?? [];
+    if (!allowed.includes(o.field.text)) {
+      const near = closest(o.field.text, allowed);
+      sink.error(
+        'reference',
+        `${quote(target.kind)} has no field ${quote(o.field.text)} (fields: ${allowed.join(', ')}).${near ? ` Did you mean ${quote(near)}?` : ''}`,
+        tokenRange(o.field),
+      );
+      ok = false;
+      continue;
+    }
+    if (scope.skipped.has(target)) continue;
+    let map = fields.get(target);
+    if (!map) fields.set(target, (map = new Map()));
+    map.set(o.field.text, o);
+  }
+  return ok ? { params, fields } : undefined;
+}
+
+/** Every declared name with its declaration and references, found from the text alone. */
+function collectSymbols(scope: DesignScope): SymbolInfo[] {
+  const symbols = new Map<string, { info: SymbolInfo; refs: SourceRange[] }>();
+  const design = scope.design;
+  const result: SymbolInfo[] = [];
+  if (design.nameToken)
+    result.push({
+      name: design.name,
+      kind: 'design',
+      declaration: tokenRange(design.nameToken),
+      references: [],
+    });
+  for (const [name, d] of scope.decls) {
+    const refs: SourceRange[] = [];
+    const info: SymbolInfo = { name, kind: d.kind, declaration: tokenRange(d.token), references: refs };
+    symbols.set(name, { info, refs });
+    result.push(info);
+  }
+  const ref = (name: string, range: SourceRange): void => {
+    symbols.get(name)?.refs.push(range);
+  };
+  for (const s of design.statements) {
+    for (const f of s.fields) forEachRef(f.expr, ref);
+    for (const t of nodeTokens(s)) ref(t.text, tokenRange(t));
+    if (s.kind === 'corner') {
+      for (const o of s.overrides) {
+        ref(o.target.text, tokenRange(o.target));
+        forEachRef(o.expr, ref);
+      }
+    }
+  }
+  for (const [name, c] of scope.corners)
+    result.push({ name, kind: 'corner', declaration: tokenRange(c.name!), references: [] });
+  return result;
+}
+
+/** Warns about declared nodes that nothing attaches to (from the text, so broken statements still count). */
+function checkConnections(scope: DesignScope): void {
+  const attached = new Set<string>();
+  const sensed = new Set<string>();
+  for (const s of scope.design.statements) {
+    switch (s.kind) {
+      case 'stage':
+        if (s.from) sensed.add(s.from.text);
+        break;
+      case 'load':
+        if (s.at) attached.add(s.at.text);
+        break;
+      case 'miller':
+      case 'indirect':
+        if (s.from) attached.add(s.from.text);
+        if (s.to) attached.add(s.to.text);
+        break;
+      case 'feedforward':
+        if (s.from) sensed.add(s.from.text);
+        if (s.to) attached.add(s.to.text);
+        break;
+      case 'element':
+        if (s.element === 'gm') {
+          if (s.a) sensed.add(s.a.text);
+        } else if (s.a) attached.add(s.a.text);
+        if (s.b) attached.add(s.b.text);
+        break;
+      case 'output':
+        if (s.node) sensed.add(s.node.text);
+        break;
+      default:
+        break;
+    }
+  }
+  for (const [name, d] of scope.decls) {
+    if (d.kind !== 'node' || attached.has(name)) continue;
+    scope.sink.warning(
+      'reference',
+      sensed.has(name)
+        ? `Nothing connects to node ${quote(name)}: it is only sensed, so its voltage is undefined.`
+        : `Node ${quote(name)} is declared but nothing connects to it.`,
+      tokenRange(d.token),
+    );
+  }
+}
+
+export function evaluateDesign(design: DesignSyntax, sink: DiagnosticSink): DesignResult {
+  const scope = new DesignScope(design, sink);
+  checkConnections(scope);
+  const builder = new ModelBuilder(scope, NO_OVERRIDES);
+  const nominal = builder.build();
+  const dims = builder.nominalDimensions();
+  const corners: CornerSource[] = [];
+  for (const s of design.statements) {
+    if (s.kind !== 'corner' || !s.name || scope.corners.get(s.name.text) !== s) continue;
+    const fields: Record<string, FieldOrigin> = {};
+    for (const o of s.overrides) fields[o.targetText] = { range: o.expr.range, text: o.text };
+    const origin: Origin = {
+      range: s.range,
+      keywordRange: tokenRange(s.keyword),
+      insertAt: s.insertAt,
+      fields,
+    };
+    const overrides = s.broken ? undefined : collectOverrides(scope, s);
+    let model: DesignModel | undefined;
+    if (overrides && nominal) {
+      if (!s.overrides.length)
+        sink.warning('syntax', `Corner ${quote(s.name.text)} overrides nothing.`, tokenRange(s.name));
+      const cornerBuilder = new ModelBuilder(scope, overrides, dims);
+      const m = cornerBuilder.build();
+      if (m && !cornerBuilder.overrideFailed) model = { ...m, corner: s.name.text };
+    }
+    corners.push({ name: s.name.text, origin, ...(model ? { model } : {}) });
+  }
+  return { ...(nominal ? { nominal } : {}), corners, symbols: collectSymbols(scope) };
+}

@@ -1,0 +1,16 @@
+// The language layer's facade: parse a design file, and the vocabulary the editor's completion offers.
+export { parseDocument } from './parseDocument';
+export {
+  KEYWORDS,
+  STATEMENT_KEYWORDS,
+  ELEMENT_KINDS,
+  REQUIREMENT_KINDS,
+  BUILTIN_NODES,
+  FIELDS_BY_STATEMENT,
+  FLAGS_BY_STATEMENT,
+  REQUIRED_FIELDS,
+  FIELD_DIMENSIONS,
+} from './vocabulary';
+export { UNIT_SPELLINGS, PREFIX_SCALES } from './unitTable';
+export type * from './model';
+export type * from './source';

@@ -1,0 +1,117 @@
+// Splits one line of a design file into tokens with their exact columns. The language is line-based: a
+// statement never spans lines, so an error on one line can never swallow the next.
+import type { SourcePosition, SourceRange } from './source';
+
+export type TokenKind = 'ident' | 'number' | 'badNumber' | 'op' | 'unknown';
+
+export interface Token {
+  readonly kind: TokenKind;
+  readonly text: string;
+  readonly line: number;
+  /** UTF-16 column of the first character. */
+  readonly start: number;
+  /** UTF-16 column just past the last character. */
+  readonly end: number;
+}
+
+export interface LexedLine {
+  readonly line: number;
+  readonly tokens: readonly Token[];
+  /** Column where a `#` comment starts, if any. */
+  readonly commentStart?: number;
+}
+
+// Identifiers may hold the micro and ohm signs so that `µF` and `kΩ` read as one word.
+const IDENT_START = /[A-Za-z_\u00b5\u03bc\u03a9\u2126]/;
+const IDENT_PART = /[A-Za-z0-9_\u00b5\u03bc\u03a9\u2126]/;
+const DIGIT = /[0-9]/;
+const NUMBER = /^(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?/;
+const TWO_CHAR_OPS = new Set(['->', '>=', '<=']);
+const ONE_CHAR_OPS = new Set(['=', ',', '+', '-', '*', '/', '^', '(', ')', '.', '%', '>', '<', '\u00b0']);
+
+export function lexLine(text: string, line: number): LexedLine {
+  const tokens: Token[] = [];
+  let i = 0;
+  const push = (kind: TokenKind, from: number, to: number, spelled?: string): void => {
+    tokens.push({ kind, text: spelled ?? text.slice(from, to), line, start: from, end: to });
+  };
+  while (i < text.length) {
+    const c = text[i]!;
+    if (c === '#') return { line, tokens, commentStart: i };
+    if (c === ' ' || c === '\t' || c === '\u00a0' || c === '\r' || c === '\f' || c === '\v') {
+      i++;
+      continue;
+    }
+    if (DIGIT.test(c) || (c === '.' && DIGIT.test(text[i + 1] ?? ''))) {
+      const m = NUMBER.exec(text.slice(i))!;
+      let end = i + m[0].length;
+      const next = text[end] ?? '';
+      // `1.2.3`, `5e` or `5e+` are malformed numbers, not a number followed by something else (no unit
+      // starts with `e`, so this never steals a unit).
+      if (next === '.' || DIGIT.test(next) || next === 'e' || next === 'E') {
+        while (end < text.length && /[0-9A-Za-z_.+-]/.test(text[end]!)) {
+          if ((text[end] === '+' || text[end] === '-') && !/[eE]/.test(text[end - 1]!)) break;
+          end++;
+        }
+        push('badNumber', i, end);
+      } else {
+        push('number', i, end);
+      }
+      i = end;
+      continue;
+    }
+    if (IDENT_START.test(c)) {
+      let end = i + 1;
+      while (end < text.length && IDENT_PART.test(text[end]!)) end++;
+      push('ident', i, end);
+      i = end;
+      continue;
+    }
+    const two = text.slice(i, i + 2);
+    if (TWO_CHAR_OPS.has(two)) {
+      push('op', i, i + 2);
+      i += 2;
+      continue;
+    }
+    if (c === '\u2265' || c === '\u2264') {
+      push('op', i, i + 1, c === '\u2265' ? '>=' : '<=');
+      i++;
+      continue;
+    }
+    if (c === '\u2212') {
+      // The typographic minus sign reads as `-`.
+      push('op', i, i + 1, '-');
+      i++;
+      continue;
+    }
+    if (c === '\u00d7' || c === '\u00b7') {
+      push('op', i, i + 1, '*');
+      i++;
+      continue;
+    }
+    if (ONE_CHAR_OPS.has(c)) {
+      push('op', i, i + 1);
+      i++;
+      continue;
+    }
+    // One unknown character per token, counting a surrogate pair as one character.
+    const code = text.codePointAt(i)!;
+    const width = code > 0xffff ? 2 : 1;
+    push('unknown', i, i + width);
+    i += width;
+  }
+  return { line, tokens };
+}
+
+export const tokenRange = (t: Token): SourceRange => ({
+  start: { line: t.line, character: t.start },
+  end: { line: t.line, character: t.end },
+});
+
+/** The range from the start of `a` to the end of `b` (both on the same line). */
+export const spanRange = (a: Token, b: Token): SourceRange => ({
+  start: { line: a.line, character: a.start },
+  end: { line: b.line, character: b.end },
+});
+
+export const tokenEnd = (t: Token): SourcePosition => ({ line: t.line, character: t.end });
