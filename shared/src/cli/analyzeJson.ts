@@ -1,0 +1,204 @@
+// `analyze --json`: the engine's numbers per design and corner, as documented in docs/cli.md (schemaVersion 1).
+// Values are copied as the engine computed them; the only derived numbers are gains in dB (20·log10|V/V|).
+// JSON has no Infinity or NaN: such a value is written as null.
+import type { CheckSettings } from '../checks/settings';
+import type { Finding } from '../checks/types';
+import type { CornerRun, DesignReport, DocumentReport, Worst, WorstCase } from '../report';
+import { CAUTION } from '../protocol/panelData';
+import { findingJson, placeJson, SCHEMA_VERSION, type FindingJson, type PlaceJson } from './formatJson';
+import { findingsOfDesign, sortedFindings } from './run';
+
+type Num = number | null;
+
+export interface GainJson {
+  readonly vv: Num;
+  readonly db: Num;
+}
+
+export interface CornerJson {
+  readonly corner: string;
+  readonly poles: readonly {
+    readonly re: Num;
+    readonly im: Num;
+    readonly hz: Num;
+    readonly damping: Num;
+    readonly namedAfter: string;
+    readonly participation: readonly { readonly node: string; readonly share: Num }[];
+  }[];
+  readonly zeros: readonly { readonly re: Num; readonly im: Num; readonly hz: Num; readonly rhp: boolean }[];
+  readonly dcGain: GainJson;
+  readonly openLoopUgfHz: Num;
+  readonly loop: {
+    readonly dcGain: GainJson;
+    readonly ugfHz: Num;
+    readonly phaseMarginDeg: Num;
+    readonly gainMarginDb: Num;
+    readonly phaseCrossoverHz: Num;
+    readonly peakingDb: Num;
+    readonly crossings: readonly {
+      readonly hz: Num;
+      readonly direction: 'down' | 'up';
+      readonly phaseDeg: Num;
+    }[];
+  };
+  readonly slew: {
+    readonly rate: Num;
+    readonly limits: readonly {
+      readonly stage: string;
+      readonly current: Num;
+      readonly cap: Num;
+      readonly rate: Num;
+    }[];
+  } | null;
+  readonly settling: {
+    readonly time: Num;
+    readonly tolerance: Num;
+    readonly overshootPct: Num;
+    readonly final: Num;
+  } | null;
+  readonly hand: readonly {
+    readonly quantity: string;
+    readonly formula: string;
+    readonly hand: Num;
+    readonly exact: Num;
+    readonly relativeError: Num;
+  }[];
+  readonly problems: readonly { readonly message: string; readonly node: string | null }[];
+}
+
+export interface WorstJson {
+  readonly phaseMarginDeg: WorstValueJson | null;
+  readonly ugfHz: WorstValueJson | null;
+  readonly gainMarginDb: WorstValueJson | null;
+  readonly slew: WorstValueJson | null;
+  readonly settlingTime: WorstValueJson | null;
+  readonly dcGainDb: WorstValueJson | null;
+}
+export interface WorstValueJson {
+  readonly value: Num;
+  readonly corner: string;
+}
+
+export interface DesignJson extends PlaceJson {
+  readonly name: string;
+  /** Nominal first, then each corner that evaluated. */
+  readonly corners: readonly CornerJson[];
+  /** Corners written in the file whose overrides could not be evaluated (their errors are findings). */
+  readonly unevaluatedCorners: readonly string[];
+  readonly worst: WorstJson;
+  readonly findings: readonly FindingJson[];
+}
+
+export interface AnalyzeJson {
+  readonly schemaVersion: typeof SCHEMA_VERSION;
+  readonly tool: { readonly name: 'ampnote'; readonly version: string };
+  readonly file: string;
+  readonly caution: string;
+  readonly settings: CheckSettings;
+  readonly designs: readonly DesignJson[];
+  /** Findings outside every design (e.g. a syntax error between designs). */
+  readonly findings: readonly FindingJson[];
+}
+
+const num = (x: number | undefined): Num => (x !== undefined && Number.isFinite(x) ? x : null);
+const db = (vv: number): Num => num(20 * Math.log10(Math.abs(vv)));
+const gain = (vv: number): GainJson => ({ vv: num(vv), db: db(vv) });
+
+export function cornerJson(run: CornerRun): CornerJson {
+  const a = run.analysis;
+  return {
+    corner: run.corner,
+    poles: a.poles.map((p) => ({
+      re: num(p.s.re),
+      im: num(p.s.im),
+      hz: num(p.hz),
+      damping: num(p.damping),
+      namedAfter: p.namedAfter,
+      participation: p.participation.map((x) => ({ node: x.node, share: num(x.share) })),
+    })),
+    zeros: a.zeros.map((z) => ({ re: num(z.s.re), im: num(z.s.im), hz: num(z.hz), rhp: z.rhp })),
+    dcGain: gain(a.dcGain),
+    openLoopUgfHz: num(a.openLoopUgfHz),
+    loop: {
+      dcGain: gain(a.loop.dcGain),
+      ugfHz: num(a.loop.ugfHz),
+      phaseMarginDeg: num(a.loop.phaseMarginDeg),
+      gainMarginDb: num(a.loop.gainMarginDb),
+      phaseCrossoverHz: num(a.loop.phaseCrossoverHz),
+      peakingDb: num(a.loop.peakingDb),
+      crossings: a.loop.crossings.map((c) => ({
+        hz: num(c.hz),
+        direction: c.direction,
+        phaseDeg: num(c.phaseDeg),
+      })),
+    },
+    slew: a.slew
+      ? {
+          rate: num(a.slew.rate),
+          limits: a.slew.limits.map((l) => ({
+            stage: l.stage,
+            current: num(l.current),
+            cap: num(l.cap),
+            rate: num(l.rate),
+          })),
+        }
+      : null,
+    settling: a.step
+      ? {
+          time: num(a.step.settlingTime),
+          tolerance: num(a.step.tolerance),
+          overshootPct: num(a.step.overshootPct),
+          final: num(a.step.final),
+        }
+      : null,
+    hand: (a.hand ?? []).map((h) => ({
+      quantity: h.quantity,
+      formula: h.formula,
+      hand: num(h.hand),
+      exact: num(h.exact),
+      relativeError: num(h.relativeError),
+    })),
+    problems: a.problems.map((p) => ({ message: p.message, node: p.node ?? null })),
+  };
+}
+
+function worstJson(w: WorstCase): WorstJson {
+  const one = (x: Worst | undefined): WorstValueJson | null =>
+    x ? { value: num(x.value), corner: x.corner } : null;
+  return {
+    phaseMarginDeg: one(w.phaseMarginDeg),
+    ugfHz: one(w.ugfHz),
+    gainMarginDb: one(w.gainMarginDb),
+    slew: one(w.slew),
+    settlingTime: one(w.settlingTime),
+    dcGainDb: one(w.dcGainDb),
+  };
+}
+
+export function designJson(d: DesignReport, findings: readonly Finding[]): DesignJson {
+  const evaluated = new Set(d.runs.map((r) => r.corner));
+  return {
+    name: d.source.name,
+    ...placeJson(d.source.range),
+    corners: d.runs.map(cornerJson),
+    unevaluatedCorners: d.source.corners.filter((c) => !evaluated.has(c.name)).map((c) => c.name),
+    worst: worstJson(d.worst),
+    findings: sortedFindings(findings).map(findingJson),
+  };
+}
+
+export function analyzeJson(
+  report: DocumentReport,
+  designs: readonly DesignReport[],
+  ctx: { readonly file: string; readonly version: string; readonly settings: CheckSettings },
+): AnalyzeJson {
+  return {
+    schemaVersion: SCHEMA_VERSION,
+    tool: { name: 'ampnote', version: ctx.version },
+    file: ctx.file,
+    caution: CAUTION,
+    settings: ctx.settings,
+    designs: designs.map((d) => designJson(d, findingsOfDesign(report, d.source.name))),
+    findings: sortedFindings(report.findings.filter((f) => f.design === undefined)).map(findingJson),
+  };
+}

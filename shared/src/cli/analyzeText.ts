@@ -1,0 +1,186 @@
+// `analyze` without --json: readable tables of the exact results, one block per design.
+import type { DesignAnalysis, Pole, Zero } from '../analysis/types';
+import { formatDb, formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
+import { CAUTION } from '../protocol/panelData';
+import type { Finding } from '../checks/types';
+import type { CornerRun, DesignReport, DocumentReport, Worst } from '../report';
+import { formatFindingText } from './formatText';
+import { findingsOfDesign, sortedFindings } from './run';
+
+const DASH = '—';
+const TWO_PI = 2 * Math.PI;
+
+export function formatAnalyzeText(
+  path: string,
+  report: DocumentReport,
+  designs: readonly DesignReport[],
+): string {
+  const blocks = designs.map((d) => designBlock(path, d, findingsOfDesign(report, d.source.name)));
+  return [...blocks, wrap(`Note: ${CAUTION}`, 100).join('\n')].join('\n\n') + '\n';
+}
+
+function designBlock(path: string, d: DesignReport, findings: readonly Finding[]): string {
+  const out: string[] = [];
+  const title = `${d.source.name}  (${path}:${d.source.range.start.line + 1})`;
+  out.push(title, '═'.repeat(Math.min(100, Math.max(title.length, 40))));
+  if (d.runs.length === 0) {
+    out.push('  not analysed: the design could not be evaluated (see findings)');
+  } else {
+    out.push(...table(['', ...d.runs.map((r) => r.corner)], metricRows(d.runs)).map((l) => '  ' + l));
+    for (const run of d.runs) out.push('', ...rootsBlock(run));
+    const worst = worstLine(d);
+    if (worst) out.push('', `  worst case: ${worst}`);
+  }
+  const unevaluated = d.source.corners
+    .filter((c) => !d.runs.some((r) => r.corner === c.name))
+    .map((c) => c.name);
+  if (unevaluated.length > 0)
+    out.push(`  not evaluated: corner${unevaluated.length > 1 ? 's' : ''} ${unevaluated.join(', ')}`);
+  out.push('');
+  if (findings.length === 0) out.push('  findings: none');
+  else {
+    out.push(`  findings (${findings.length})`);
+    for (const f of sortedFindings(findings)) out.push(...formatFindingText(path, f).map((l) => '    ' + l));
+  }
+  return out.join('\n');
+}
+
+function metricRows(runs: readonly CornerRun[]): string[][] {
+  const row = (label: string, f: (a: DesignAnalysis) => string) => [label, ...runs.map((r) => f(r.analysis))];
+  const opt = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? DASH : show(x));
+  const tol = runs[0]?.analysis.step?.tolerance;
+  return [
+    row('open-loop DC gain', (a) => `${formatDb(dbOf(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`),
+    row('open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)),
+    row('loop DC gain', (a) => formatDb(dbOf(a.loop.dcGain))),
+    row('loop UGF', (a) => opt(a.loop.ugfHz, formatHz)),
+    row('phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)),
+    row('gain margin', (a) => opt(a.loop.gainMarginDb, formatDb)),
+    row('unity crossings', (a) =>
+      a.loop.crossings.length === 0
+        ? DASH
+        : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'}${formatHz(c.hz)}`).join(' '),
+    ),
+    row('closed-loop peaking', (a) => formatDb(a.loop.peakingDb)),
+    row('slew rate', (a) => opt(a.slew?.rate, slewText)),
+    row(`settling${tol !== undefined ? ` (±${roundSignificant(tol * 100)} %)` : ''}`, (a) =>
+      a.step
+        ? opt(a.step.settlingTime, (t) => formatSi(t, 's')) +
+          (a.step.tolerance !== tol ? ` (±${roundSignificant(a.step.tolerance * 100)} %)` : '')
+        : DASH,
+    ),
+    row('overshoot', (a) => (a.step ? `${roundSignificant(a.step.overshootPct)} %` : DASH)),
+  ];
+}
+
+function rootsBlock(run: CornerRun): string[] {
+  const a = run.analysis;
+  const out = [`  ${run.corner}`];
+  if (a.problems.length > 0) {
+    for (const p of a.problems) out.push(`    not solved: ${p.message}${p.node ? ` (node ${p.node})` : ''}`);
+    return out;
+  }
+  const rows: string[][] = [];
+  a.poles.forEach((p, i) => rows.push([i === 0 ? 'poles' : '', ...poleCells(p)]));
+  if (a.poles.length === 0) rows.push(['poles', 'none', '', '', '']);
+  a.zeros.forEach((z, i) => rows.push([i === 0 ? 'zeros' : '', ...zeroCells(z)]));
+  if (a.zeros.length === 0) rows.push(['zeros', 'none (finite)', '', '', '']);
+  out.push(...table(['', 's / 2π', '|s| / 2π', 'ζ', 'where'], rows).map((l) => '    ' + l));
+  const hand = a.hand ?? [];
+  if (hand.length > 0) {
+    const hrows = hand.map((h) => [
+      h.quantity,
+      h.formula,
+      radText(h.hand),
+      radText(h.exact),
+      Number.isFinite(h.relativeError) ? `${roundSignificant(h.relativeError * 100)} %` : DASH,
+    ]);
+    out.push(
+      '',
+      ...table(['hand estimate', 'formula', 'hand', 'exact', 'error'], hrows).map((l) => '    ' + l),
+    );
+  }
+  if (a.slew && a.slew.limits.length > 1) {
+    const srows = a.slew.limits.map((l) => [
+      l.stage,
+      formatSi(l.current, 'A'),
+      formatSi(l.cap, 'F'),
+      slewText(l.rate),
+    ]);
+    out.push('', ...table(['slew limit', 'current', 'capacitance', 'rate'], srows).map((l) => '    ' + l));
+  }
+  return out;
+}
+
+function poleCells(p: Pole): string[] {
+  const where =
+    p.namedAfter === 'shared'
+      ? 'shared: ' + p.participation.slice(0, 3).map(share).join(', ')
+      : `${p.namedAfter} ${pct(p.participation[0]?.share ?? 1)}`;
+  return [complexText(p.s.re, p.s.im), formatHz(p.hz), roundSignificant(p.damping, 3).toString(), where];
+}
+
+function zeroCells(z: Zero): string[] {
+  return [complexText(z.s.re, z.s.im), formatHz(z.hz), '', z.rhp ? 'right half-plane' : 'left half-plane'];
+}
+
+/** `−1.23 kHz` for a real root, `−25.1 MHz ± j12 MHz` for a pair; the engine lists each of a pair. */
+function complexText(re: number, im: number): string {
+  const r = formatSi(re / TWO_PI, 'Hz');
+  if (im === 0) return r;
+  return `${r} ${im < 0 ? '−' : '+'} j${formatSi(Math.abs(im) / TWO_PI, 'Hz')}`;
+}
+
+const share = (x: { node: string; share: number }) => `${x.node} ${pct(x.share)}`;
+const pct = (x: number) => `${Math.round(x * 100)} %`;
+const dbOf = (vv: number) => 20 * Math.log10(Math.abs(vv));
+const slewText = (vPerS: number) => `${roundSignificant(vPerS / 1e6)} V/us`;
+const radText = (w: number) =>
+  Number.isFinite(w) ? `${formatSi(w, 'rad/s')} (${formatHz(w / TWO_PI)})` : '∞';
+
+function worstLine(d: DesignReport): string {
+  const w = d.worst;
+  const parts: string[] = [];
+  const add = (label: string, x: Worst | undefined, show: (v: number) => string) => {
+    if (x) parts.push(`${label} ${show(x.value)} (${x.corner})`);
+  };
+  add('phase margin', w.phaseMarginDeg, formatDeg);
+  add('UGF', w.ugfHz, formatHz);
+  add('gain margin', w.gainMarginDb, formatDb);
+  add('slew', w.slew, slewText);
+  add('settling', w.settlingTime, (t) => formatSi(t, 's'));
+  add('DC gain', w.dcGainDb, formatDb);
+  return parts.join(', ');
+}
+
+/** Left-aligned columns separated by two spaces; the header row is underlined. */
+export function table(header: readonly string[], rows: readonly (readonly string[])[]): string[] {
+  const all = [header, ...rows];
+  const widths = header.map((_, c) => Math.max(...all.map((r) => [...(r[c] ?? '')].length)));
+  const line = (r: readonly string[]) =>
+    r
+      .map((cell, c) => cell.padEnd(widths[c]! + (cell.length - [...cell].length)))
+      .join('  ')
+      .trimEnd();
+  return [
+    line(header),
+    widths
+      .map((w) => (w === 0 ? '' : '─'.repeat(w)))
+      .join('  ')
+      .trimEnd(),
+    ...rows.map(line),
+  ];
+}
+
+function wrap(text: string, width: number): string[] {
+  const lines: string[] = [];
+  let cur = '';
+  for (const word of text.split(/\s+/)) {
+    if (cur.length + word.length + 1 > width && cur) {
+      lines.push(cur);
+      cur = word;
+    } else cur = cur ? `${cur} ${word}` : word;
+  }
+  if (cur) lines.push(cur);
+  return lines;
+}

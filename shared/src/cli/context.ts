@@ -1,0 +1,16 @@
+// What every command receives from main: where it runs, its streams, and the resolved settings.
+import type { CheckSettings } from '../checks/settings';
+import type { CancelToken } from '../analysis/types';
+import type { DocumentReport } from '../report';
+import type { Streams } from './io';
+
+export interface CliContext {
+  readonly cwd: string;
+  readonly streams: Streams;
+  readonly version: string;
+  /** The installed package's folder (holds docs/ and dist/). */
+  readonly packageRoot: string;
+  readonly settings: CheckSettings;
+  /** The document facade: the same call the language server makes. */
+  readonly analyze: (text: string, settings?: Partial<CheckSettings>, token?: CancelToken) => DocumentReport;
+}

@@ -1,0 +1,34 @@
+// `check --format text`: one compiler-style line per finding, so editors and CI annotate the right spot.
+import type { Finding } from '../checks/types';
+import { oneBased, sortedFindings, type FileResult, type RunResult } from './run';
+
+/**
+ * `path:line:col: severity code: message`, 1-based. Related places and fixes follow on indented lines, so
+ * a pattern anchored at the line start matches only the finding itself.
+ */
+export function formatFindingText(path: string, f: Finding): string[] {
+  const at = oneBased(f.range);
+  const corners = f.corners && f.corners.length > 0 ? ` [${f.corners.join(', ')}]` : '';
+  const lines = [
+    `${path}:${at.startLine}:${at.startColumn}: ${f.severity} ${f.code}: ${oneLine(f.message)}${corners}`,
+  ];
+  for (const r of f.related) {
+    const rel = oneBased(r.range);
+    lines.push(`  ${path}:${rel.startLine}:${rel.startColumn}: note: ${oneLine(r.message)}`);
+  }
+  for (const fix of f.fixes) lines.push(`  fix${fix.preferred ? ' (preferred)' : ''}: ${oneLine(fix.title)}`);
+  return lines;
+}
+
+export function formatFileText(file: FileResult): string[] {
+  return sortedFindings(file.report.findings).flatMap((f) => formatFindingText(file.path, f));
+}
+
+/** The findings of the whole run; problems and the summary go to stderr (see main). */
+export function formatRunText(run: RunResult): string {
+  const lines = run.files.flatMap(formatFileText);
+  return lines.length === 0 ? '' : lines.join('\n') + '\n';
+}
+
+/** A message is one line in this format; a line break inside would break line-based readers. */
+const oneLine = (s: string) => s.replace(/\s*\r?\n\s*/g, ' ');

@@ -1,0 +1,417 @@
+// `ampnote report`: one self-contained HTML page. Everything the page needs is inside it (styles, the chart
+// bundle, the data); a content security policy with hashes of exactly those inline blocks forbids every
+// network load, so the page opens the same offline, from an archive or attached to a review.
+import { createHash } from 'node:crypto';
+import type { Finding, Severity } from '../checks/types';
+import { formatDb, formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
+import { CAUTION, type PanelData } from '../protocol/panelData';
+import type { DesignAnalysis } from '../analysis/types';
+import type { CornerRun, DesignReport, Worst } from '../report';
+import { sortedFindings } from './run';
+
+export interface ReportDesign {
+  readonly report: DesignReport;
+  /** The design's findings as the document lists them (language diagnostics and checks). */
+  readonly findings: readonly Finding[];
+  /** Chart data for the nominal model; absent when the design could not be evaluated. */
+  readonly panel?: PanelData;
+}
+
+export interface ReportInput {
+  readonly file: string;
+  readonly version: string;
+  /** ISO time of generation, shown in the header. */
+  readonly generated: string;
+  readonly designs: readonly ReportDesign[];
+  /** Findings outside every design. */
+  readonly fileFindings: readonly Finding[];
+  /** The chart bundle (an IIFE defining the global `AmpnoteCharts` with `drawCharts`). */
+  readonly chartsScript: string;
+}
+
+/** Text for HTML content and attribute values: everything the user wrote passes through here. */
+export function escapeHtml(s: string): string {
+  return s.replace(
+    /[&<>"']/g,
+    (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!,
+  );
+}
+
+/** JSON inside <script type="application/json">: no `<` at all, so no `</script>` or `<!--` can end it early. */
+export function embedJson(value: unknown): string {
+  return JSON.stringify(value)
+    .replace(/</g, '\\u003c')
+    .replace(/\u2028/g, '\\u2028')
+    .replace(/\u2029/g, '\\u2029');
+}
+
+/**
+ * A script's text made safe inside <script>…</script>: the HTML parser ends a script at `</script` whatever
+ * the JavaScript around it, and `<!--` changes how it looks for that end. Both only occur inside string or
+ * regular-expression literals in real code, where `<\/` and `<\!` mean the same characters. The source-map
+ * comment is dropped: it names a file beside the bundle, which a self-contained page must not refer to.
+ */
+export function inlineScript(code: string): string {
+  return code
+    .replace(/^\/\/# sourceMappingURL=.*$/gm, '')
+    .replace(/<\/(script)/gi, '<\\/$1')
+    .replace(/<!--/g, '<\\!--');
+}
+
+const CHARTS: readonly { readonly id: string; readonly title: string; readonly note: string }[] = [
+  {
+    id: 'locus',
+    title: 'Pole split',
+    note: 'Pole and zero frequencies against the compensation capacitor, from Cc = 0 (left edge) past the written value.',
+  },
+  {
+    id: 'bode',
+    title: 'Loop gain and phase',
+    note: 'Magnitude and phase of the loop gain, with the unity crossing and the phase margin.',
+  },
+  {
+    id: 'step',
+    title: 'Step response',
+    note: 'Closed-loop response to a unit input step, with the settling band.',
+  },
+  {
+    id: 'splane',
+    title: 'Poles and zeros',
+    note: 'Roots in the complex plane (rad/s); right-half-plane zeros marked.',
+  },
+];
+
+export function renderReport(input: ReportInput): string {
+  const data = {
+    file: input.file,
+    designs: input.designs.map((d) => ({ name: d.report.source.name, panel: d.panel ?? null })),
+  };
+  const script = inlineScript(input.chartsScript);
+  const css = STYLE;
+  const hash = (s: string) => `'sha256-${createHash('sha256').update(s, 'utf8').digest('base64')}'`;
+  const csp = [
+    "default-src 'none'",
+    `script-src ${hash(script)} ${hash(PAGE_SCRIPT)}`,
+    `style-src ${hash(css)}`,
+    'img-src data:',
+    "base-uri 'none'",
+    "form-action 'none'",
+  ].join('; ');
+
+  const errors = count(input, 'error');
+  const warnings = count(input, 'warning');
+  const body = [
+    `<header class="top">`,
+    `<p class="kicker">Ampnote design report</p>`,
+    `<h1>${escapeHtml(input.file)}</h1>`,
+    `<p class="meta">${plural(input.designs.length, 'design')} · ${plural(errors, 'error')} · ${plural(warnings, 'warning')} · generated ${escapeHtml(input.generated)} by ampnote ${escapeHtml(input.version)}</p>`,
+    `</header>`,
+    `<aside class="caution" role="note"><strong>Caution.</strong> ${escapeHtml(CAUTION)}</aside>`,
+    input.designs.length > 1 ? contents(input.designs) : '',
+    input.fileFindings.length > 0
+      ? `<section class="design"><h2>Outside any design</h2>${findingsList(input.fileFindings)}</section>`
+      : '',
+    ...input.designs.map((d, i) => designSection(d, i)),
+    `<footer><p>${escapeHtml(CAUTION)}</p><p>Written by ampnote ${escapeHtml(input.version)} from ${escapeHtml(input.file)}.</p></footer>`,
+  ].join('\n');
+
+  return `<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="${escapeHtml(csp)}">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<link rel="icon" href="data:,">
+<meta name="generator" content="ampnote ${escapeHtml(input.version)}">
+<title>${escapeHtml(input.file)} — Ampnote design report</title>
+<style>${css}</style>
+</head>
+<body>
+<main>
+${body}
+</main>
+<script type="application/json" id="ampnote-data">${embedJson(data)}</script>
+<script>${script}</script>
+<script>${PAGE_SCRIPT}</script>
+</body>
+</html>
+`;
+}
+
+function count(input: ReportInput, severity: Severity): number {
+  return [...input.fileFindings, ...input.designs.flatMap((d) => d.findings)].filter(
+    (f) => f.severity === severity,
+  ).length;
+}
+
+const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
+
+function contents(designs: readonly ReportDesign[]): string {
+  const items = designs.map((d, i) => {
+    const e = d.findings.filter((f) => f.severity === 'error').length;
+    const w = d.findings.filter((f) => f.severity === 'warning').length;
+    const status =
+      e > 0
+        ? `<span class="chip error">${plural(e, 'error')}</span>`
+        : w > 0
+          ? `<span class="chip warning">${plural(w, 'warning')}</span>`
+          : `<span class="chip ok">no findings</span>`;
+    return `<li><a href="#design-${i}">${escapeHtml(d.report.source.name)}</a> ${status}</li>`;
+  });
+  return `<nav class="contents"><h2>Designs</h2><ul>${items.join('')}</ul></nav>`;
+}
+
+function designSection(d: ReportDesign, index: number): string {
+  const r = d.report;
+  const nominal = r.runs[0];
+  const parts: string[] = [];
+  parts.push(
+    `<section class="design" id="design-${index}" data-design-index="${index}">`,
+    `<h2><span class="label">design</span> ${escapeHtml(r.source.name)}</h2>`,
+    `<p class="where">line ${r.source.range.start.line + 1}${r.runs.length > 1 ? ` · nominal and ${plural(r.runs.length - 1, 'corner')}` : ''}</p>`,
+  );
+  if (!nominal) {
+    parts.push(
+      `<p class="problem">This design could not be evaluated; see its findings.</p>`,
+      findingsList(d.findings),
+      `</section>`,
+    );
+    return parts.join('\n');
+  }
+  parts.push(keyValues(nominal.analysis, r), cornerTable(r.runs));
+  parts.push(
+    `<h3>Findings</h3>`,
+    d.findings.length > 0 ? findingsList(d.findings) : `<p class="none">No findings.</p>`,
+  );
+  parts.push(rootsTable(nominal), handTable(nominal.analysis));
+  parts.push(`<h3>Charts <span class="sub">nominal</span></h3>`);
+  if (!d.panel) parts.push(`<p class="problem">No chart data for this design.</p>`);
+  else if (d.panel.problems.length > 0) {
+    parts.push(`<p class="problem">Charts not drawn: ${d.panel.problems.map(escapeHtml).join('; ')}</p>`);
+  } else {
+    parts.push(
+      `<div class="charts">`,
+      ...CHARTS.map(
+        (c) =>
+          `<figure class="chart"><figcaption><strong>${c.title}</strong> ${c.note}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}" role="img" aria-label="${c.title} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`,
+      ),
+      `</div>`,
+      `<noscript><p class="problem">The charts need JavaScript; the tables above hold the same values.</p></noscript>`,
+    );
+  }
+  parts.push(`</section>`);
+  return parts.join('\n');
+}
+
+function keyValues(a: DesignAnalysis, r: DesignReport): string {
+  const worst = (w: Worst | undefined, show: (v: number) => string) =>
+    w && r.runs.length > 1
+      ? `<span class="worst">worst ${escapeHtml(show(w.value))} · ${escapeHtml(w.corner)}</span>`
+      : '';
+  const tiles: [string, string, string][] = [
+    ['Unity-gain frequency', opt(a.loop.ugfHz, formatHz), worst(r.worst.ugfHz, formatHz)],
+    ['Phase margin', opt(a.loop.phaseMarginDeg, formatDeg), worst(r.worst.phaseMarginDeg, formatDeg)],
+    ['Gain margin', opt(a.loop.gainMarginDb, formatDb), worst(r.worst.gainMarginDb, formatDb)],
+    ['Open-loop DC gain', formatDb(dbOf(a.dcGain)), worst(r.worst.dcGainDb, formatDb)],
+    ['Slew rate', opt(a.slew?.rate, slewText), worst(r.worst.slew, slewText)],
+    [
+      a.step ? `Settling to ±${roundSignificant(a.step.tolerance * 100)} %` : 'Settling',
+      opt(a.step?.settlingTime, (t) => formatSi(t, 's')),
+      worst(r.worst.settlingTime, (t) => formatSi(t, 's')),
+    ],
+  ];
+  return `<dl class="tiles">${tiles
+    .map(([k, v, w]) => `<div><dt>${escapeHtml(k)}</dt><dd>${escapeHtml(v)}</dd>${w}</div>`)
+    .join('')}</dl>`;
+}
+
+function cornerTable(runs: readonly CornerRun[]): string {
+  const rows: [string, (a: DesignAnalysis) => string][] = [
+    ['loop UGF', (a) => opt(a.loop.ugfHz, formatHz)],
+    ['phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)],
+    ['gain margin', (a) => opt(a.loop.gainMarginDb, formatDb)],
+    [
+      'unity crossings',
+      (a) =>
+        a.loop.crossings.length === 0
+          ? '—'
+          : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'} ${formatHz(c.hz)}`).join(', '),
+    ],
+    ['closed-loop peaking', (a) => formatDb(a.loop.peakingDb)],
+    ['open-loop DC gain', (a) => formatDb(dbOf(a.dcGain))],
+    ['open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)],
+    ['slew rate', (a) => opt(a.slew?.rate, slewText)],
+    ['settling', (a) => (a.step ? opt(a.step.settlingTime, (t) => formatSi(t, 's')) : '—')],
+    ['overshoot', (a) => (a.step ? `${roundSignificant(a.step.overshootPct)} %` : '—')],
+    ['poles', (a) => String(a.poles.length)],
+  ];
+  const head = `<tr><th></th>${runs.map((r) => `<th>${escapeHtml(r.corner)}</th>`).join('')}</tr>`;
+  const body = rows
+    .map(
+      ([label, f]) =>
+        `<tr><th>${label}</th>${runs.map((r) => `<td>${escapeHtml(r.analysis.problems.length > 0 ? 'not solved' : f(r.analysis))}</td>`).join('')}</tr>`,
+    )
+    .join('');
+  return `<div class="scroll"><table class="corners"><thead>${head}</thead><tbody>${body}</tbody></table></div>`;
+}
+
+function rootsTable(run: CornerRun): string {
+  const a = run.analysis;
+  if (a.problems.length > 0) {
+    return `<p class="problem">Not solved: ${a.problems.map((p) => escapeHtml(p.message + (p.node ? ` (node ${p.node})` : ''))).join('; ')}</p>`;
+  }
+  const poleRows = a.poles.map((p, i) => {
+    const bars = p.participation
+      .slice(0, 4)
+      .map(
+        (x) =>
+          `<span class="share"><span class="bar" data-share="${roundSignificant(x.share, 3)}"><i class="w${Math.round(x.share * 20) * 5}"></i></span>${escapeHtml(x.node)} ${Math.round(x.share * 100)} %</span>`,
+      )
+      .join('');
+    const named = p.namedAfter === 'shared' ? '<em>shared</em>' : escapeHtml(p.namedAfter);
+    return `<tr><td>p${i + 1}</td><td>${escapeHtml(rootText(p.s.re, p.s.im))}</td><td>${escapeHtml(formatHz(p.hz))}</td><td>${roundSignificant(p.damping, 3)}</td><td>${named}</td><td class="shares">${bars}</td></tr>`;
+  });
+  const zeroRows = a.zeros.map(
+    (z, i) =>
+      `<tr><td>z${i + 1}</td><td>${escapeHtml(rootText(z.s.re, z.s.im))}</td><td>${escapeHtml(formatHz(z.hz))}</td><td></td><td>${z.rhp ? '<span class="chip error">right half-plane</span>' : 'left half-plane'}</td><td></td></tr>`,
+  );
+  return `<h3>Poles and zeros <span class="sub">nominal</span></h3><div class="scroll"><table class="roots"><thead><tr><th></th><th>s / 2π</th><th>|s| / 2π</th><th>ζ</th><th>named after</th><th>node participation</th></tr></thead><tbody>${[...poleRows, ...zeroRows].join('')}</tbody></table></div>`;
+}
+
+function handTable(a: DesignAnalysis): string {
+  const hand = a.hand ?? [];
+  if (hand.length === 0) return '';
+  const rows = hand.map(
+    (h) =>
+      `<tr><td>${escapeHtml(h.quantity)}</td><td><code>${escapeHtml(h.formula)}</code></td><td>${escapeHtml(radText(h.hand))}</td><td>${escapeHtml(radText(h.exact))}</td><td>${Number.isFinite(h.relativeError) ? `${roundSignificant(h.relativeError * 100)} %` : '—'}</td></tr>`,
+  );
+  return `<h3>Hand estimates against the exact roots <span class="sub">nominal</span></h3><div class="scroll"><table><thead><tr><th>quantity</th><th>formula</th><th>hand</th><th>exact</th><th>error</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
+}
+
+function findingsList(findings: readonly Finding[]): string {
+  const items = sortedFindings(findings).map((f) => {
+    const at = `${f.range.start.line + 1}:${f.range.start.character + 1}`;
+    const corners =
+      f.corners && f.corners.length > 0
+        ? ` <span class="corners-of">${f.corners.map(escapeHtml).join(', ')}</span>`
+        : '';
+    const related = f.related
+      .map(
+        (x) =>
+          `<li><span class="at">${x.range.start.line + 1}:${x.range.start.character + 1}</span> ${escapeHtml(x.message)}</li>`,
+      )
+      .join('');
+    const fixes = f.fixes
+      .map((x) => `<li>${x.preferred ? '<strong>suggested:</strong> ' : ''}${escapeHtml(x.title)}</li>`)
+      .join('');
+    return `<li class="finding ${f.severity}"><div class="head"><span class="sev">${f.severity}</span><code class="code">${f.code}</code><span class="at">line ${at}</span>${corners}</div><p>${escapeHtml(f.message)}</p>${related ? `<ul class="related">${related}</ul>` : ''}${fixes ? `<ul class="fixes">${fixes}</ul>` : ''}</li>`;
+  });
+  return `<ul class="findings">${items.join('')}</ul>`;
+}
+
+const opt = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? '—' : show(x));
+const dbOf = (vv: number) => 20 * Math.log10(Math.abs(vv));
+const slewText = (v: number) => `${roundSignificant(v / 1e6)} V/us`;
+const radText = (w: number) =>
+  Number.isFinite(w) ? `${formatSi(w, 'rad/s')} (${formatHz(w / (2 * Math.PI))})` : '∞';
+function rootText(re: number, im: number): string {
+  const r = formatSi(re / (2 * Math.PI), 'Hz');
+  return im === 0 ? r : `${r} ${im < 0 ? '−' : '+'} j${formatSi(Math.abs(im) / (2 * Math.PI), 'Hz')}`;
+}
+
+/** Width classes for the participation bars: styles are hashed, so no inline style attributes. */
+const BAR_WIDTHS = Array.from({ length: 21 }, (_, i) => `.bar i.w${i * 5}{width:${i * 5}%}`).join('');
+
+const STYLE = `
+:root{--paper:#fbfaf7;--ink:#1c2330;--soft:#5b6472;--rule:#e3e0d8;--accent:#0f6e6e;--tile:#ffffff;
+--error:#b3261e;--warning:#9a5700;--info:#2f5d9b;--ok:#2e6b3a;color-scheme:light}
+*{box-sizing:border-box}
+html{background:var(--paper);color:var(--ink);font:15px/1.5 system-ui,-apple-system,"Segoe UI",sans-serif}
+body{margin:0}
+main{max-width:1180px;margin:0 auto;padding:28px 28px 60px}
+h1{margin:2px 0 4px;font-size:1.7rem;font-weight:650;overflow-wrap:anywhere}
+h2{margin:0 0 2px;font-size:1.35rem;font-weight:650;overflow-wrap:anywhere}
+h3{margin:26px 0 8px;font-size:1rem;font-weight:650;letter-spacing:.01em}
+.sub,.label{font-weight:400;color:var(--soft);font-size:.85em}
+.kicker{margin:0;text-transform:uppercase;letter-spacing:.14em;font-size:.75rem;color:var(--accent);font-weight:700}
+.meta,.where{margin:0;color:var(--soft)}
+.top{border-bottom:3px solid var(--ink);padding-bottom:14px}
+.caution{margin:18px 0;padding:10px 14px;border-left:4px solid var(--warning);background:#fff6e6}
+.contents ul{list-style:none;padding:0;margin:6px 0 0;display:flex;flex-wrap:wrap;gap:8px 22px}
+.contents a{color:var(--accent);font-weight:600}
+.design{margin-top:34px;padding-top:18px;border-top:1px solid var(--rule)}
+.tiles{display:grid;grid-template-columns:repeat(auto-fill,minmax(170px,1fr));gap:10px;margin:16px 0 8px}
+.tiles div{background:var(--tile);border:1px solid var(--rule);border-radius:6px;padding:10px 12px}
+.tiles dt{font-size:.78rem;color:var(--soft)}
+.tiles dd{margin:2px 0 0;font-size:1.3rem;font-weight:650;font-variant-numeric:tabular-nums}
+.worst{display:block;font-size:.78rem;color:var(--soft)}
+.scroll{overflow-x:auto}
+table{border-collapse:collapse;font-variant-numeric:tabular-nums;margin:6px 0;min-width:50%}
+th,td{text-align:left;padding:5px 12px 5px 0;border-bottom:1px solid var(--rule);vertical-align:top;white-space:nowrap}
+thead th{font-size:.78rem;color:var(--soft);font-weight:600;text-transform:uppercase;letter-spacing:.05em}
+tbody th{font-weight:500;color:var(--soft)}
+td.shares{white-space:normal}
+.share{display:inline-flex;align-items:center;gap:6px;margin-right:14px;font-size:.85rem}
+.bar{display:inline-block;width:54px;height:7px;background:var(--rule);border-radius:4px;overflow:hidden}
+.bar i{display:block;height:100%;background:var(--accent)}
+${BAR_WIDTHS}
+.findings{list-style:none;padding:0;margin:0}
+.finding{border-left:4px solid var(--info);background:var(--tile);padding:8px 12px;margin:0 0 8px;border-radius:0 6px 6px 0}
+.finding.error{border-color:var(--error)}.finding.warning{border-color:var(--warning)}
+.finding p{margin:4px 0 0}
+.finding .head{display:flex;flex-wrap:wrap;gap:4px 12px;align-items:baseline;font-size:.85rem}
+.sev{font-weight:700;text-transform:uppercase;letter-spacing:.06em;font-size:.72rem}
+.error .sev{color:var(--error)}.warning .sev{color:var(--warning)}.info .sev{color:var(--info)}
+.code{color:var(--accent)}
+.at,.corners-of{color:var(--soft)}
+.related,.fixes{margin:6px 0 0;padding-left:18px;font-size:.88rem}
+.fixes{list-style:"→ "}
+.chip{display:inline-block;font-size:.72rem;padding:1px 8px;border-radius:10px;border:1px solid currentColor}
+.chip.error{color:var(--error)}.chip.warning{color:var(--warning)}.chip.ok{color:var(--ok)}
+.none{color:var(--soft)}
+.problem{color:var(--error)}
+.charts{display:grid;grid-template-columns:repeat(auto-fit,minmax(480px,1fr));gap:16px}
+.chart{margin:0;background:#fff;border:1px solid var(--rule);border-radius:6px;padding:10px 12px 12px}
+.chart figcaption{font-size:.85rem;color:var(--soft);margin-bottom:6px}
+.chart figcaption strong{color:var(--ink);margin-right:6px}
+.canvas-box{position:relative;height:300px}
+.chart-error{color:var(--error);font-size:.85rem}
+footer{margin-top:48px;border-top:1px solid var(--rule);color:var(--soft);font-size:.85rem}
+code{font-family:ui-monospace,"SF Mono",Menlo,Consolas,monospace;font-size:.9em}
+@media print{main{max-width:none;padding:0}.design{break-before:page}.chart{break-inside:avoid}}
+`;
+
+/**
+ * Draws each design's charts with the inlined bundle. Canvases are given the ids the drawing code looks
+ * for only while it draws, then made unique per design. `window.ampnoteReport` lists what was drawn.
+ */
+const PAGE_SCRIPT = `(function () {
+  var data = JSON.parse(document.getElementById('ampnote-data').textContent);
+  var colors = {
+    foreground: '#1c2330', muted: '#5b6472', grid: 'rgba(28, 35, 48, 0.12)', background: '#ffffff',
+    series: ['#0f6e6e', '#c2571a', '#5a4fb3', '#2e6b3a', '#9a2f6d'],
+    zero: '#b3261e', marker: '#1c2330', band: 'rgba(46, 107, 58, 0.55)',
+    fontFamily: 'system-ui, -apple-system, "Segoe UI", sans-serif', fontSize: 12
+  };
+  var report = { drawn: [], failed: [] };
+  window.ampnoteReport = report;
+  data.designs.forEach(function (d, i) {
+    var section = document.querySelector('[data-design-index="' + i + '"]');
+    var root = section && section.querySelector('.charts');
+    if (!root || !d.panel) return;
+    var canvases = root.querySelectorAll('canvas[data-chart]');
+    canvases.forEach(function (c) { c.id = 'chart-' + c.getAttribute('data-chart'); });
+    try {
+      var set = window.AmpnoteCharts.drawCharts(root, d.panel, { colors: colors });
+      report.drawn.push({ design: d.name, charts: set });
+    } catch (err) {
+      report.failed.push({ design: d.name, message: String(err && err.message || err) });
+      var p = document.createElement('p');
+      p.className = 'chart-error';
+      p.textContent = 'Charts could not be drawn: ' + (err && err.message || err);
+      root.parentNode.insertBefore(p, root);
+    }
+    canvases.forEach(function (c) { c.id = 'chart-' + c.getAttribute('data-chart') + '-' + i; });
+  });
+  document.documentElement.setAttribute('data-charts', report.failed.length ? 'failed' : 'drawn');
+})();`;

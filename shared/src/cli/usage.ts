@@ -1,0 +1,74 @@
+// Help texts for `ampnote --help` and `ampnote <command> --help`.
+
+const OVERVIEW = `ampnote — checks amplifier design-intent files (.ampnote) from the terminal
+
+Usage:
+  ampnote check FILE|FOLDER...   [--format text|json|sarif] [--config FILE] [-o FILE] [--quiet]
+  ampnote analyze FILE           [--design NAME] [--json] [--config FILE] [-o FILE]
+  ampnote report FILE -o OUT.html [--design NAME] [--config FILE] [--quiet]
+  ampnote --help | ampnote COMMAND --help
+  ampnote --version
+
+Exit status: 0 no error-level finding, 1 at least one error-level finding,
+             2 bad usage, an unreadable input or an output that could not be written.
+
+Results are small-signal, linear estimates at one operating point.
+See docs/cli.md for every option and the JSON shapes.
+`;
+
+const CHECK = `Usage: ampnote check FILE|FOLDER... [options]
+
+Checks every design in the given files. Folders are searched recursively for *.ampnote files
+(node_modules and folders whose name starts with '.' are skipped).
+
+Options:
+  -f, --format FORMAT   text (default): one line per finding, file:line:col: severity code: message
+                        json:  the findings as JSON (schemaVersion 1, see docs/cli.md)
+                        sarif: a SARIF 2.1.0 log for code-scanning tools
+  -c, --config FILE     JSON file of check thresholds (keys as the editor settings ampnote.checks.*)
+  -o, --output FILE     write the output to FILE instead of standard output
+  -q, --quiet           no progress line and no summary
+  -h, --help            this help
+`;
+
+const ANALYZE = `Usage: ampnote analyze FILE [options]
+
+Prints the exact small-signal results of each design, nominal and every corner: poles and zeros,
+DC gain, unity-gain frequency, phase and gain margin, slew, settling, pole participation, the hand
+estimates beside the exact values, the worst case and the findings.
+
+Options:
+  -d, --design NAME     only this design
+      --json            JSON (schemaVersion 1, see docs/cli.md) instead of the text tables
+  -c, --config FILE     JSON file of check thresholds
+  -o, --output FILE     write the output to FILE instead of standard output
+  -q, --quiet           no progress line
+  -h, --help            this help
+`;
+
+const REPORT = `Usage: ampnote report FILE -o OUT.html [options]
+
+Writes one self-contained HTML page (no network access needed to open it) with each design's values,
+findings and charts: pole split against the compensation capacitor, loop gain and phase, step response,
+and the pole/zero map.
+
+Options:
+  -o, --output FILE     the HTML file to write (required)
+  -d, --design NAME     only this design
+  -c, --config FILE     JSON file of check thresholds
+  -q, --quiet           no progress line and no summary
+  -h, --help            this help
+`;
+
+export function usage(topic?: 'check' | 'analyze' | 'report'): string {
+  switch (topic) {
+    case 'check':
+      return CHECK;
+    case 'analyze':
+      return ANALYZE;
+    case 'report':
+      return REPORT;
+    default:
+      return OVERVIEW;
+  }
+}
