@@ -24,6 +24,8 @@ export interface Pole {
   readonly participation: readonly Participation[];
   /** The node holding ≥ 80 % of the pole, or `shared` when none does. */
   readonly namedAfter: string | 'shared';
+  /** Network check: last/first pivot of the equilibrated G + sC at this pole (near 0 for a true pole). */
+  readonly residual?: number;
 }
 
 export interface Zero {
@@ -31,6 +33,8 @@ export interface Zero {
   readonly hz: number;
   /** True when re(s) > 0 (a right-half-plane zero). */
   readonly rhp: boolean;
+  /** Network check: last/first pivot of the equilibrated system matrix at this zero (near 0 when true). */
+  readonly residual?: number;
 }
 
 /** One unity crossing of |L(jω)|. */
@@ -114,6 +118,10 @@ export interface DesignAnalysis {
   readonly hand?: readonly HandEstimate[];
   /** Non-empty when the network could not be solved; other fields are then empty. */
   readonly problems: readonly AnalysisProblem[];
+  /** Poles of the closed loop σA/(1 + βσA), sorted by magnitude (rad/s). */
+  readonly closedLoopPoles?: readonly Complex[];
+  /** Roots that did not pass the check against the network (the results are still given). */
+  readonly warnings?: readonly string[];
 }
 
 /** Poles and zeros at one value of a swept component. */
@@ -124,7 +132,16 @@ export interface LocusPoint {
 }
 
 export type SynthesisResult =
-  | { readonly ok: true; readonly value: number; readonly achieved: number; readonly note?: string }
+  | {
+      readonly ok: true;
+      readonly value: number;
+      readonly achieved: number;
+      readonly note?: string;
+      /** `value` rounded to 3 significant figures in the direction that still meets the target. */
+      readonly rounded?: number;
+      /** The quantity re-analysed at `rounded`. */
+      readonly roundedAchieved?: number;
+    }
   | { readonly ok: false; readonly reason: string };
 
 /** Cooperative cancellation: long loops check this between steps and stop early. */

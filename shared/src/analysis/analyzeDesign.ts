@@ -1,0 +1,102 @@
+// analyzeDesign: the whole exact analysis of one design model. Never throws: modelling errors come back as
+// `problems`, located by node.
+import type { DesignModel } from '../language/model';
+import type { AnalysisProblem, DesignAnalysis, Pole, Zero } from './types';
+import { buildNetwork } from '../circuit/buildNetwork';
+import { analyzeCore, type CoreResult } from './core';
+import { checkPole, checkZero } from './rootCheck';
+import { stepResponse } from './stepResponse';
+import { slewEstimate } from './slew';
+import { handEstimates } from './handEstimates';
+
+export interface AnalyzeOptions {
+  /** Settling band as a fraction of the final value (default: the design's `settle` requirement, else 0.1 %). */
+  readonly settleTolerance?: number;
+  /** Compute the closed-loop step response (default true). Sweeps and synthesis turn it off. */
+  readonly step?: boolean;
+  /** Compute participation and check each root against the network (default true). */
+  readonly participation?: boolean;
+}
+
+/** A root whose network matrix is not singular to at least this (relative) level is reported as suspect. */
+const ROOT_CHECK_LIMIT = 1e-6;
+const DEFAULT_TOLERANCE = 0.001;
+
+export function emptyAnalysis(problems: AnalysisProblem[]): DesignAnalysis {
+  return { poles: [], zeros: [], dcGain: 0, loop: { dcGain: 0, crossings: [], peakingDb: 0 }, problems };
+}
+
+export function analyzeDesign(model: DesignModel, options: AnalyzeOptions = {}): DesignAnalysis {
+  try {
+    const built = buildNetwork(model);
+    if (!built.ok) return emptyAnalysis(built.problems);
+    const core = analyzeCore(built.network, model.beta);
+    if (!core.ok) return emptyAnalysis(core.problems);
+    return assemble(model, core.result, options);
+  } catch (err) {
+    return emptyAnalysis([
+      { message: `the analysis failed: ${err instanceof Error ? err.message : String(err)}` },
+    ]);
+  }
+}
+
+export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOptions): DesignAnalysis {
+  const withChecks = options.participation !== false;
+  const warnings: string[] = [];
+  const poles: Pole[] = r.open.poles.map((s) => {
+    const magnitude = Math.hypot(s.re, s.im);
+    const damping = magnitude === 0 ? 1 : -s.re / magnitude;
+    if (!withChecks)
+      return { s, hz: magnitude / (2 * Math.PI), damping, participation: [], namedAfter: 'shared' };
+    const check = checkPole(r.network, s);
+    if (check.residual > ROOT_CHECK_LIMIT) warnings.push(`pole at ${fmt(s)} rad/s failed the network check`);
+    const top = check.participation[0];
+    return {
+      s,
+      hz: magnitude / (2 * Math.PI),
+      damping,
+      participation: check.participation,
+      namedAfter: top && top.share >= 0.8 ? top.node : 'shared',
+      residual: check.residual,
+    };
+  });
+  const zeros: Zero[] = r.open.zeros.map((s) => {
+    const zero: Zero = { s, hz: Math.hypot(s.re, s.im) / (2 * Math.PI), rhp: s.re > 0 };
+    if (!withChecks) return zero;
+    const residual = checkZero(r.network, s);
+    if (residual > ROOT_CHECK_LIMIT) warnings.push(`zero at ${fmt(s)} rad/s failed the network check`);
+    return { ...zero, residual };
+  });
+  const tolerance = options.settleTolerance ?? settleRequirement(model) ?? DEFAULT_TOLERANCE;
+  let step;
+  if (options.step !== false) {
+    const a0 = r.sign * r.dcGain;
+    const final = Number.isFinite(a0) ? a0 / (1 + r.beta * a0) : 1 / r.beta;
+    const stable = r.closedPoles.every((p) => p.re < 0);
+    step = stepResponse(r.closed, r.closedPoles, stable ? final : NaN, tolerance);
+  }
+  const analysis: DesignAnalysis = {
+    poles,
+    zeros,
+    dcGain: r.dcGain,
+    openLoopUgfHz: r.openLoopUgfHz,
+    loop: r.loop,
+    step,
+    slew: slewEstimate(model),
+    hand: handEstimates(model, r.open.poles, r.open.zeros),
+    problems: [],
+    closedLoopPoles: r.closedPoles,
+    ...(warnings.length > 0 ? { warnings } : {}),
+  };
+  return analysis;
+}
+
+function settleRequirement(model: DesignModel): number | undefined {
+  for (const req of model.requirements) if (req.kind === 'settle') return req.tolerance;
+  return undefined;
+}
+
+const fmt = (s: { re: number; im: number }) =>
+  s.im === 0
+    ? s.re.toPrecision(4)
+    : `${s.re.toPrecision(4)} ${s.im < 0 ? '−' : '+'} j${Math.abs(s.im).toPrecision(4)}`;

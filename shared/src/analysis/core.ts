@@ -1,0 +1,84 @@
+// The exact analysis of one network: poles, zeros, gains and loop metrics, shared by analyzeDesign, the
+// sweeps and the synthesis routines (which skip the costlier parts they do not need).
+import type { Network } from '../circuit/network';
+import type { Complex, LoopMetrics } from './types';
+import { realize, nodalDcGain, type StateSpace } from './realization';
+import { poleZeroGain } from './polesZeros';
+import { lowFrequencySign, type PoleZeroForm } from './frequency';
+import { frequencySpan, logGrid, loopMetrics, unityCrossings } from './loop';
+import { eigenvalues } from '../numeric/eigenvalues';
+import type { AnalysisProblem } from './types';
+
+export interface CoreResult {
+  readonly network: Network;
+  readonly system: StateSpace;
+  /** Open loop A(s), roots sorted by magnitude. */
+  readonly open: PoleZeroForm & { readonly relativeDegree: number };
+  readonly dcGain: number;
+  readonly sign: number;
+  readonly beta: number;
+  readonly closed: StateSpace;
+  readonly closedPoles: Complex[];
+  readonly loop: LoopMetrics;
+  readonly openLoopUgfHz?: number;
+  readonly grid: number[];
+  readonly tiny: number;
+}
+
+export type CoreOutcome = { ok: true; result: CoreResult } | { ok: false; problems: AnalysisProblem[] };
+
+export const byMagnitude = (a: Complex, b: Complex) => {
+  const d = Math.hypot(a.re, a.im) - Math.hypot(b.re, b.im);
+  return d !== 0 ? d : b.im - a.im;
+};
+
+/** Closed loop of σ·A with feedback β: u = r − β·y. */
+export function closeLoop(sys: StateSpace, beta: number, sign: number): StateSpace {
+  const n = sys.order;
+  const den = 1 + beta * sign * sys.d;
+  const A = Float64Array.from(sys.A);
+  const f = (beta * sign) / den;
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) A[i * n + j] -= f * sys.b[i] * sys.c[j];
+  const b = sys.b.map((x) => x / den);
+  const c = sys.c.map((x) => (sign * x) / den);
+  return { order: n, A, b, c, d: (sign * sys.d) / den };
+}
+
+export function analyzeCore(network: Network, beta: number): CoreOutcome {
+  const real = realize(network);
+  if (!real.ok) return real;
+  const system = real.system;
+  const pz = poleZeroGain(system);
+  const poles = pz.poles.sort(byMagnitude);
+  const zeros = pz.zeros.sort(byMagnitude);
+  const open = { poles, zeros, k: pz.k, relativeDegree: pz.relativeDegree };
+  const sign = lowFrequencySign(open);
+  let dcGain = nodalDcGain(network);
+  if (dcGain === undefined) dcGain = sign * Infinity;
+  const closed = closeLoop(system, beta, sign);
+  const ce = eigenvalues(closed.A, closed.order);
+  const closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);
+  const span = frequencySpan(open, Math.abs(beta * dcGain));
+  const openSpan = frequencySpan(open, Math.abs(dcGain));
+  const grid = logGrid(span.lo, Math.max(span.hi, openSpan.hi));
+  const loop = loopMetrics({ open, closedPoles, dcGain, beta, sign, grid, tiny: span.tiny, d: system.d });
+  const ol = unityCrossings(open, grid);
+  const lastDown = [...ol].reverse().find((c) => c.down);
+  return {
+    ok: true,
+    result: {
+      network,
+      system,
+      open,
+      dcGain,
+      sign,
+      beta,
+      closed,
+      closedPoles,
+      loop,
+      openLoopUgfHz: lastDown ? lastDown.omega / (2 * Math.PI) : undefined,
+      grid,
+      tiny: span.tiny,
+    },
+  };
+}

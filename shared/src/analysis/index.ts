@@ -1,0 +1,23 @@
+// The analysis engine's public surface.
+export { buildNetwork, millerMidpointName, bufferInputName, type BuildResult } from '../circuit/buildNetwork';
+export type { Network, NetworkNode } from '../circuit/network';
+export { analyzeDesign, type AnalyzeOptions } from './analyzeDesign';
+export {
+  openLoopResponse,
+  loopResponse,
+  openLoopResponsePz,
+  loopResponsePz,
+  type BodeResult,
+} from './responses';
+export { withValue, withStageGm, valueOf, type CompensationTarget } from './variants';
+export { sweepCompensation } from './sweep';
+export {
+  solveCcForPhaseMargin,
+  solveCcForNondominantPole,
+  solveRzForZeroAtInfinity,
+  solveRzToCancelPole,
+  solveGmForZero,
+} from './synthesis';
+export { analyzeCorners, worstCase } from './corners';
+export { classicTwoStage, type ClassicTwoStage } from './handEstimates';
+export type * from './types';

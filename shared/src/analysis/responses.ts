@@ -1,0 +1,75 @@
+// Frequency responses for charts and for the agreement tests: the direct nodal solve and the
+// pole/zero/gain form of the same A(jω) and L(jω) = β·σ·A(jω).
+import type { DesignModel } from '../language/model';
+import type { Network } from '../circuit/network';
+import type { AnalysisProblem } from './types';
+import { buildNetwork } from '../circuit/buildNetwork';
+import { analyzeCore, type CoreResult } from './core';
+import { nodalBode, pzBode, type Bode } from './frequency';
+
+export interface BodeResult extends Bode {
+  /** Present (and the arrays empty) when the design could not be analysed. */
+  readonly problems?: readonly AnalysisProblem[];
+}
+
+function coreOf(
+  source: Network | DesignModel,
+  beta?: number,
+): { ok: true; core: CoreResult } | { ok: false; problems: AnalysisProblem[] } {
+  try {
+    let net: Network;
+    let b = beta ?? 1;
+    if ('G' in source) net = source;
+    else {
+      const built = buildNetwork(source);
+      if (!built.ok) return built;
+      net = built.network;
+      b = beta ?? source.beta;
+    }
+    const r = analyzeCore(net, b);
+    return r.ok ? { ok: true, core: r.result } : r;
+  } catch (err) {
+    return { ok: false, problems: [{ message: `the analysis failed: ${String(err)}` }] };
+  }
+}
+
+const failed = (problems: readonly AnalysisProblem[]): BodeResult => ({ magDb: [], phaseDeg: [], problems });
+
+/** A frequency well below every root, where the phase equals its DC value. */
+const startOmega = (core: CoreResult) => core.grid[0] / 1e3;
+
+/** Open-loop A(jω) by direct complex solve of the nodal equations (hz in Hz). */
+export function openLoopResponse(source: Network | DesignModel, hz: readonly number[]): BodeResult {
+  const r = coreOf(source);
+  if (!r.ok) return failed(r.problems);
+  return nodalBode(r.core.network, hz, 1, startOmega(r.core));
+}
+
+/** Loop gain L(jω) = β·σ·A(jω) by direct complex solve; β from the model (or `beta` for a network). */
+export function loopResponse(
+  source: Network | DesignModel,
+  hz: readonly number[],
+  beta?: number,
+): BodeResult {
+  const r = coreOf(source, beta);
+  if (!r.ok) return failed(r.problems);
+  return nodalBode(r.core.network, hz, r.core.beta * r.core.sign, startOmega(r.core));
+}
+
+/** A(jω) from the exact poles, zeros and leading gain. */
+export function openLoopResponsePz(source: Network | DesignModel, hz: readonly number[]): BodeResult {
+  const r = coreOf(source);
+  if (!r.ok) return failed(r.problems);
+  return pzBode(r.core.open, hz, 1, r.core.tiny);
+}
+
+/** L(jω) from the exact poles, zeros and leading gain. */
+export function loopResponsePz(
+  source: Network | DesignModel,
+  hz: readonly number[],
+  beta?: number,
+): BodeResult {
+  const r = coreOf(source, beta);
+  if (!r.ok) return failed(r.problems);
+  return pzBode(r.core.open, hz, r.core.beta * r.core.sign, r.core.tiny);
+}

@@ -1,0 +1,36 @@
+// Matrix exponential by scaling and squaring with a diagonal Padé approximant (degree 6, norm scaled below
+// 1/2: Moler & Van Loan, "Nineteen dubious ways…", SIAM Review 2003, method 3 — from memory).
+import { identity, multiply, normInf } from './dense';
+import { luFactor, luSolveMatrix } from './luReal';
+
+const Q = 6;
+
+export function expm(a: Float64Array, n: number): Float64Array {
+  if (n === 0) return new Float64Array(0);
+  const norm = normInf(a, n, n);
+  const e = norm > 0 ? Math.max(0, Math.floor(Math.log2(norm)) + 2) : 0;
+  const scale = 1 / 2 ** e;
+  const x0 = new Float64Array(a.length);
+  for (let i = 0; i < a.length; i++) x0[i] = a[i] * scale;
+  let x: Float64Array = x0;
+  let c = 0.5;
+  const num = identity(n);
+  const den = identity(n);
+  for (let i = 0; i < a.length; i++) {
+    num[i] += c * x0[i];
+    den[i] -= c * x0[i];
+  }
+  let positive = true;
+  for (let k = 2; k <= Q; k++) {
+    c = (c * (Q - k + 1)) / (k * (2 * Q - k + 1));
+    x = multiply(x0, x, n, n, n);
+    for (let i = 0; i < a.length; i++) {
+      num[i] += c * x[i];
+      den[i] += (positive ? c : -c) * x[i];
+    }
+    positive = !positive;
+  }
+  let result: Float64Array = luSolveMatrix(luFactor(den, n), num, n);
+  for (let k = 0; k < e; k++) result = multiply(result, result, n, n, n);
+  return result;
+}

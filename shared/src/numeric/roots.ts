@@ -1,0 +1,97 @@
+// Scalar root finding and maximisation on one variable.
+
+/**
+ * Brent's method (Brent, Algorithms for Minimization without Derivatives, 1973, ch. 4) for f(a)·f(b) ≤ 0.
+ * Returns the root to within `tol` in x.
+ */
+export function brentRoot(
+  f: (x: number) => number,
+  a: number,
+  b: number,
+  fa: number = f(a),
+  fb: number = f(b),
+  tol = 1e-12,
+  maxIter = 100,
+): number {
+  if (fa === 0) return a;
+  if (fb === 0) return b;
+  let c = a;
+  let fc = fa;
+  let d = b - a;
+  let e = d;
+  for (let iter = 0; iter < maxIter; iter++) {
+    if ((fb > 0 && fc > 0) || (fb < 0 && fc < 0)) {
+      c = a;
+      fc = fa;
+      d = b - a;
+      e = d;
+    }
+    if (Math.abs(fc) < Math.abs(fb)) {
+      a = b;
+      b = c;
+      c = a;
+      fa = fb;
+      fb = fc;
+      fc = fa;
+    }
+    const tol1 = 2 * 2.220446049250313e-16 * Math.abs(b) + 0.5 * tol;
+    const xm = 0.5 * (c - b);
+    if (Math.abs(xm) <= tol1 || fb === 0) return b;
+    if (Math.abs(e) >= tol1 && Math.abs(fa) > Math.abs(fb)) {
+      const s = fb / fa;
+      let p: number;
+      let q: number;
+      if (a === c) {
+        p = 2 * xm * s;
+        q = 1 - s;
+      } else {
+        const qq = fa / fc;
+        const r = fb / fc;
+        p = s * (2 * xm * qq * (qq - r) - (b - a) * (r - 1));
+        q = (qq - 1) * (r - 1) * (s - 1);
+      }
+      if (p > 0) q = -q;
+      p = Math.abs(p);
+      if (2 * p < Math.min(3 * xm * q - Math.abs(tol1 * q), Math.abs(e * q))) {
+        e = d;
+        d = p / q;
+      } else {
+        d = xm;
+        e = d;
+      }
+    } else {
+      d = xm;
+      e = d;
+    }
+    a = b;
+    fa = fb;
+    b += Math.abs(d) > tol1 ? d : xm >= 0 ? tol1 : -tol1;
+    fb = f(b);
+  }
+  return b;
+}
+
+/** Golden-section search for a maximum of a unimodal f on [a, b]. */
+export function goldenMax(f: (x: number) => number, a: number, b: number, tol = 1e-9, maxIter = 200) {
+  const g = (Math.sqrt(5) - 1) / 2;
+  let x1 = b - g * (b - a);
+  let x2 = a + g * (b - a);
+  let f1 = f(x1);
+  let f2 = f(x2);
+  for (let i = 0; i < maxIter && Math.abs(b - a) > tol * (Math.abs(a) + Math.abs(b) + 1e-300); i++) {
+    if (f1 < f2) {
+      a = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = a + g * (b - a);
+      f2 = f(x2);
+    } else {
+      b = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = b - g * (b - a);
+      f1 = f(x1);
+    }
+  }
+  return f1 > f2 ? { x: x1, value: f1 } : { x: x2, value: f2 };
+}
