@@ -31,6 +31,7 @@ import {
   describeDimension,
   dimensionName,
   isDimensionless,
+  lookupUnit,
   sameDimension,
   type Dimension,
   type NamedDimension,
@@ -128,10 +129,16 @@ class DesignScope {
     return true;
   }
 
+  /** Every node reference of the design, in text order. */
+  get nodeRefs(): readonly Token[] {
+    return (this.cachedRefs ??= this.design.statements.flatMap(nodeTokens));
+  }
+  private cachedRefs?: Token[];
+
   /** True when the text mentions `out` as a node anywhere (it is then a node of the design). */
   mentionsOut(): boolean {
     if (this.decls.has('out')) return false;
-    return this.design.statements.some((s) => nodeTokens(s).some((t) => t.text === 'out'));
+    return this.nodeRefs.some((t) => t.text === 'out');
   }
 }
 
@@ -285,7 +292,9 @@ class ModelBuilder {
           ? ` Did you mean ${quote(near)}?`
           : name === 'ugf'
             ? ' `ugf` can only be used in `require zero >= N * ugf`.'
-            : '';
+            : lookupUnit(name)
+              ? ` ${quote(name)} is a unit: it follows a number, and a compound unit has no spaces (\`V/us\`).`
+              : '';
         this.sink.error('reference', `Undefined name ${quote(name)}.${hint}`, range);
         return undefined;
       },
@@ -372,7 +381,7 @@ class ModelBuilder {
 
     // Nodes, in text order: the input, then every stage and declared node, then `out` when only mentioned.
     const nodes: NodeDecl[] = [];
-    const inMention = design.statements.flatMap(nodeTokens).find((t) => t.text === 'in');
+    const inMention = scope.nodeRefs.find((t) => t.text === 'in');
     nodes.push({ name: node('in'), kind: 'input', ...(inMention ? { range: tokenRange(inMention) } : {}) });
     for (const d of scope.decls.values())
       if (d.kind !== 'param')
@@ -382,7 +391,7 @@ class ModelBuilder {
           range: tokenRange(d.token),
         });
     if (scope.mentionsOut()) {
-      const first = design.statements.flatMap(nodeTokens).find((t) => t.text === 'out')!;
+      const first = scope.nodeRefs.find((t) => t.text === 'out')!;
       nodes.push({ name: node('out'), kind: 'output', range: tokenRange(first) });
     }
 
@@ -700,7 +709,10 @@ const spanFrom = (a: Token, b: Token): SourceRange => ({
 });
 
 /** Sorts a corner's overrides by target; reports targets that do not exist. */
-function collectOverrides(scope: DesignScope, corner: StatementOf<'corner'>): Overrides | undefined {
+function collectOverrides(
+  scope: DesignScope,
+  corner: StatementOf<'corner'>,
+): { overrides: Overrides; ok: boolean } {
   const params = new Map<string, OverrideSyntax>();
   const fields = new Map<Statement, Map<string, OverrideSyntax>>();
   const sink = scope.sink;
@@ -781,7 +793,7 @@ function collectOverrides(scope: DesignScope, corner: StatementOf<'corner'>): Ov
     if (!map) fields.set(target, (map = new Map()));
     map.set(o.field.text, o);
   }
-  return ok ? { params, fields } : undefined;
+  return { overrides: { params, fields }, ok };
 }
 
 /** Every declared name with its declaration and references, found from the text alone. */
@@ -883,14 +895,15 @@ export function evaluateDesign(design: DesignSyntax, sink: DiagnosticSink): Desi
       insertAt: s.insertAt,
       fields,
     };
-    const overrides = s.broken ? undefined : collectOverrides(scope, s);
+    const { overrides, ok } = collectOverrides(scope, s);
     let model: DesignModel | undefined;
-    if (overrides && nominal) {
-      if (!s.overrides.length)
-        sink.warning('syntax', `Corner ${quote(s.name.text)} overrides nothing.`, tokenRange(s.name));
+    if (!s.broken && !s.overrides.length)
+      sink.warning('syntax', `Corner ${quote(s.name.text)} overrides nothing.`, tokenRange(s.name));
+    if (nominal) {
+      // Evaluated even when some override is wrong, so that every mistake in the corner is reported.
       const cornerBuilder = new ModelBuilder(scope, overrides, dims);
       const m = cornerBuilder.build();
-      if (m && !cornerBuilder.overrideFailed) model = { ...m, corner: s.name.text };
+      if (m && ok && !s.broken && !cornerBuilder.overrideFailed) model = { ...m, corner: s.name.text };
     }
     corners.push({ name: s.name.text, origin, ...(model ? { model } : {}) });
   }

@@ -22,10 +22,21 @@ export interface LexedLine {
 }
 
 // Identifiers may hold the micro and ohm signs so that `µF` and `kΩ` read as one word.
-const IDENT_START = /[A-Za-z_\u00b5\u03bc\u03a9\u2126]/;
-const IDENT_PART = /[A-Za-z0-9_\u00b5\u03bc\u03a9\u2126]/;
-const DIGIT = /[0-9]/;
-const NUMBER = /^(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?/;
+const isLetter = (c: number): boolean =>
+  (c >= 65 && c <= 90) ||
+  (c >= 97 && c <= 122) ||
+  c === 95 ||
+  c === 0xb5 ||
+  c === 0x3bc ||
+  c === 0x3a9 ||
+  c === 0x2126;
+const isDigitCode = (c: number): boolean => c >= 48 && c <= 57;
+const IDENT_START = { test: (ch: string): boolean => isLetter(ch.charCodeAt(0)) };
+const IDENT_PART = {
+  test: (ch: string): boolean => isLetter(ch.charCodeAt(0)) || isDigitCode(ch.charCodeAt(0)),
+};
+const DIGIT = { test: (ch: string): boolean => ch.length > 0 && isDigitCode(ch.charCodeAt(0)) };
+const NUMBER = /(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?/y;
 const TWO_CHAR_OPS = new Set(['->', '>=', '<=']);
 const ONE_CHAR_OPS = new Set(['=', ',', '+', '-', '*', '/', '^', '(', ')', '.', '%', '>', '<', '\u00b0']);
 
@@ -43,7 +54,8 @@ export function lexLine(text: string, line: number): LexedLine {
       continue;
     }
     if (DIGIT.test(c) || (c === '.' && DIGIT.test(text[i + 1] ?? ''))) {
-      const m = NUMBER.exec(text.slice(i))!;
+      NUMBER.lastIndex = i;
+      const m = NUMBER.exec(text)!;
       let end = i + m[0].length;
       const next = text[end] ?? '';
       // `1.2.3`, `5e` or `5e+` are malformed numbers, not a number followed by something else (no unit

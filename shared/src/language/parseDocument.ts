@@ -141,5 +141,8 @@ export function parseDocument(text: string): ParsedDocument {
     if (statement) open.statements.push(statement);
   }
   if (open) close(undefined);
-  return { designs, diagnostics: sink.items };
+  const diagnostics = [...sink.items].sort(
+    (a, b) => a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character,
+  );
+  return { designs, diagnostics };
 }

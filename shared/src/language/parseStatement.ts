@@ -19,7 +19,14 @@ import {
 } from './vocabulary';
 
 const ALL_FIELDS = new Set(Object.values(FIELDS_BY_STATEMENT).flat());
-const STOP_WORDS: ReadonlySet<string> = new Set([...KEYWORDS, ...ALL_FIELDS]);
+// Words that may follow a value on the same line; any other word right after a number is read as its unit.
+const STOP_WORDS: ReadonlySet<string> = new Set([
+  ...ALL_FIELDS,
+  ...Object.values(FLAGS_BY_STATEMENT).flat(),
+  'from',
+  'at',
+  'within',
+]);
 /** Words that cannot name a parameter, stage, node or corner. */
 export const RESERVED_NAMES: ReadonlySet<string> = new Set([...KEYWORDS, ...ALL_FIELDS, 'in', 'gnd']);
 
@@ -55,23 +62,25 @@ class StatementParser {
     return tokenRange(this.c.last() ?? this.keyword);
   }
 
-  name(what: string): Token {
+  name(what: string | (() => string)): Token {
     const t = this.c.peek();
-    if (!t) this.fail(`Missing ${what} after ${quote(this.c.last()!.text)}.`, this.lastRange());
-    if (t.kind !== 'ident') this.fail(`Expected ${what}, found ${quote(t.text)}.`, tokenRange(t));
+    const w = (): string => (typeof what === 'string' ? what : what());
+    if (!t) this.fail(`Missing ${w()} after ${quote(this.c.last()!.text)}.`, this.lastRange());
+    if (t.kind !== 'ident') this.fail(`Expected ${w()}, found ${quote(t.text)}.`, tokenRange(t));
     this.c.next();
     return t;
   }
 
-  op(text: string, message: string): Token {
+  // Messages are thunks: they are only built when something is wrong, which keeps parsing cheap.
+  op(text: string, message: () => string): Token {
     const t = this.c.peek();
-    if (!t || t.kind !== 'op' || t.text !== text) this.fail(message, t ? tokenRange(t) : this.lastRange());
+    if (!t || t.kind !== 'op' || t.text !== text) this.fail(message(), t ? tokenRange(t) : this.lastRange());
     return this.c.next()!;
   }
 
-  expr(missing: string, blame: SourceRange): Expr {
+  expr(missing: () => string, blame: () => SourceRange): Expr {
     const e = parseExpression(this.c, this.ctx);
-    if (!e) this.fail(missing, blame);
+    if (!e) this.fail(missing(), blame());
     return e;
   }
 
@@ -117,8 +126,15 @@ class StatementParser {
       const t = this.c.peek()!;
       if (t.kind === 'ident' && allowed.includes(t.text)) {
         this.c.next();
-        const eq = this.op('=', `Missing \`=\` after ${quote(t.text)}.`);
-        this.addField(t.text, t, this.expr(`Missing value for ${quote(t.text)}.`, spanRange(t, eq)));
+        const eq = this.op('=', () => `Missing \`=\` after ${quote(t.text)}.`);
+        this.addField(
+          t.text,
+          t,
+          this.expr(
+            () => `Missing value for ${quote(t.text)}.`,
+            () => spanRange(t, eq),
+          ),
+        );
         continue;
       }
       if (t.kind === 'ident' && flags.includes(t.text)) {
@@ -150,9 +166,9 @@ class StatementParser {
   }
 
   nodePair(what: string): { from: Token; to: Token } {
-    const from = this.name(`the node ${what} starts from`);
-    this.op('->', `Expected \`->\` between the two nodes of ${quote(this.keyword.text)}.`);
-    const to = this.name(`the node ${what} goes to`);
+    const from = this.name(() => `the node ${what} starts from`);
+    this.op('->', () => `Expected \`->\` between the two nodes of ${quote(this.keyword.text)}.`);
+    const to = this.name(() => `the node ${what} goes to`);
     return { from, to };
   }
 }
@@ -176,11 +192,17 @@ export function parseStatement(line: LexedLine, text: string, sink: DiagnosticSi
     switch (kind) {
       case 'param': {
         parts.name = p.name('a parameter name');
-        const eq = p.op('=', `Missing \`=\` after the parameter name ${quote((parts.name as Token).text)}.`);
+        const eq = p.op(
+          '=',
+          () => `Missing \`=\` after the parameter name ${quote((parts.name as Token).text)}.`,
+        );
         p.addField(
           'value',
           eq,
-          p.expr(`Missing value for ${quote((parts.name as Token).text)}.`, tokenRange(eq)),
+          p.expr(
+            () => `Missing value for ${quote((parts.name as Token).text)}.`,
+            () => tokenRange(eq),
+          ),
         );
         p.finish();
         break;
@@ -221,7 +243,7 @@ export function parseStatement(line: LexedLine, text: string, sink: DiagnosticSi
         p.fieldList(kind);
         break;
       case 'element': {
-        const k = p.name(`an element kind (${ELEMENT_KINDS.join(', ')})`);
+        const k = p.name(() => `an element kind (${ELEMENT_KINDS.join(', ')})`);
         if (!(ELEMENT_KINDS as readonly string[]).includes(k.text)) {
           const near = closest(k.text, ELEMENT_KINDS);
           p.fail(
@@ -239,8 +261,15 @@ export function parseStatement(line: LexedLine, text: string, sink: DiagnosticSi
           parts.a = p.name('the first node');
           parts.b = p.name('the second node');
         }
-        const eq = p.op('=', `Missing \`=\` before the value of ${quote(`element ${element}`)}.`);
-        p.addField('value', k, p.expr(`Missing value for ${quote(`element ${element}`)}.`, tokenRange(eq)));
+        const eq = p.op('=', () => `Missing \`=\` before the value of ${quote(`element ${element}`)}.`);
+        p.addField(
+          'value',
+          k,
+          p.expr(
+            () => `Missing value for ${quote(`element ${element}`)}.`,
+            () => tokenRange(eq),
+          ),
+        );
         p.fieldList('element');
         break;
       }
@@ -278,7 +307,7 @@ export function parseStatement(line: LexedLine, text: string, sink: DiagnosticSi
 }
 
 function parseRequirement(p: StatementParser, parts: Record<string, unknown>): void {
-  const k = p.name(`a requirement (${REQUIREMENT_KINDS.join(', ')})`);
+  const k = p.name(() => `a requirement (${REQUIREMENT_KINDS.join(', ')})`);
   if (!(REQUIREMENT_KINDS as readonly string[]).includes(k.text)) {
     const near = closest(k.text, REQUIREMENT_KINDS);
     p.fail(
@@ -290,7 +319,10 @@ function parseRequirement(p: StatementParser, parts: Record<string, unknown>): v
   parts.requirement = req;
   parts.requirementToken = k;
   if (req === 'settle') {
-    const tol = p.expr('Missing the tolerance after `settle` (e.g. `0.1 %`).', tokenRange(k));
+    const tol = p.expr(
+      () => 'Missing the tolerance after `settle` (e.g. `0.1 %`).',
+      () => tokenRange(k),
+    );
     p.addField('tolerance', k, tol);
     const w = p.c.peek();
     if (!w || w.kind !== 'ident' || w.text !== 'within')
@@ -299,7 +331,14 @@ function parseRequirement(p: StatementParser, parts: Record<string, unknown>): v
         w ? tokenRange(w) : tol.range,
       );
     p.c.next();
-    p.addField('within', w, p.expr('Missing the time after `within`.', tokenRange(w)));
+    p.addField(
+      'within',
+      w,
+      p.expr(
+        () => 'Missing the time after `within`.',
+        () => tokenRange(w),
+      ),
+    );
     p.finish();
     return;
   }
@@ -314,7 +353,14 @@ function parseRequirement(p: StatementParser, parts: Record<string, unknown>): v
   p.c.next();
   parts.op = op as Comparison;
   const field = req === 'zero' ? 'factor' : 'value';
-  p.addField(field, k, p.expr(`Missing the value after ${quote(op!)}.`, tokenRange(opToken!)));
+  p.addField(
+    field,
+    k,
+    p.expr(
+      () => `Missing the value after ${quote(op!)}.`,
+      () => tokenRange(opToken!),
+    ),
+  );
   p.finish();
 }
 
@@ -325,11 +371,14 @@ function parseOverrides(p: StatementParser, out: OverrideSyntax[]): void {
     let field: Token | undefined;
     if (p.c.isOp('.')) {
       p.c.next();
-      field = p.name(`a field name after ${quote(`${target.text}.`)}`);
+      field = p.name(() => `a field name after ${quote(`${target.text}.`)}`);
     }
     const targetText = field ? `${target.text}.${field.text}` : target.text;
-    const eq = p.op('=', `Missing \`=\` after ${quote(targetText)}.`);
-    const expr = p.expr(`Missing value for ${quote(targetText)}.`, spanRange(target, eq));
+    const eq = p.op('=', () => `Missing \`=\` after ${quote(targetText)}.`);
+    const expr = p.expr(
+      () => `Missing value for ${quote(targetText)}.`,
+      () => spanRange(target, eq),
+    );
     const targetRange = spanRange(target, field ?? target);
     const first = seen.get(targetText);
     if (first) {
