@@ -69,6 +69,7 @@ export function panelHtml(input: PanelHtmlInput): string {
         <span class="slider-label">C<sub>c</sub></span>
         <input id="cc-slider" type="range" min="0" max="1000" step="1" value="500" aria-label="Compensation capacitor (log scale)">
         <output id="cc-value" for="cc-slider"></output>
+        <span id="cc-what" class="muted slider-what"></span>
       </label>
       <label class="slider" id="rz-box">
         <span class="slider-label">R<sub>z</sub></span>

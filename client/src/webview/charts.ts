@@ -160,7 +160,12 @@ function axis(colors: ChartColors, title: string) {
   return {
     grid: { color: colors.grid },
     border: { color: colors.grid },
-    ticks: { color: colors.muted, font: { family: colors.fontFamily, size: colors.fontSize - 1 } },
+    ticks: {
+      color: colors.muted,
+      font: { family: colors.fontFamily, size: colors.fontSize - 1 },
+      maxRotation: 0,
+      autoSkipPadding: 10,
+    },
     title: {
       display: true,
       text: title,
@@ -194,6 +199,18 @@ function line(
 
 // ---- (a) pole split -------------------------------------------------------------------------------------
 
+/**
+ * The Cc = 0 point sits at the axis' left edge, not at a real abscissa: mark it with a dot and draw the
+ * step from it to the first swept value dotted, so it does not read as a measured stretch of the curve.
+ */
+function uncompensatedStyle(cc: readonly number[]): Partial<RoleDataset> {
+  if (cc[0] !== 0) return {};
+  return {
+    pointRadius: (ctx: { dataIndex: number }) => (ctx.dataIndex === 0 ? 3.5 : 0),
+    segment: { borderDash: (ctx: { p0DataIndex: number }) => (ctx.p0DataIndex === 0 ? [2, 3] : undefined) },
+  } as Partial<RoleDataset>;
+}
+
 /** Where Cc = 0 is drawn: half a decade left of the smallest swept value. */
 export function zeroCcEdge(data: PanelData): number | undefined {
   const cc = data.locus.poles.flatMap((s) => s.cc).filter((c) => c > 0);
@@ -213,6 +230,7 @@ function locusConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'
         s.label,
         s.cc.map((cc, i) => ({ x: px(cc), y: s.hz[i]!, cc })),
         color,
+        { pointHitRadius: 4, ...uncompensatedStyle(s.cc) },
       ),
     );
   });
@@ -226,6 +244,7 @@ function locusConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'
         {
           borderDash: k % 2 === 0 ? [6, 4] : [2, 3],
           borderWidth: 1.5,
+          pointHitRadius: 4,
         },
       ),
     );
@@ -639,8 +658,8 @@ function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<
     options: {
       ...base,
       scales: {
-        x: symAxis('σ = Re s (rad/s, symmetric log)', xMin, xMax),
-        y: symAxis('jω = Im s (rad/s, symmetric log)', -yMax, yMax),
+        x: symAxis('Re s (rad/s)', xMin, xMax),
+        y: symAxis('Im s (rad/s)', -yMax, yMax),
       },
       plugins: {
         ...base.plugins,

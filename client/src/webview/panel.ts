@@ -42,6 +42,7 @@ const ui = {
   controls: $('controls'),
   ccSlider: $<HTMLInputElement>('cc-slider'),
   ccValue: $<HTMLOutputElement>('cc-value'),
+  ccWhat: $('cc-what'),
   rzSlider: $<HTMLInputElement>('rz-slider'),
   rzValue: $<HTMLOutputElement>('rz-value'),
   rzBox: $('rz-box'),
@@ -130,6 +131,7 @@ function renderSliders(d: PanelData): void {
   const cc = d.cc ?? d.compensation.ccWritten;
   ui.ccSlider.value = String(valueToPosition(cc, s.cc, false));
   setText(ui.ccValue, formatSi(cc, 'F'));
+  setText(ui.ccWhat, d.compensation.label ?? '');
   ui.rzBox.classList.toggle('hidden', d.compensation.kind !== 'miller');
   const rz = d.rz ?? d.compensation.rzWritten ?? 0;
   ui.rzSlider.value = String(valueToPosition(rz, s.rz, true));

@@ -44,6 +44,8 @@ export interface PanelData {
     readonly index: number;
     readonly ccWritten: number;
     readonly rzWritten?: number;
+    /** The element as the designer knows it, e.g. `miller first -> second`. */
+    readonly label?: string;
   };
   /** The values the charts show (the slider's, when one is moved; else as written). */
   readonly cc?: number;

@@ -1,0 +1,231 @@
+// Everything the pole-split panel draws, computed by the engine for one design: the locus of poles and
+// zeros against the compensation capacitor (from Cc = 0 to far past the written value), the loop gain, the
+// closed-loop step, and the roots with their node participation. Pure; the server calls it per request.
+import { analyzeDesign, loopResponse, sweepCompensation, withValue } from '../analysis';
+import type { CancelToken, Complex, LocusPoint } from '../analysis/types';
+import type { DesignModel } from '../language/model';
+import { CAUTION, type LocusSeries, type PanelData, type SliderRange } from '../protocol/panelData';
+
+export interface PanelOptions {
+  /** Slider overrides of the swept compensation element (F, ohm); `rz = 0` removes the nulling resistor. */
+  readonly cc?: number;
+  readonly rz?: number;
+  readonly token?: CancelToken;
+  /** Settling tolerance when the design states none (fraction). */
+  readonly settleTolerance?: number;
+  /** Points per decade of the Cc sweep. */
+  readonly sweepPerDecade?: number;
+}
+
+/** The sweep spans this factor either side of the written Cc, plus the uncompensated point Cc = 0. */
+export const SWEEP_SPAN = 100;
+const BODE_PER_DECADE = 40;
+const BODE_MAX_POINTS = 600;
+
+type Target = { readonly kind: 'miller' | 'buffered'; readonly index: number };
+
+/** The element the sliders move: the first Miller capacitor, else the first buffered one. */
+export function sweptCompensation(model: DesignModel): Target | undefined {
+  if (model.millers.length > 0) return { kind: 'miller', index: 0 };
+  if (model.buffered.length > 0) return { kind: 'buffered', index: 0 };
+  return undefined;
+}
+
+export function logSpace(from: number, to: number, perDecade: number): number[] {
+  const decades = Math.log10(to / from);
+  const n = Math.max(2, Math.round(decades * perDecade) + 1);
+  return Array.from({ length: n }, (_, i) => from * 10 ** ((decades * i) / (n - 1)));
+}
+
+/** Sweep values: 0, the log-spaced span, and the written and shown values exactly (so markers lie on it). */
+export function sweepValues(written: number, shown: number, perDecade: number): number[] {
+  const values = [0, ...logSpace(written / SWEEP_SPAN, written * SWEEP_SPAN, perDecade), written, shown];
+  const sorted = [...new Set(values)].sort((a, b) => a - b);
+  // Drop log points that nearly coincide with an exact value, keeping the exact one.
+  return sorted.filter((v, i) => {
+    const exact = v === written || v === shown || v === 0;
+    if (exact) return true;
+    const near = (w: number) => w !== v && Math.abs(w / v - 1) < 1e-6;
+    return !near(written) && !near(shown);
+  });
+}
+
+const magnitude = (s: Complex) => Math.hypot(s.re, s.im);
+const toHz = (s: Complex) => magnitude(s) / (2 * Math.PI);
+
+/** Branch k of a locus: the k-th root by magnitude at each swept value that has at least k+1 roots. */
+function branches(
+  points: readonly LocusPoint[],
+  pick: (p: LocusPoint) => readonly Complex[],
+  label: string,
+  rhp: boolean,
+): LocusSeries[] {
+  const sorted = points.map((p) => ({
+    value: p.value,
+    roots: pick(p)
+      .filter((s) => Number.isFinite(s.re) && Number.isFinite(s.im))
+      .slice()
+      .sort((a, b) => magnitude(a) - magnitude(b)),
+  }));
+  const count = Math.max(0, ...sorted.map((p) => p.roots.length));
+  const out: LocusSeries[] = [];
+  for (let k = 0; k < count; k++) {
+    const cc: number[] = [];
+    const hz: number[] = [];
+    const side: boolean[] = [];
+    for (const p of sorted) {
+      const s = p.roots[k];
+      if (!s || magnitude(s) === 0) continue;
+      cc.push(p.value);
+      hz.push(toHz(s));
+      side.push(s.re > 0);
+    }
+    if (cc.length === 0) continue;
+    if (!rhp) {
+      out.push({ label: `${label} ${k + 1}`, cc, hz });
+      continue;
+    }
+    const half = side.every(Boolean) ? 'RHP ' : side.every((r) => !r) ? 'LHP ' : '';
+    out.push({ label: `${half}${label} ${k + 1}`, cc, hz, rhp: side });
+  }
+  return out;
+}
+
+/** A frequency grid a few decades either side of every root and crossing, so the Bode plot shows them all. */
+export function bodeGrid(rootsHz: readonly number[]): number[] {
+  const f = rootsHz.filter((x) => Number.isFinite(x) && x > 0);
+  if (f.length === 0) return logSpace(1, 1e9, BODE_PER_DECADE);
+  const lo = Math.min(...f) / 100;
+  const hi = Math.max(...f) * 10;
+  const perDecade = Math.min(BODE_PER_DECADE, BODE_MAX_POINTS / Math.max(1, Math.log10(hi / lo)));
+  return logSpace(lo, hi, perDecade);
+}
+
+function sliderRanges(model: DesignModel, target: Target, ccWritten: number, rzWritten: number | undefined) {
+  const cc: SliderRange = { min: ccWritten / SWEEP_SPAN, max: ccWritten * SWEEP_SPAN };
+  let rz0 = rzWritten;
+  if (!(rz0 && rz0 > 0)) {
+    // Without a written Rz the interesting span is around 1/gm of the stage the capacitor feeds back from.
+    const to = target.kind === 'miller' ? model.millers[target.index]!.to : model.buffered[target.index]!.to;
+    const gm =
+      model.stages.find((s) => s.name === to)?.gm ?? Math.max(...model.stages.map((s) => s.gm), 1e-3);
+    rz0 = 1 / gm;
+  }
+  const rz: SliderRange = { min: rz0 / SWEEP_SPAN, max: rz0 * SWEEP_SPAN };
+  return { cc, rz };
+}
+
+/**
+ * PanelData for one design. `cc`/`rz` override the swept element as the sliders ask. Returns undefined when
+ * the token is cancelled part-way (the caller drops the request).
+ */
+export function buildPanelData(
+  model: DesignModel,
+  uri: string,
+  options: PanelOptions = {},
+): PanelData | undefined {
+  const token = options.token;
+  const target = sweptCompensation(model);
+  let shown = model;
+  let compensation: PanelData['compensation'];
+  let ccShown: number | undefined;
+  let rzShown: number | undefined;
+  if (target) {
+    const written = target.kind === 'miller' ? model.millers[target.index]! : model.buffered[target.index]!;
+    const rzWritten = target.kind === 'miller' ? model.millers[target.index]!.rz : undefined;
+    const label = `${target.kind === 'miller' ? 'miller' : 'indirect'} ${written.from} -> ${written.to}`;
+    compensation = { kind: target.kind, index: target.index, ccWritten: written.cc, rzWritten, label };
+    if (options.cc !== undefined && options.cc > 0)
+      shown = withValue(shown, { ...target, field: 'cc' }, options.cc);
+    if (options.rz !== undefined && target.kind === 'miller')
+      shown = withValue(shown, { ...target, field: 'rz' }, options.rz);
+    ccShown = options.cc !== undefined && options.cc > 0 ? options.cc : written.cc;
+    rzShown = target.kind === 'miller' ? (options.rz ?? rzWritten) : undefined;
+  }
+
+  const analysis = analyzeDesign(shown);
+  if (token?.isCancellationRequested) return undefined;
+  const base = {
+    uri,
+    design: model.name,
+    compensation,
+    cc: ccShown,
+    rz: rzShown,
+    sliders:
+      target && compensation
+        ? sliderRanges(model, target, compensation.ccWritten, compensation.rzWritten)
+        : undefined,
+    caution: CAUTION,
+  };
+  if (analysis.problems.length > 0) {
+    return {
+      ...base,
+      poles: [],
+      zeros: [],
+      locus: { poles: [], zeros: [] },
+      bode: { hz: [], magDb: [], phaseDeg: [], crossings: [] },
+      step: { t: [], y: [], final: 0, tolerance: options.settleTolerance ?? 0, overshootPct: 0 },
+      summary: { dcGainDb: 20 * Math.log10(Math.abs(analysis.dcGain)) },
+      problems: analysis.problems.map((p) => (p.node ? `${p.message} (node ${p.node})` : p.message)),
+    };
+  }
+
+  let locus: PanelData['locus'] = { poles: [], zeros: [] };
+  if (target && compensation && ccShown !== undefined) {
+    const values = sweepValues(compensation.ccWritten, ccShown, options.sweepPerDecade ?? 15);
+    const points = sweepCompensation(shown, { ...target, field: 'cc' }, values, token);
+    if (token?.isCancellationRequested) return undefined;
+    locus = {
+      poles: branches(points, (p) => p.poles, 'pole', false),
+      zeros: branches(points, (p) => p.zeros, 'zero', true),
+    };
+  }
+
+  const hz = bodeGrid([
+    ...analysis.poles.map((p) => p.hz),
+    ...analysis.zeros.map((z) => z.hz),
+    ...analysis.loop.crossings.map((c) => c.hz),
+  ]);
+  const response = loopResponse(shown, hz);
+  if (token?.isCancellationRequested) return undefined;
+
+  const step = analysis.step;
+  return {
+    ...base,
+    poles: analysis.poles.map((p) => ({
+      s: p.s,
+      hz: p.hz,
+      damping: p.damping,
+      namedAfter: p.namedAfter,
+      participation: p.participation,
+    })),
+    zeros: analysis.zeros.map((z) => ({ s: z.s, hz: z.hz, rhp: z.rhp })),
+    locus,
+    bode: {
+      hz,
+      magDb: response.magDb,
+      phaseDeg: response.phaseDeg,
+      ugfHz: analysis.loop.ugfHz,
+      phaseMarginDeg: analysis.loop.phaseMarginDeg,
+      crossings: analysis.loop.crossings,
+    },
+    step: step
+      ? {
+          t: step.t,
+          y: step.y,
+          final: step.final,
+          tolerance: step.tolerance,
+          settlingTime: step.settlingTime,
+          overshootPct: step.overshootPct,
+        }
+      : { t: [], y: [], final: 0, tolerance: options.settleTolerance ?? 0, overshootPct: 0 },
+    summary: {
+      ugfHz: analysis.loop.ugfHz,
+      phaseMarginDeg: analysis.loop.phaseMarginDeg,
+      gainMarginDb: analysis.loop.gainMarginDb,
+      dcGainDb: 20 * Math.log10(Math.abs(analysis.dcGain)),
+      slewVperUs: analysis.slew ? analysis.slew.rate / 1e6 : undefined,
+    },
+    problems: [],
+  };
+}

@@ -1,0 +1,381 @@
+// The pole-split panel in headless Chromium, fed with PanelData computed by the real engine: what the charts
+// hold must be the engine's numbers, markers must sit where the analysis puts them, user text stays text,
+// and the page runs under its strict Content-Security-Policy without a single violation.
+import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parseDocument } from '../../shared/src/language';
+import { analyzeDesign } from '../../shared/src/analysis';
+import type { DesignModel } from '../../shared/src/language/model';
+import type { PanelData } from '../../shared/src/protocol/panelData';
+import { buildPanelData } from '../../shared/src/panel/buildPanelData';
+import { symlog } from '../../client/src/webview/symlog';
+import { positionToValue } from '../../client/src/webview/sliderScale';
+import { panelHtml } from '../../client/src/panelHtml';
+import {
+  OUTPUT,
+  ROOT,
+  openPanel,
+  readCharts,
+  startHarness,
+  type Drawn,
+  type Harness,
+  type PanelPage,
+} from './harness';
+
+const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b), 1e-300);
+
+/** A two-stage design of our own (invented values) for the closed-form checks below. */
+const TWO_STAGE = `design webview_two_stage
+  param gm1 = 180 uS
+  stage first   gm = gm1    rout = 1.5 Mohm   cap = 120 fF
+  stage second  gm = 2.4 mS rout = 90 kohm    cap = 300 fF   inverting
+  load          cap = 2.5 pF
+  miller first -> second   cc = 1.2 pF
+  feedback beta = 1
+  require pm  >= 60 deg
+  require ugf >= 10 MHz
+end
+`;
+
+interface Case {
+  readonly label: string;
+  readonly uri: string;
+  readonly model: DesignModel;
+}
+
+function casesFrom(label: string, uri: string, text: string): Case[] {
+  const doc = parseDocument(text);
+  return doc.designs
+    .filter((d) => d.nominal)
+    .map((d) => ({ label: `${label}:${d.name}`, uri, model: d.nominal! }));
+}
+
+function exampleCases(): Case[] {
+  const dir = join(ROOT, 'examples');
+  let files: string[] = [];
+  try {
+    files = readdirSync(dir).filter((f) => f.endsWith('.ampnote'));
+  } catch {
+    files = [];
+  }
+  return files.flatMap((f) => casesFrom(f, `file://${join(dir, f)}`, readFileSync(join(dir, f), 'utf8')));
+}
+
+const fixture = casesFrom('fixture', 'file:///work/fixture/webview.ampnote', TWO_STAGE);
+const cases: Case[] = [...fixture, ...exampleCases()];
+
+function panelData(c: Case, over: { cc?: number; rz?: number } = {}): PanelData {
+  const d = buildPanelData(c.model, c.uri, over);
+  if (!d) throw new Error('buildPanelData returned nothing without cancellation');
+  // The server sends it as JSON over the language-server connection: compare what survives that trip.
+  return JSON.parse(JSON.stringify(d)) as PanelData;
+}
+
+const byRole = (drawn: Drawn, chart: keyof Drawn, role: string) =>
+  drawn[chart].filter((d) => d.role === role);
+
+let h: Harness;
+let panel: PanelPage;
+
+beforeAll(async () => {
+  h = await startHarness();
+  panel = await openPanel(h);
+});
+
+afterAll(async () => {
+  await h?.close();
+});
+
+describe('panel page', () => {
+  it('is generated with a strict policy and the nonce on its only script', () => {
+    const html = panelHtml({
+      nonce: 'abc123',
+      cspSource: 'https://x.test',
+      scriptUri: 'https://x.test/p.js',
+      styleUri: 'https://x.test/p.css',
+    });
+    const csp = /http-equiv="Content-Security-Policy" content="([^"]+)"/.exec(html)?.[1] ?? '';
+    expect(csp).toContain("default-src 'none'");
+    expect(csp).toContain("script-src 'nonce-abc123'");
+    expect(csp).toContain('style-src https://x.test');
+    expect(csp).toContain('img-src https://x.test data:');
+    expect(csp).not.toContain('unsafe');
+    expect(html.match(/<script/g)?.length).toBe(1);
+    expect(html).toContain('<script nonce="abc123" src="https://x.test/p.js">');
+    expect(html).not.toMatch(/\son[a-z]+=/i);
+  });
+
+  it('serves a fresh nonce on every load', async () => {
+    const first = h.lastNonce();
+    const other = await openPanel(h);
+    expect(h.lastNonce()).not.toBe(first);
+    expect(h.lastNonce()).toMatch(/^[0-9a-f]{32}$/);
+    await other.page.close();
+  });
+});
+
+describe.each(cases.map((c) => [c.label, c] as const))('engine data for %s', (_label, c) => {
+  it('draws the engine’s poles, sweep, loop gain and step, with markers where the analysis puts them', async () => {
+    const data = panelData(c);
+    expect(data.problems).toEqual([]);
+    await panel.showData(data);
+    const drawn = await readCharts(panel.page);
+
+    // (a) locus: every branch drawn point for point as the engine swept it, Cc = 0 at the left edge.
+    const branches = byRole(drawn, 'locus', 'pole-branch');
+    expect(branches.length).toBe(data.locus.poles.length);
+    branches.forEach((b, k) => {
+      expect(b.data.map((p) => p.y)).toEqual(data.locus.poles[k]!.hz);
+      expect(b.data.map((p) => p.cc)).toEqual(data.locus.poles[k]!.cc);
+    });
+    const zeroBranches = byRole(drawn, 'locus', 'zero-branch');
+    expect(zeroBranches.map((b) => b.data.map((p) => p.y))).toEqual(data.locus.zeros.map((s) => s.hz));
+    if (data.compensation) {
+      expect(data.locus.poles[0]!.cc[0]).toBe(0);
+      const xs = branches.flatMap((b) => b.data.map((p) => p.x));
+      const positive = branches.flatMap((b) => b.data.filter((p) => (p.cc ?? 0) > 0).map((p) => p.x));
+      expect(branches[0]!.data[0]!.x).toBe(Math.min(...xs));
+      expect(branches[0]!.data[0]!.x).toBeLessThan(Math.min(...positive));
+      // Far past the written value on the right.
+      expect(Math.max(...xs)).toBeGreaterThanOrEqual(10 * data.compensation.ccWritten);
+
+      // The current-Cc marker sits at the written value, and the locus there is the analysis of the design.
+      const marker = byRole(drawn, 'locus', 'current-cc')[0]!;
+      expect(marker.data.map((p) => p.x)).toEqual([data.compensation.ccWritten, data.compensation.ccWritten]);
+      const exact = analyzeDesign(c.model)
+        .poles.map((p) => p.hz)
+        .sort((a, b) => a - b);
+      const atWritten = branches
+        .map((b) => b.data.find((p) => p.cc === data.compensation!.ccWritten)?.y)
+        .filter((v): v is number => v !== undefined);
+      expect(atWritten.length).toBe(exact.length);
+      atWritten.forEach((hz, k) => expect(rel(hz, exact[k]!)).toBeLessThan(1e-9));
+      const current = byRole(drawn, 'locus', 'current-pole')[0]!;
+      expect(current.data.map((p) => p.y).sort((a, b) => a - b)).toEqual(exact);
+    }
+
+    // (b) loop gain: the drawn curve is the engine's response; the UGF marker is at the analysis' crossing and
+    // the drawn magnitude passes 0 dB between the grid points around it.
+    const mag = byRole(drawn, 'bode', 'magnitude')[0]!;
+    expect(mag.data.map((p) => p.y)).toEqual(data.bode.magDb);
+    expect(mag.data.map((p) => p.x)).toEqual(data.bode.hz);
+    expect(byRole(drawn, 'bode', 'phase')[0]!.data.map((p) => p.y)).toEqual(data.bode.phaseDeg);
+    const analysis = analyzeDesign(c.model);
+    if (analysis.loop.ugfHz !== undefined) {
+      const ugf = byRole(drawn, 'bode', 'ugf')[0]!;
+      expect(ugf.data.map((p) => p.x)).toEqual([analysis.loop.ugfHz, analysis.loop.ugfHz]);
+      const i = mag.data.findIndex((p) => p.x > analysis.loop.ugfHz!);
+      expect(i).toBeGreaterThan(0);
+      expect(Math.sign(mag.data[i - 1]!.y)).not.toBe(Math.sign(mag.data[i]!.y));
+      const pm = byRole(drawn, 'bode', 'phase-margin')[0]!;
+      expect(pm.data[0]!.y).toBe(-180);
+      expect(pm.data[1]!.y).toBeCloseTo(analysis.loop.phaseMarginDeg! - 180, 9);
+      // The drawn phase at the crossing agrees with the margin (linear interpolation on the log grid).
+      const ph = byRole(drawn, 'bode', 'phase')[0]!.data;
+      const f = Math.log(analysis.loop.ugfHz / ph[i - 1]!.x) / Math.log(ph[i]!.x / ph[i - 1]!.x);
+      const phaseAt = ph[i - 1]!.y + f * (ph[i]!.y - ph[i - 1]!.y);
+      expect(Math.abs(phaseAt - (analysis.loop.phaseMarginDeg! - 180))).toBeLessThan(1.5);
+    }
+
+    // (c) step with its settling band.
+    const step = byRole(drawn, 'step', 'step')[0]!;
+    expect(step.data.map((p) => p.y)).toEqual(data.step.y);
+    if (data.step.t.length > 0) {
+      const band = Math.abs(data.step.final) * data.step.tolerance;
+      expect(byRole(drawn, 'step', 'band-low')[0]!.data[0]!.y).toBeCloseTo(data.step.final - band, 12);
+      expect(byRole(drawn, 'step', 'band-high')[0]!.data[0]!.y).toBeCloseTo(data.step.final + band, 12);
+    }
+
+    // (d) s-plane: one × per pole of the analysis at its symmetric-log position, one ○ per zero.
+    const poles = byRole(drawn, 'splane', 'pole')[0]!;
+    expect(poles.data.map((p) => [p.re, p.im])).toEqual(analysis.poles.map((p) => [p.s.re, p.s.im]));
+    const knee =
+      Math.min(
+        ...[...analysis.poles, ...analysis.zeros]
+          .flatMap((r) => [Math.abs(r.s.re), Math.abs(r.s.im)])
+          .filter((v) => v > 0),
+      ) / 10;
+    poles.data.forEach((p) => {
+      expect(p.x).toBeCloseTo(symlog(p.re!, knee), 9);
+      expect(p.y).toBeCloseTo(symlog(p.im!, knee), 9);
+    });
+    expect(byRole(drawn, 'splane', 'zero')[0]!.data.length).toBe(
+      analysis.zeros.filter((z) => Number.isFinite(z.s.re)).length,
+    );
+
+    expect(await panel.page.textContent('#caution')).toBe(data.caution);
+    await panel.page.screenshot({
+      path: join(OUTPUT, `${c.label.replace(/[^\w.-]+/g, '_')}-dark.png`),
+      fullPage: true,
+    });
+    expect(panel.problems).toEqual([]);
+    expect(await panel.page.evaluate(() => window.__violations)).toEqual([]);
+  });
+});
+
+describe('closed forms', () => {
+  const c = fixture[0]!;
+  const m = c.model;
+  const [s1, s2] = m.stages;
+  const cl = m.loads[0]?.cap ?? 0;
+
+  it('puts the uncompensated (Cc = 0) poles at 1/(2π·R·C) of each node', () => {
+    // With Cc = 0 the two nodes only couple forward through gm, so each node's pole is its own RC
+    // (single-pole RC, any circuits text).
+    const data = panelData(c);
+    const atZero = data.locus.poles
+      .map((s) => (s.cc[0] === 0 ? s.hz[0] : undefined))
+      .filter((v): v is number => v !== undefined);
+    const expected = [
+      1 / (2 * Math.PI * s1!.rout * s1!.cap),
+      1 / (2 * Math.PI * s2!.rout * (s2!.cap + cl)),
+    ].sort((a, b) => a - b);
+    expect(atZero.length).toBe(2);
+    atZero.forEach((hz, k) => expect(rel(hz, expected[k]!)).toBeLessThan(1e-9));
+  });
+
+  it('follows the two-stage Miller denominator along the whole sweep', () => {
+    // D(s) = 1 + s[(C1+Cc)R1 + (C2+Cc)R2 + gm2R1R2Cc] + s²R1R2(C1C2 + Cc(C1+C2))
+    // (two-stage Miller denominator, Gray/Hurst/Lewis/Meyer ch. 9, from memory, re-derived).
+    const data = panelData(c);
+    const R1 = s1!.rout,
+      C1 = s1!.cap,
+      R2 = s2!.rout,
+      C2 = s2!.cap + cl,
+      g2 = s2!.gm;
+    const [lo, hi] = data.locus.poles;
+    lo!.cc.forEach((cc, i) => {
+      const a = R1 * R2 * (C1 * C2 + cc * (C1 + C2));
+      const b = (C1 + cc) * R1 + (C2 + cc) * R2 + g2 * R1 * R2 * cc;
+      const disc = Math.sqrt(b * b - 4 * a);
+      // Roots of a s² + b s + 1: the small one by the stable form 2/(b + √…), the large one (b + √…)/(2a).
+      const pSmall = 2 / (b + disc) / (2 * Math.PI);
+      const pLarge = (b + disc) / (2 * a) / (2 * Math.PI);
+      expect(rel(lo!.hz[i]!, pSmall)).toBeLessThan(1e-7);
+      expect(rel(hi!.hz[i]!, pLarge)).toBeLessThan(1e-7);
+    });
+    // The right-half-plane zero at +gm2/Cc (same source).
+    const z = data.zeros.find((q) => q.rhp)!;
+    expect(rel(z.s.re, g2 / m.millers[0]!.cc)).toBeLessThan(1e-9);
+  });
+});
+
+describe('interaction', () => {
+  const c = fixture[0]!;
+
+  it('shows a hostile design name and problem text as text, never as markup', async () => {
+    const hostile = '<img src=x onerror=alert(1)>';
+    const data = { ...panelData(c), design: hostile, problems: [`<b>bold</b> ${hostile}`] };
+    await panel.showData(data);
+    expect(await panel.page.textContent('#design-name')).toBe(hostile);
+    expect(await panel.page.textContent('#problems li')).toBe(`<b>bold</b> ${hostile}`);
+    expect(await panel.page.locator('img').count()).toBe(0);
+    expect(await panel.page.locator('#problems b').count()).toBe(0);
+    await panel.page.screenshot({ path: join(OUTPUT, 'hostile-name.png') });
+    expect(panel.dialogs).toEqual([]);
+    expect(panel.problems).toEqual([]);
+    expect(await panel.page.evaluate(() => window.__violations)).toEqual([]);
+  });
+
+  it('moves Cc with the slider, asks the host, and redraws the answer', async () => {
+    const data = panelData(c);
+    await panel.showData(data);
+    await panel.page.evaluate(() => (window.__posted.length = 0));
+    const position = 700;
+    await panel.page.locator('#cc-slider').evaluate((el, v) => {
+      (el as HTMLInputElement).value = String(v);
+      el.dispatchEvent(new Event('input', { bubbles: true }));
+    }, position);
+    const expectedCc = positionToValue(position, data.sliders!.cc, false);
+    const posted = await panel.posted();
+    const slider = posted.find((m) => m.type === 'slider');
+    expect(slider).toMatchObject({ type: 'slider', cc: expectedCc });
+    // The host answers with the engine's data at that Cc.
+    const moved = panelData(c, { cc: expectedCc });
+    await panel.showData(moved);
+    const drawn = await readCharts(panel.page);
+    expect(byRole(drawn, 'locus', 'current-cc')[0]!.data[0]!.x).toBe(expectedCc);
+    const exact = analyzeDesign({
+      ...c.model,
+      millers: [{ ...c.model.millers[0]!, cc: expectedCc as never }],
+    })
+      .poles.map((p) => p.hz)
+      .sort((a, b) => a - b);
+    expect(
+      byRole(drawn, 'locus', 'current-pole')[0]!
+        .data.map((p) => p.y)
+        .sort((a, b) => a - b),
+    ).toEqual(exact);
+    expect(await panel.page.textContent('#cc-value')).toMatch(/F$/);
+    await panel.page.screenshot({ path: join(OUTPUT, 'slider-moved.png'), fullPage: true });
+
+    // Apply sends the slider's values; the edit itself is the host's (an ordinary workspace edit).
+    await panel.page.click('#apply');
+    expect((await panel.posted()).find((m) => m.type === 'apply')).toMatchObject({
+      type: 'apply',
+      cc: expectedCc,
+    });
+  });
+
+  it('exports a chart as PNG and its data as CSV through the host', async () => {
+    const data = panelData(c);
+    await panel.showData(data);
+    await panel.page.evaluate(() => (window.__posted.length = 0));
+    await panel.page.click('#card-locus button[data-action="png"]');
+    await panel.page.click('#card-bode button[data-action="csv"]');
+    const posted = await panel.posted();
+    const png = posted.find((m) => m.type === 'exportPng');
+    expect(png).toMatchObject({ type: 'exportPng', chart: 'locus' });
+    const bytes = Buffer.from((png as { dataUrl: string }).dataUrl.split(',')[1]!, 'base64');
+    expect(bytes.subarray(1, 4).toString('latin1')).toBe('PNG');
+    writeFileSync(join(OUTPUT, 'export-locus.png'), bytes);
+    const csv = (posted.find((m) => m.type === 'exportCsv') as { csv: string; chart: string }).csv
+      .trim()
+      .split('\n');
+    expect(csv[0]).toBe('frequency_Hz,loop_gain_dB,loop_phase_deg');
+    expect(csv.length).toBe(data.bode.hz.length + 1);
+    const [f, db] = csv[1]!.split(',').map(Number);
+    expect(f).toBe(data.bode.hz[0]);
+    expect(db).toBe(data.bode.magDb[0]);
+  });
+
+  it('keeps the selected chart in the webview state and redraws in the new theme colours', async () => {
+    const data = panelData(c);
+    await panel.showData(data);
+    await panel.page.click('#card-bode .card-title');
+    expect(await panel.page.evaluate(() => (window.__state as { selected: string }).selected)).toBe('bode');
+    expect(await panel.page.locator('#card-bode.selected').count()).toBe(1);
+    const tickColor = () =>
+      panel.page.evaluate(() => {
+        const chart = (
+          window as unknown as {
+            __ampnoteCharts: Record<string, { options: { scales: { x: { ticks: { color: string } } } } }>;
+          }
+        ).__ampnoteCharts.bode;
+        return chart.options.scales.x.ticks.color;
+      });
+    expect(await tickColor()).toBe('#9d9d9d');
+    await panel.theme('light');
+    await panel.page.waitForFunction(
+      () =>
+        (
+          window as unknown as {
+            __ampnoteCharts: Record<string, { options: { scales: { x: { ticks: { color: string } } } } }>;
+          }
+        ).__ampnoteCharts.bode.options.scales.x.ticks.color === '#717171',
+    );
+    await panel.page.screenshot({ path: join(OUTPUT, 'light-theme-bode-selected.png'), fullPage: true });
+    await panel.theme('dark');
+    await panel.page.click('#card-locus .card-title');
+    expect(panel.problems).toEqual([]);
+    expect(await panel.page.evaluate(() => window.__violations)).toEqual([]);
+  });
+
+  it('shows an empty state when no design is under the cursor', async () => {
+    await panel.send({ type: 'data', data: null });
+    await panel.page.waitForFunction(() => document.getElementById('app')!.classList.contains('empty'));
+    expect(await panel.page.isVisible('#empty-note')).toBe(true);
+    expect(await panel.page.isVisible('#grid')).toBe(false);
+  });
+});
