@@ -143,7 +143,10 @@ export function buildPanelData(
     rzShown = target.kind === 'miller' ? (options.rz ?? rzWritten) : undefined;
   }
 
-  const analysis = analyzeDesign(shown);
+  // The design's own settling requirement sets the band; the setting applies only when it states none.
+  const stated = model.requirements.find((r) => r.kind === 'settle');
+  const settleTolerance = stated?.kind === 'settle' ? stated.tolerance : options.settleTolerance;
+  const analysis = analyzeDesign(shown, settleTolerance !== undefined ? { settleTolerance } : {});
   if (token?.isCancellationRequested) return undefined;
   const base = {
     uri,
@@ -164,7 +167,7 @@ export function buildPanelData(
       zeros: [],
       locus: { poles: [], zeros: [] },
       bode: { hz: [], magDb: [], phaseDeg: [], crossings: [] },
-      step: { t: [], y: [], final: 0, tolerance: options.settleTolerance ?? 0, overshootPct: 0 },
+      step: { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
       summary: { dcGainDb: 20 * Math.log10(Math.abs(analysis.dcGain)) },
       problems: analysis.problems.map((p) => (p.node ? `${p.message} (node ${p.node})` : p.message)),
     };
@@ -218,7 +221,7 @@ export function buildPanelData(
           settlingTime: step.settlingTime,
           overshootPct: step.overshootPct,
         }
-      : { t: [], y: [], final: 0, tolerance: options.settleTolerance ?? 0, overshootPct: 0 },
+      : { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
     summary: {
       ugfHz: analysis.loop.ugfHz,
       phaseMarginDeg: analysis.loop.phaseMarginDeg,
