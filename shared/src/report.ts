@@ -44,4 +44,6 @@ export interface DocumentReport {
   readonly designs: readonly DesignReport[];
   /** Every finding in the document: language diagnostics first, then each design's checks. */
   readonly findings: readonly Finding[];
+  /** Set when the analysis was cancelled: `designs` then holds only the designs finished before. */
+  readonly cancelled?: boolean;
 }

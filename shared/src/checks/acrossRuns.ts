@@ -69,25 +69,42 @@ export function acrossRuns(
     let message = worst.message;
     if (partial) message += ` (only in ${describeCorners(names)})`;
     else if (analysed.length > 1) message += ` (in every corner; worst: ${worstRun.corner})`;
-    let fixes: readonly FixSuggestion[] = [];
-    if (fixesFor) {
-      try {
-        fixes = fixesFor({ worst, worstRun, failing: runs });
-      } catch {
-        // A fix that cannot be solved is simply not offered; the finding itself stands.
-        fixes = [];
-      }
-    }
-    findings.push({
-      code,
-      severity,
-      message,
-      design: input.source.name,
-      range: worst.range,
-      related: worst.related,
-      ...(partial ? { corners: names } : {}),
-      fixes,
-    });
+    findings.push(
+      withLazyFixes(
+        {
+          code,
+          severity,
+          message,
+          design: input.source.name,
+          range: worst.range,
+          related: worst.related,
+          ...(partial ? { corners: names } : {}),
+        },
+        fixesFor ? () => fixesFor({ worst, worstRun, failing: runs }) : () => [],
+      ),
+    );
   }
   return findings;
+}
+
+/**
+ * A finding whose fixes are solved the first time they are read (a code action, the terminal checker's
+ * JSON): solving runs the exact analysis many times, and most findings are shown without their fixes.
+ * A fix that cannot be solved is simply not offered; the finding itself stands.
+ */
+export function withLazyFixes(base: Omit<Finding, 'fixes'>, solve: () => readonly FixSuggestion[]): Finding {
+  let memo: readonly FixSuggestion[] | undefined;
+  return {
+    ...base,
+    get fixes() {
+      if (!memo) {
+        try {
+          memo = solve();
+        } catch {
+          memo = [];
+        }
+      }
+      return memo;
+    },
+  };
 }

@@ -36,7 +36,7 @@ export const complexPolesCheck: Check = (input: CheckInput) =>
       hits.push({
         key: 'peak',
         severity: 'warning',
-        message: `The closed-loop response peaks ${formatDb(peak)} above its DC value (limit ${formatDb(input.settings.peakingDb)})`,
+        message: `The closed-loop response peaks ${peak.toFixed(2)} dB above its DC value (limit ${formatDb(input.settings.peakingDb)})`,
         range,
         related: [],
         badness: peak,

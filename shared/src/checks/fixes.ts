@@ -82,7 +82,10 @@ export interface SolvedFixSpec {
   readonly preferred?: boolean;
 }
 
-/** Solve, round, re-check in every analysed run; undefined when no rounded value meets the rule. */
+/**
+ * Solve, round, re-check in every analysed run; undefined when no rounded value meets the rule. Runs when a
+ * finding's fixes are first read, after the analysis that found it, so it takes no cancellation token.
+ */
 export function solvedFix(input: CheckInput, spec: SolvedFixSpec): FixSuggestion | undefined {
   const engine = input.engine;
   if (!engine) return undefined;
@@ -90,9 +93,8 @@ export function solvedFix(input: CheckInput, spec: SolvedFixSpec): FixSuggestion
   if (!solved.ok) return undefined;
   const runs = input.runs.filter((r) => !r.analysis.problems.length);
   for (const candidate of roundedCandidates(solved.value, spec.prefer)) {
-    if (input.token?.isCancellationRequested) return undefined;
     const ok = runs.every((run) => {
-      const analysis = engine.analyze(spec.apply(engine, run.model, candidate), input.token);
+      const analysis = engine.analyze(spec.apply(engine, run.model, candidate));
       return !analysis.problems.length && spec.meets(analysis, run, candidate);
     });
     if (!ok) continue;

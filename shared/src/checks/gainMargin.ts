@@ -55,12 +55,12 @@ export const gainMarginCheck: Check = (input) =>
       worst.key === 'margin' && !requirementOf(worstRun.model, 'gain-margin')
         ? [
             {
-              title: `Add \`require gain-margin >= ${input.settings.gainMargin} dB\` (the default, stated)`,
+              title: `Add \`require gainmargin >= ${input.settings.gainMargin} dB\` (the default, stated)`,
               edits: [
                 addRequirementEdit(
                   input.source,
                   worstRun.model,
-                  `require gain-margin >= ${input.settings.gainMargin} dB`,
+                  `require gainmargin >= ${input.settings.gainMargin} dB`,
                 ),
               ],
             },

@@ -22,7 +22,8 @@ export const gmRatioCheck: Check = (input: CheckInput) =>
         const second = stageAt(run.model, miller.to);
         if (!first || !second) return;
         const ratio = second.stage.gm / first.stage.gm;
-        if (ratio >= input.settings.gmRatio) return;
+        // A ratio written as exactly the rule (`gm2 = 10 * gm1`) passes despite rounding in the product.
+        if (ratio >= input.settings.gmRatio * (1 - 1e-9)) return;
         const gmField = second.stage.origin.fields['gm'];
         const gm1Field = first.stage.origin.fields['gm'];
         hits.push({

@@ -1,0 +1,42 @@
+// Above each design: UGF, PM and the worst corner, and a lens that opens the pole-split panel.
+import type { CodeLens } from 'vscode-languageserver';
+import { formatDeg, formatHz } from '../../../shared/src/format/si';
+import type { DocumentReport } from '../../../shared/src/report';
+import { toRange } from '../convert';
+import { nominal } from './describe';
+
+export const SHOW_PANEL_COMMAND = 'ampnote.showPanel';
+
+export function codeLenses(report: DocumentReport, uri: string): CodeLens[] {
+  const lenses: CodeLens[] = [];
+  for (const design of report.designs) {
+    const range = toRange(design.source.nameRange);
+    const run = nominal(design);
+    let title: string;
+    if (!design.source.nominal) title = 'not analysed: see the errors in this design';
+    else if (!run)
+      title = `not analysed: ${design.runs[0]?.analysis.problems[0]?.message ?? 'the network could not be solved'}`;
+    else {
+      const loop = run.analysis.loop;
+      const parts = [
+        `UGF ${loop.ugfHz !== undefined ? formatHz(loop.ugfHz) : '—'}`,
+        `PM ${loop.phaseMarginDeg !== undefined ? formatDeg(loop.phaseMarginDeg) : '—'}`,
+      ];
+      const w = design.worst.phaseMarginDeg;
+      if (design.runs.length > 1 && w) parts.push(`worst ${w.corner} (PM ${formatDeg(w.value)})`);
+      title = parts.join(' · ');
+    }
+    lenses.push({ range, command: { title, command: '' } });
+    if (design.source.nominal) {
+      lenses.push({
+        range,
+        command: {
+          title: 'show pole split',
+          command: SHOW_PANEL_COMMAND,
+          arguments: [{ uri, design: design.source.name }],
+        },
+      });
+    }
+  }
+  return lenses;
+}

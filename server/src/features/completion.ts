@@ -1,0 +1,79 @@
+// Completion from the language's own vocabulary: statement keywords at the start of a line, requirement
+// kinds after `require`, units after a number, else field names, flags and the names in scope.
+import { CompletionItemKind, type CompletionItem } from 'vscode-languageserver';
+import type { TextDocument } from 'vscode-languageserver-textdocument';
+import {
+  BUILTIN_NODES,
+  ELEMENT_KINDS,
+  FIELDS_BY_STATEMENT,
+  FLAGS_BY_STATEMENT,
+  REQUIREMENT_KINDS,
+  STATEMENT_KEYWORDS,
+  UNIT_SPELLINGS,
+} from '../../../shared/src/language';
+import type { SourcePosition } from '../../../shared/src/language/source';
+import type { DocumentReport } from '../../../shared/src/report';
+import { designAt } from '../../../shared/src/service';
+
+const keyword = (label: string, detail?: string): CompletionItem => ({
+  label,
+  kind: CompletionItemKind.Keyword,
+  ...(detail ? { detail } : {}),
+});
+
+export function completion(
+  report: DocumentReport,
+  document: TextDocument,
+  position: SourcePosition,
+): CompletionItem[] {
+  const before = document
+    .getText({ start: { line: position.line, character: 0 }, end: position })
+    .replace(/#.*$/, '');
+  const words = before.trim().split(/\s+/).filter(Boolean);
+  const typing = /\S$/.test(before) ? (words.pop() ?? '') : '';
+  const design = designAt(report, position);
+
+  // After a number (`1.1 `, `1.1p`): units.
+  if (/\d\s*$/.test(before) || /\d\s*[a-zA-Zµ%/]+$/.test(before)) {
+    return UNIT_SPELLINGS.map((u) => ({ label: u, kind: CompletionItemKind.Unit }));
+  }
+  if (!words.length) {
+    const items = STATEMENT_KEYWORDS.map((k) => keyword(k));
+    if (design) items.push(keyword('end', 'close the design'));
+    else items.push(keyword('design', 'start a design'));
+    return items;
+  }
+  const statement = words[0]!;
+  if (statement === 'require' && words.length === 1)
+    return REQUIREMENT_KINDS.map((k) => keyword(k, 'requirement'));
+  if (statement === 'element' && words.length === 1)
+    return ELEMENT_KINDS.map((k) => keyword(k, 'element kind'));
+
+  const items: CompletionItem[] = [];
+  for (const f of FIELDS_BY_STATEMENT[statement] ?? []) {
+    if (!new RegExp(`\\b${f}\\s*=`).test(before))
+      items.push({ label: f, kind: CompletionItemKind.Field, insertText: `${f} = ` });
+  }
+  for (const f of FLAGS_BY_STATEMENT[statement] ?? []) items.push(keyword(f));
+  if (design) {
+    for (const s of design.source.symbols) {
+      if (s.kind === 'design') continue;
+      items.push({
+        label: s.name,
+        kind:
+          s.kind === 'param'
+            ? CompletionItemKind.Constant
+            : s.kind === 'corner'
+              ? CompletionItemKind.EnumMember
+              : CompletionItemKind.Variable,
+        detail: s.kind,
+      });
+    }
+  }
+  for (const n of BUILTIN_NODES)
+    items.push({ label: n, kind: CompletionItemKind.Variable, detail: 'built-in node' });
+  if (statement === 'require') items.push(keyword('ugf', 'the unity-gain frequency'), keyword('within'));
+  void typing;
+  const seen = new Set<string>();
+  return items.filter((i) => !seen.has(i.label) && seen.add(i.label));
+}

@@ -1,0 +1,75 @@
+// The extension's own requests: the panel's data, the status bar's summary, and the panel's "apply" edit.
+import type { CancellationToken } from 'vscode-languageserver';
+import type {
+  CompensationEditParams,
+  CompensationEditResult,
+  DesignSummaryParams,
+  DesignSummaryResult,
+  PanelDataParams,
+  PanelDataResult,
+} from '../../../shared/src/protocol/requests';
+import { buildPanelData } from '../../../shared/src/panel/buildPanelData';
+import type { CheckSettings } from '../../../shared/src/checks/settings';
+import type { DocumentReport, DesignReport } from '../../../shared/src/report';
+import { compensationEdits, designAt, designNamed } from '../../../shared/src/service';
+import { toEdit } from '../convert';
+import { nominal } from './describe';
+
+const isPosition = (p: unknown): p is { line: number; character: number } =>
+  !!p &&
+  typeof p === 'object' &&
+  Number.isInteger((p as { line: unknown }).line) &&
+  Number.isInteger((p as { character: unknown }).character);
+
+function pick(report: DocumentReport, design?: unknown, position?: unknown): DesignReport | undefined {
+  if (typeof design === 'string') return designNamed(report, design);
+  if (isPosition(position)) return designAt(report, position) ?? report.designs[0];
+  return report.designs[0];
+}
+
+const finitePositive = (x: unknown) =>
+  typeof x === 'number' && Number.isFinite(x) && x >= 0 ? x : undefined;
+
+export function panelData(
+  report: DocumentReport,
+  params: PanelDataParams,
+  settings: CheckSettings,
+  token: CancellationToken,
+): PanelDataResult {
+  const design = pick(report, params.design, params.position);
+  const model = design?.source.nominal;
+  if (!model) return null;
+  const cc = finitePositive(params.cc);
+  const rz = finitePositive(params.rz);
+  const data = buildPanelData(model, params.uri, {
+    ...(cc !== undefined ? { cc } : {}),
+    ...(rz !== undefined ? { rz } : {}),
+    token,
+    settleTolerance: settings.settleTolerance,
+  });
+  return data ?? null;
+}
+
+export function designSummary(report: DocumentReport, params: DesignSummaryParams): DesignSummaryResult {
+  if (!isPosition(params.position)) return null;
+  const design = designAt(report, params.position);
+  if (!design) return null;
+  const loop = nominal(design)?.analysis.loop;
+  const worst = design.worst.phaseMarginDeg;
+  return {
+    design: design.source.name,
+    ...(loop?.ugfHz !== undefined ? { ugfHz: loop.ugfHz } : {}),
+    ...(loop?.phaseMarginDeg !== undefined ? { phaseMarginDeg: loop.phaseMarginDeg } : {}),
+    ...(worst && design.runs.length > 1 ? { worstCorner: worst.corner } : {}),
+  };
+}
+
+export function compensationEdit(
+  report: DocumentReport,
+  params: CompensationEditParams,
+): CompensationEditResult {
+  const design = pick(report, params.design);
+  if (!design) return null;
+  const edits = compensationEdits(design, finitePositive(params.cc), finitePositive(params.rz));
+  return edits.length ? { edits: edits.map(toEdit) } : null;
+}

@@ -1,0 +1,175 @@
+// Hover: what an element is, its value in display units, the poles and zeros it takes part in (with each
+// node's share), the hand estimate beside the exact value; for a requirement, measured against required.
+import type { Hover } from 'vscode-languageserver';
+import type { DesignAnalysis } from '../../../shared/src/analysis/types';
+import { formatSi } from '../../../shared/src/format/si';
+import type { SourcePosition } from '../../../shared/src/language/source';
+import { CAUTION } from '../../../shared/src/protocol/panelData';
+import type { DocumentReport, DesignReport } from '../../../shared/src/report';
+import { designAt } from '../../../shared/src/service';
+import { toRange } from '../convert';
+import { nominal, poleText, polesOf, requirementAcrossRuns, sortedByHz, zeroText } from './describe';
+import { targetAt, type Target } from './target';
+
+const UNIT_OF_DIMENSION: Record<string, string> = {
+  ohm: 'ohm',
+  S: 'S',
+  F: 'F',
+  A: 'A',
+  V: 'V',
+  s: 's',
+  Hz: 'Hz',
+  'V/s': 'V/s',
+};
+
+function valueText(value: number, dimension: string): string {
+  if (dimension === 'deg') return `${+value.toPrecision(4)} deg`;
+  if (dimension === 'dB') return `${+value.toPrecision(4)} dB`;
+  if (dimension === '1') return `${+value.toPrecision(4)}`;
+  if (dimension === 'ugf') return `${+value.toPrecision(4)} × UGF`;
+  const unit = UNIT_OF_DIMENSION[dimension];
+  return unit ? formatSi(value, unit) : `${+value.toPrecision(4)} ${dimension}`;
+}
+
+function poleLines(analysis: DesignAnalysis, nodes: string[]): string[] {
+  const mine = polesOf(analysis, nodes);
+  if (!mine.length) return [`Takes part in no pole (no capacitance at ${nodes.join(', ')}).`];
+  return [
+    'Poles it takes part in (share of each node):',
+    ...mine.map(({ pole, shares }) => `- ${poleText(pole)} — ${shares}`),
+  ];
+}
+
+function zeroLines(analysis: DesignAnalysis): string[] {
+  const zeros = sortedByHz(analysis.zeros);
+  if (!zeros.length) return ['Zeros: none finite.'];
+  return [`Zeros: ${zeros.map(zeroText).join(', ')}`];
+}
+
+function handLines(analysis: DesignAnalysis): string[] {
+  if (!analysis.hand?.length) return [];
+  return [
+    'Hand estimate vs exact:',
+    ...analysis.hand.map((h) => {
+      const hand = Number.isFinite(h.hand) ? formatSi(h.hand / (2 * Math.PI), 'Hz') : '∞';
+      const pct = Number.isFinite(h.relativeError) ? ` (${(h.relativeError * 100).toFixed(1)} % off)` : '';
+      return `- ${h.quantity}: \`${h.formula}\` = ${hand}, exact ${formatSi(h.exact / (2 * Math.PI), 'Hz')}${pct}`;
+    }),
+  ];
+}
+
+function body(design: DesignReport, target: Target): string[] | undefined {
+  const run = nominal(design);
+  const a = run?.analysis;
+  switch (target.kind) {
+    case 'stage': {
+      const s = target.stage;
+      const head = [
+        `**stage ${s.name}** (${s.polarity}, input ${s.input.kind === 'ground' ? 'ground' : s.input.name})`,
+        `gm = ${formatSi(s.gm, 'S')}, rout = ${formatSi(s.rout, 'ohm')}, cap = ${formatSi(s.cap, 'F')}` +
+          (s.bias !== undefined ? `, bias = ${formatSi(s.bias, 'A')}` : '') +
+          ` — DC gain gm·rout = ${+(s.gm * s.rout).toPrecision(3)} V/V`,
+      ];
+      return a ? [...head, '', ...poleLines(a, [s.name]), '', ...handLines(a)] : head;
+    }
+    case 'miller':
+    case 'buffered': {
+      const m = target.item;
+      const rz = target.kind === 'miller' ? target.item.rz : undefined;
+      const head = [
+        `**${target.kind === 'miller' ? 'Miller capacitor' : 'buffered capacitor'}** ${m.from} → ${m.to}`,
+        `cc = ${formatSi(m.cc, 'F')}` +
+          (rz !== undefined
+            ? `, rz = ${formatSi(rz, 'ohm')}`
+            : target.kind === 'miller'
+              ? ', no nulling resistor'
+              : ''),
+      ];
+      return a ? [...head, '', ...poleLines(a, [m.from, m.to]), ...zeroLines(a), '', ...handLines(a)] : head;
+    }
+    case 'load': {
+      const l = target.item;
+      const head = [
+        `**load** at ${l.node}`,
+        [
+          l.cap !== undefined ? `cap = ${formatSi(l.cap, 'F')}` : '',
+          l.res !== undefined ? `res = ${formatSi(l.res, 'ohm')}` : '',
+        ]
+          .filter(Boolean)
+          .join(', '),
+      ];
+      return a ? [...head, '', ...poleLines(a, [l.node])] : head;
+    }
+    case 'element': {
+      const e = target.item;
+      const unit = e.kind === 'res' ? 'ohm' : e.kind === 'cap' ? 'F' : 'S';
+      const nodes = (e.kind === 'gm' ? [e.control, e.output] : [e.a, e.b]).flatMap((n) =>
+        n.kind === 'node' ? [n.name] : [],
+      );
+      const head = [`**element ${e.kind}** ${nodes.join(' – ')}`, `value = ${formatSi(e.value, unit)}`];
+      if (!a) return head;
+      return e.kind === 'cap'
+        ? [...head, '', ...poleLines(a, nodes), ...zeroLines(a)]
+        : [...head, '', ...zeroLines(a)];
+    }
+    case 'param': {
+      const p = target.item;
+      const uses =
+        design.source.symbols.find((x) => x.kind === 'param' && x.name === p.name)?.references.length ?? 0;
+      const corners = design.source.corners
+        .map((c) => ({ name: c.name, v: c.model?.params.find((x) => x.name === p.name)?.value }))
+        .filter((c) => c.v !== undefined && c.v !== p.value)
+        .map((c) => `${c.name}: ${valueText(c.v!, p.dimension)}`);
+      return [
+        `**param ${p.name}** = ${valueText(p.value, p.dimension)}`,
+        `Used ${uses} time${uses === 1 ? '' : 's'}.` +
+          (corners.length ? ` Corners: ${corners.join(', ')}.` : ''),
+      ];
+    }
+    case 'requirement': {
+      const r = requirementAcrossRuns(design, target.item);
+      if (!r.runs.length) return [`**require** — not measured (the design could not be analysed)`];
+      const first = r.nominal ?? r.runs[0]!.m;
+      const lines = [
+        `**requirement: ${first.label}** ${first.required}`,
+        `Measured: ${first.measured} — ${first.pass ? 'pass' : 'FAIL'}${first.margin ? ` (margin ${first.margin})` : ''}`,
+      ];
+      if (r.runs.length > 1) {
+        lines.push('', '| corner | measured | |', '| --- | --- | --- |');
+        for (const x of r.runs)
+          lines.push(`| ${x.corner} | ${x.m.measured} | ${x.m.pass ? 'pass' : 'FAIL'} |`);
+        if (r.worst) lines.push('', `Worst corner: ${r.worst.corner} (${r.worst.m.measured})`);
+      }
+      return lines;
+    }
+    case 'symbol': {
+      const s = target.symbol;
+      if (s.kind === 'node')
+        return a ? [`**node ${s.name}**`, '', ...poleLines(a, [s.name])] : [`**node ${s.name}**`];
+      if (s.kind === 'corner') {
+        const cr = design.runs.find((x) => x.corner === s.name);
+        const loop = cr?.analysis.loop;
+        return [
+          `**corner ${s.name}**`,
+          loop
+            ? `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, PM ${loop.phaseMarginDeg !== undefined ? `${loop.phaseMarginDeg.toFixed(1)}°` : '—'}`
+            : 'not analysed (its overrides could not be evaluated)',
+        ];
+      }
+      return undefined;
+    }
+  }
+}
+
+export function hover(report: DocumentReport, position: SourcePosition): Hover | null {
+  const design = designAt(report, position);
+  if (!design) return null;
+  const target = targetAt(design, position);
+  if (!target) return null;
+  const lines = body(design, target);
+  if (!lines) return null;
+  const problems = design.runs.flatMap((r) => r.analysis.problems.map((p) => p.message));
+  if (problems.length) lines.push('', `Not analysed: ${problems[0]}`);
+  lines.push('', `_${CAUTION}_`);
+  return { contents: { kind: 'markdown', value: lines.join('\n') }, range: toRange(target.range) };
+}

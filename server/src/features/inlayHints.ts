@@ -1,0 +1,54 @@
+// Inline values at the end of lines: poles and zeros after a compensation line, the pole a stage names,
+// and each requirement's measured value with pass/fail.
+import { InlayHintKind, type InlayHint, type Range } from 'vscode-languageserver';
+import type { TextDocument } from 'vscode-languageserver-textdocument';
+import type { DocumentReport } from '../../../shared/src/report';
+import { rangesMeet } from '../convert';
+import { nominal, poleText, requirementAcrossRuns, sortedByHz, zeroText } from './describe';
+
+function endOfLine(document: TextDocument, line: number) {
+  const text = document.getText({ start: { line, character: 0 }, end: { line: line + 1, character: 0 } });
+  return { line, character: text.replace(/\r?\n$/, '').length };
+}
+
+export function inlayHints(report: DocumentReport, document: TextDocument, range: Range): InlayHint[] {
+  const hints: InlayHint[] = [];
+  const add = (line: number, label: string) =>
+    hints.push({
+      position: endOfLine(document, line),
+      label: `  ${label}`,
+      kind: InlayHintKind.Parameter,
+      paddingLeft: true,
+    });
+  for (const design of report.designs) {
+    if (!rangesMeet(design.source.range, range)) continue;
+    const run = nominal(design);
+    const model = design.source.nominal;
+    if (!run || !model) continue;
+    const a = run.analysis;
+    const comps = [...model.millers, ...model.buffered];
+    for (const c of comps) {
+      if (!rangesMeet(c.origin.range, range)) continue;
+      const poles = sortedByHz(a.poles).map(poleText).join(', ');
+      const zeros = sortedByHz(a.zeros).map(zeroText).join(', ');
+      add(c.origin.range.end.line, `poles ${poles || 'none'} · zeros ${zeros || 'none'}`);
+    }
+    for (const s of model.stages) {
+      if (!rangesMeet(s.origin.range, range)) continue;
+      const named = a.poles.filter((p) => p.namedAfter === s.name);
+      if (named.length) add(s.origin.range.end.line, `pole ${named.map(poleText).join(', ')}`);
+    }
+    for (const req of model.requirements) {
+      if (!rangesMeet(req.origin.range, range)) continue;
+      const r = requirementAcrossRuns(design, req);
+      const m = r.nominal;
+      if (!m) continue;
+      const worst =
+        r.runs.length > 1 && r.worst && r.worst.corner !== 'nominal'
+          ? ` · worst ${r.worst.corner}: ${r.worst.m.measured}`
+          : '';
+      add(req.origin.range.end.line, `${m.measured} ${m.pass ? '✓' : '✗'}${worst}`);
+    }
+  }
+  return hints;
+}

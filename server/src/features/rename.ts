@@ -1,0 +1,51 @@
+// Rename a parameter, stage or node: its declaration and every use, in that design only.
+import { ResponseError, ErrorCodes, type Range, type WorkspaceEdit } from 'vscode-languageserver';
+import { BUILTIN_NODES, KEYWORDS } from '../../../shared/src/language';
+import type { SourcePosition } from '../../../shared/src/language/source';
+import type { DocumentReport } from '../../../shared/src/report';
+import { designAt } from '../../../shared/src/service';
+import { toRange } from '../convert';
+import { symbolAt } from './target';
+
+const RENAMEABLE = new Set(['param', 'stage', 'node']);
+const IDENTIFIER = /^[A-Za-z_][A-Za-z0-9_]*$/;
+
+function renameable(report: DocumentReport, position: SourcePosition) {
+  const design = designAt(report, position);
+  const hit = design && symbolAt(design, position);
+  if (!design || !hit || !RENAMEABLE.has(hit.symbol.kind)) return undefined;
+  if ((BUILTIN_NODES as readonly string[]).includes(hit.symbol.name)) return undefined;
+  return { design, hit };
+}
+
+export function prepareRename(
+  report: DocumentReport,
+  position: SourcePosition,
+): { range: Range; placeholder: string } | null {
+  const r = renameable(report, position);
+  return r ? { range: toRange(r.hit.range), placeholder: r.hit.symbol.name } : null;
+}
+
+export function rename(
+  report: DocumentReport,
+  uri: string,
+  position: SourcePosition,
+  newName: string,
+): WorkspaceEdit | null {
+  const r = renameable(report, position);
+  if (!r) return null;
+  if (!IDENTIFIER.test(newName))
+    throw new ResponseError(ErrorCodes.InvalidParams, `\`${newName}\` is not a name`);
+  if (KEYWORDS.includes(newName) || (BUILTIN_NODES as readonly string[]).includes(newName))
+    throw new ResponseError(ErrorCodes.InvalidParams, `\`${newName}\` is a word of the language`);
+  if (
+    newName !== r.hit.symbol.name &&
+    r.design.source.symbols.some((s) => s.name === newName && s.kind !== 'design')
+  )
+    throw new ResponseError(
+      ErrorCodes.InvalidParams,
+      `\`${newName}\` is already declared in design ${r.design.source.name}`,
+    );
+  const ranges = [r.hit.symbol.declaration, ...r.hit.symbol.references];
+  return { changes: { [uri]: ranges.map((range) => ({ range: toRange(range), newText: newName })) } };
+}

@@ -1,0 +1,115 @@
+// A requirement's measured value in one run, for hovers, inline hints and summaries.
+import type { DesignAnalysis } from '../analysis/types';
+import { formatDb, formatDeg, formatHz, formatSi } from '../format/si';
+import type { Requirement } from '../language/model';
+import { violates } from './locate';
+import { settlingTimeFor } from './settling';
+
+export interface Measurement {
+  /** What the requirement is about, for people (`phase margin`). */
+  readonly label: string;
+  /** The measured value as text (`62.1°`), or why there is none. */
+  readonly measured: string;
+  readonly required: string;
+  readonly pass: boolean;
+  /** Signed distance from the limit as text (`+2.1°`), when both values are numbers. */
+  readonly margin?: string;
+  /** The measured number in the requirement's unit, when there is one (for picking the worst corner). */
+  readonly value?: number;
+}
+
+const perMicro = (rate: number) => `${+(rate / 1e6).toPrecision(3)} V/µs`;
+const signed = (x: number, text: string) => `${x >= 0 ? '+' : '−'}${text}`;
+
+export function measure(req: Requirement, a: DesignAnalysis): Measurement {
+  switch (req.kind) {
+    case 'ugf': {
+      const v = a.loop.ugfHz;
+      return {
+        label: 'unity-gain frequency',
+        measured: v === undefined ? 'loop gain never reaches 0 dB' : formatHz(v),
+        required: `${req.op} ${formatHz(req.value)}`,
+        pass: v !== undefined && !violates(req.op, v, req.value),
+        ...(v !== undefined
+          ? { value: v, margin: signed(v - req.value, formatHz(Math.abs(v - req.value))) }
+          : {}),
+      };
+    }
+    case 'pm': {
+      const v = a.loop.phaseMarginDeg;
+      return {
+        label: 'phase margin',
+        measured: v === undefined ? 'no unity crossing' : formatDeg(v),
+        required: `${req.op} ${formatDeg(req.value)}`,
+        pass: v !== undefined && !violates(req.op, v, req.value),
+        ...(v !== undefined
+          ? { value: v, margin: signed(v - req.value, formatDeg(Math.abs(v - req.value))) }
+          : {}),
+      };
+    }
+    case 'gain-margin': {
+      const v = a.loop.gainMarginDb;
+      return {
+        label: 'gain margin',
+        measured: v === undefined ? 'phase never reaches −180° (unbounded)' : formatDb(v),
+        required: `${req.op} ${formatDb(req.value)}`,
+        pass: v === undefined ? req.op === '>=' : !violates(req.op, v, req.value),
+        ...(v !== undefined
+          ? { value: v, margin: signed(v - req.value, formatDb(Math.abs(v - req.value))) }
+          : {}),
+      };
+    }
+    case 'zero': {
+      const ugf = a.loop.ugfHz;
+      const rhp = a.zeros.filter((z) => z.rhp && Number.isFinite(z.hz)).sort((x, y) => x.hz - y.hz)[0];
+      const ratio = rhp && ugf ? rhp.hz / ugf : undefined;
+      return {
+        label: 'lowest right-half-plane zero',
+        measured: !rhp
+          ? 'no RHP zero'
+          : ratio === undefined
+            ? formatHz(rhp.hz)
+            : `${formatHz(rhp.hz)} = ${+ratio.toPrecision(3)} × UGF`,
+        required: `≥ ${req.factor} × UGF`,
+        pass: !rhp || (ratio !== undefined && ratio >= req.factor),
+        ...(ratio !== undefined ? { value: ratio } : {}),
+      };
+    }
+    case 'slew': {
+      const v = a.slew?.rate;
+      return {
+        label: 'slew rate',
+        measured: v === undefined ? 'no stage states its bias' : perMicro(v),
+        required: `${req.op} ${perMicro(req.value)}`,
+        pass: v !== undefined && !violates(req.op, v, req.value),
+        ...(v !== undefined
+          ? { value: v, margin: signed(v - req.value, perMicro(Math.abs(v - req.value))) }
+          : {}),
+      };
+    }
+    case 'settle': {
+      const v = a.step ? settlingTimeFor(a.step, req.tolerance) : undefined;
+      const pct = `${+(req.tolerance * 100).toPrecision(3)} %`;
+      return {
+        label: `settling to ±${pct}`,
+        measured: v === undefined ? 'does not settle in the computed span' : formatSi(v, 's'),
+        required: `≤ ${formatSi(req.within, 's')}`,
+        pass: v !== undefined && v <= req.within,
+        ...(v !== undefined
+          ? { value: v, margin: signed(req.within - v, formatSi(Math.abs(req.within - v), 's')) }
+          : {}),
+      };
+    }
+    case 'dc-gain': {
+      const v = 20 * Math.log10(Math.abs(a.dcGain));
+      return {
+        label: 'open-loop DC gain',
+        measured: formatDb(v),
+        required: `${req.op} ${formatDb(req.value)}`,
+        pass: !violates(req.op, v, req.value),
+        value: v,
+        margin: signed(v - req.value, formatDb(Math.abs(v - req.value))),
+      };
+    }
+  }
+}

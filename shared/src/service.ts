@@ -1,0 +1,274 @@
+// The one entry point to the core: text in, parsed designs, exact analyses and findings out. The language
+// server, the terminal checker and the tests all call `analyzeDocument`.
+import {
+  analyzeCorners,
+  analyzeDesign,
+  solveCcForNondominantPole,
+  solveCcForPhaseMargin,
+  solveGmForZero,
+  solveRzForZeroAtInfinity,
+  solveRzToCancelPole,
+  withStageGm,
+  withValue,
+} from './analysis';
+import type { CancelToken } from './analysis/types';
+import type { CheckEngine } from './checks/context';
+import { setOrInsertField, setValueEdit } from './checks/fixes';
+import { withLazyFixes } from './checks/acrossRuns';
+import { languageFindings, rangeContains, runChecks } from './checks/index';
+import { resolveCheckSettings, type CheckSettings } from './checks/settings';
+import type { Finding, TextEditSpec } from './checks/types';
+import { formatSi } from './format/si';
+import { parseDocument } from './language';
+import type { DesignModel, DesignSource, ParsedDocument } from './language/model';
+import type { SourcePosition, SourceRange } from './language/source';
+import type { CornerRun, DesignReport, DocumentReport } from './report';
+
+/** The analysis engine as the checks use it to solve and re-check fixes. */
+export const ENGINE: CheckEngine = {
+  // Fix re-checks read poles, zeros and loop margins only: no step response, no participation.
+  analyze: (model) => analyzeDesign(model, { step: false, participation: false }),
+  withValue,
+  withStageGm,
+  solveCcForPhaseMargin,
+  solveCcForNondominantPole,
+  solveRzForZeroAtInfinity,
+  solveRzToCancelPole,
+  solveGmForZero,
+};
+
+/**
+ * Per-design results keyed by the design's exact text and the settings: an edit re-analyses only the
+ * designs whose text changed. A design that only moved (lines added above it) is reused with its ranges
+ * shifted. Keep one cache per document.
+ */
+export interface AnalysisCache {
+  design(source: DesignSource, settings: CheckSettings, token?: CancelToken): DesignReport;
+  /** Forget entries not used since the previous sweep (called after each complete document pass). */
+  sweep(): void;
+  clear(): void;
+  readonly size: number;
+}
+
+interface Entry {
+  report: DesignReport;
+  used: boolean;
+}
+
+export function createAnalysisCache(): AnalysisCache {
+  const entries = new Map<string, Entry>();
+  return {
+    design(source, settings, token) {
+      const key = `${JSON.stringify(settings)}\u0000${source.text}`;
+      const hit = entries.get(key);
+      if (hit) {
+        hit.used = true;
+        return relocate(hit.report, source);
+      }
+      const report = analyzeDesignSource(source, settings, token);
+      if (!token?.isCancellationRequested) entries.set(key, { report, used: true });
+      return report;
+    },
+    sweep() {
+      for (const [key, entry] of entries) {
+        if (!entry.used) entries.delete(key);
+        else entry.used = false;
+      }
+    },
+    clear: () => entries.clear(),
+    get size() {
+      return entries.size;
+    },
+  };
+}
+
+/** Analyse one design: every corner on the exact model, then every check. */
+export function analyzeDesignSource(
+  source: DesignSource,
+  settings: CheckSettings,
+  token?: CancelToken,
+): DesignReport {
+  if (!source.nominal) return { source, runs: [], worst: {}, findings: [] };
+  // The settling tolerance setting applies only where a design states none of its own.
+  const statesSettle = source.nominal.requirements.some((r) => r.kind === 'settle');
+  const { runs, worst } = analyzeCorners(
+    source,
+    statesSettle ? {} : { settleTolerance: settings.settleTolerance },
+    token,
+  );
+  const findings = [
+    ...problemFindings(source, runs),
+    ...runChecks({ source, runs, settings, engine: ENGINE, token }),
+  ];
+  return { source, runs, worst, findings };
+}
+
+/** A network the engine cannot solve (a node with no DC path and no capacitance): an error at that node. */
+function problemFindings(source: DesignSource, runs: readonly CornerRun[]): Finding[] {
+  const seen = new Set<string>();
+  const out: Finding[] = [];
+  for (const run of runs) {
+    for (const p of run.analysis.problems) {
+      if (seen.has(p.message)) continue;
+      seen.add(p.message);
+      const stage = run.model.stages.find((s) => s.name === p.node);
+      const decl = run.model.nodes.find((n) => n.name === p.node)?.range;
+      out.push({
+        code: 'plausibility',
+        severity: 'error',
+        message: `The network cannot be solved: ${p.message}`,
+        design: source.name,
+        range: stage?.origin.range ?? decl ?? source.nameRange,
+        related: [],
+        ...(runs.length > 1 ? { corners: [run.corner] } : {}),
+        fixes: [],
+      });
+    }
+  }
+  return out;
+}
+
+/**
+ * Parse and analyse a document, yielding after each design so that a caller can pause between designs
+ * (and stop when `token` is cancelled: the generator then returns a report of the designs done so far,
+ * marked `cancelled`).
+ */
+export function* analyzeDocumentSteps(
+  text: string,
+  settings?: Partial<CheckSettings>,
+  token?: CancelToken,
+  cache: AnalysisCache = createAnalysisCache(),
+): Generator<number, DocumentReport, void> {
+  const parsed = parseDocument(text);
+  const resolved = resolveCheckSettings(settings);
+  const designs: DesignReport[] = [];
+  for (const source of parsed.designs) {
+    if (token?.isCancellationRequested) return assemble(parsed, designs, true);
+    designs.push(cache.design(source, resolved, token));
+    yield designs.length;
+  }
+  if (token?.isCancellationRequested) return assemble(parsed, designs, true);
+  cache.sweep();
+  return assemble(parsed, designs, false);
+}
+
+/**
+ * Analyse a whole `.ampnote` text.
+ *
+ * - `settings`: check thresholds (any subset of CheckSettings; invalid values fall back to the defaults).
+ * - `token`: cooperative cancellation, checked between designs, corners and sweep steps.
+ * - `cache`: reuse results of designs whose text did not change (see `createAnalysisCache`).
+ *
+ * Returns every design's runs (nominal first, then corners), worst case and findings, and the whole
+ * document's findings (language diagnostics first). Never throws on bad input: errors are findings.
+ */
+export function analyzeDocument(
+  text: string,
+  settings?: Partial<CheckSettings>,
+  token?: CancelToken,
+  cache?: AnalysisCache,
+): DocumentReport {
+  const steps = analyzeDocumentSteps(text, settings, token, cache);
+  for (;;) {
+    const next = steps.next();
+    if (next.done) return next.value;
+  }
+}
+
+function assemble(
+  parsed: ParsedDocument,
+  designs: readonly DesignReport[],
+  cancelled: boolean,
+): DocumentReport {
+  const language = languageFindings(parsed);
+  const taken = new Set(language.map((f) => `${f.code}@${rangeKey(f.range)}`));
+  const findings = [...language];
+  for (const d of designs) {
+    for (const f of d.findings) if (!taken.has(`${f.code}@${rangeKey(f.range)}`)) findings.push(f);
+  }
+  return { parsed, designs, findings, ...(cancelled ? { cancelled: true } : {}) };
+}
+
+const rangeKey = (r: SourceRange) => `${r.start.line}:${r.start.character}-${r.end.line}:${r.end.character}`;
+
+/** The design whose block contains `position`. */
+export function designAt(report: DocumentReport, position: SourcePosition): DesignReport | undefined {
+  return report.designs.find((d) => rangeContains(d.source.range, { start: position, end: position }));
+}
+
+/** The design named `name`. */
+export function designNamed(report: DocumentReport, name: string): DesignReport | undefined {
+  return report.designs.find((d) => d.source.name === name);
+}
+
+/**
+ * Edits that write compensation values chosen elsewhere (the panel's sliders) into the element the panel
+ * sweeps (the first Miller capacitor, else the first buffered one): `cc` replaces its value (or its
+ * parameter's); `rz` replaces or is inserted, and `rz = 0` removes the nulling resistor.
+ */
+export function compensationEdits(design: DesignReport, cc?: number, rz?: number): TextEditSpec[] {
+  const model = design.source.nominal;
+  if (!model) return [];
+  const item = model.millers[0] ?? model.buffered[0];
+  if (!item) return [];
+  const isMiller = model.millers.length > 0;
+  const edits: TextEditSpec[] = [];
+  const ccField = item.origin.fields['cc'];
+  if (cc !== undefined && cc > 0 && Number.isFinite(cc) && ccField) {
+    const e = setValueEdit(model, ccField, formatSi(cc, 'F'));
+    if (e) edits.push(e);
+  }
+  if (rz !== undefined && isMiller && Number.isFinite(rz)) {
+    if (rz > 0) {
+      const e = setOrInsertField(model, item.origin, 'rz', formatSi(rz, 'ohm'));
+      if (e) edits.push(e);
+    } else if (rz === 0 && item.origin.fields['rz']) {
+      const e = removeFieldEdit(design.source, item.origin.fields['rz'].range, 'rz');
+      if (e) edits.push(e);
+    }
+  }
+  return edits;
+}
+
+/** Remove ` name = value` whose value occupies `value` (found in the design's own text). */
+function removeFieldEdit(source: DesignSource, value: SourceRange, name: string): TextEditSpec | undefined {
+  if (value.start.line !== value.end.line) return undefined;
+  const line = source.text.split('\n')[value.start.line - source.range.start.line];
+  if (line === undefined) return undefined;
+  const offset = value.start.line === source.range.start.line ? source.range.start.character : 0;
+  const before = line.slice(0, value.start.character - offset);
+  const m = new RegExp(`\\s*\\b${name}\\s*=\\s*$`).exec(before);
+  if (!m) return undefined;
+  return {
+    range: { start: { line: value.start.line, character: m.index + offset }, end: value.end },
+    newText: '',
+  };
+}
+
+// ---- moving a cached design report to where the same text now stands ----
+
+function relocate(report: DesignReport, source: DesignSource): DesignReport {
+  const dl = source.range.start.line - report.source.range.start.line;
+  const dc = source.range.start.character - report.source.range.start.character;
+  const firstLine = report.source.range.start.line;
+  const runs = report.runs.map((r) => ({ ...r, model: freshModel(source, r.corner) ?? r.model }));
+  if (dl === 0 && dc === 0) return { ...report, source, runs };
+  const pos = (p: SourcePosition): SourcePosition => ({
+    line: p.line + dl,
+    character: p.line === firstLine ? p.character + dc : p.character,
+  });
+  const rng = (r: SourceRange): SourceRange => ({ start: pos(r.start), end: pos(r.end) });
+  const findings = report.findings.map((f) => {
+    const { fixes: _unread, ...rest } = Object.getOwnPropertyDescriptors(f);
+    const base = Object.defineProperties({}, rest) as Omit<Finding, 'fixes'>;
+    return withLazyFixes(
+      { ...base, range: rng(f.range), related: f.related.map((x) => ({ ...x, range: rng(x.range) })) },
+      () => f.fixes.map((fix) => ({ ...fix, edits: fix.edits.map((e) => ({ ...e, range: rng(e.range) })) })),
+    );
+  });
+  return { ...report, source, runs, findings };
+}
+
+function freshModel(source: DesignSource, corner: string): DesignModel | undefined {
+  return corner === 'nominal' ? source.nominal : source.corners.find((c) => c.name === corner)?.model;
+}
