@@ -115,7 +115,12 @@ function rootsBlock(run: CornerRun): string[] {
 function poleCells(p: Pole): string[] {
   const where =
     p.namedAfter === 'shared'
-      ? 'shared: ' + p.participation.slice(0, 3).map(share).join(', ')
+      ? 'shared: ' +
+        p.participation
+          .filter((x) => x.share >= 0.005)
+          .slice(0, 3)
+          .map(share)
+          .join(', ')
       : `${p.namedAfter} ${pct(p.participation[0]?.share ?? 1)}`;
   return [complexText(p.s.re, p.s.im), formatHz(p.hz), roundSignificant(p.damping, 3).toString(), where];
 }
@@ -126,7 +131,7 @@ function zeroCells(z: Zero): string[] {
 
 /** `−1.23 kHz` for a real root, `−25.1 MHz ± j12 MHz` for a pair; the engine lists each of a pair. */
 function complexText(re: number, im: number): string {
-  const r = formatSi(re / TWO_PI, 'Hz');
+  const r = (re > 0 ? '+' : '') + formatSi(re / TWO_PI, 'Hz');
   if (im === 0) return r;
   return `${r} ${im < 0 ? '−' : '+'} j${formatSi(Math.abs(im) / TWO_PI, 'Hz')}`;
 }

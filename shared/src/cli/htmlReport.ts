@@ -262,6 +262,7 @@ function rootsTable(run: CornerRun): string {
   }
   const poleRows = a.poles.map((p, i) => {
     const bars = p.participation
+      .filter((x) => x.share >= 0.005)
       .slice(0, 4)
       .map(
         (x) =>
@@ -315,7 +316,7 @@ const slewText = (v: number) => `${roundSignificant(v / 1e6)} V/us`;
 const radText = (w: number) =>
   Number.isFinite(w) ? `${formatSi(w, 'rad/s')} (${formatHz(w / (2 * Math.PI))})` : '∞';
 function rootText(re: number, im: number): string {
-  const r = formatSi(re / (2 * Math.PI), 'Hz');
+  const r = (re > 0 ? '+' : '') + formatSi(re / (2 * Math.PI), 'Hz');
   return im === 0 ? r : `${r} ${im < 0 ? '−' : '+'} j${formatSi(Math.abs(im) / (2 * Math.PI), 'Hz')}`;
 }
 

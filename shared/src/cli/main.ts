@@ -1,0 +1,74 @@
+// Entry point of the `ampnote` terminal checker (bundled to dist/cli.js).
+import { dirname, resolve } from 'node:path';
+import { version } from '../../../package.json';
+import { DEFAULT_CHECK_SETTINGS, type CheckSettings } from '../checks/settings';
+import { analyzeDocument } from '../service';
+import { parseArgs, type Command } from './args';
+import { runAnalyze } from './analyzeCommand';
+import { runCheck } from './checkCommand';
+import { parseConfig } from './config';
+import type { CliContext } from './context';
+import { readText, warn, type Streams } from './io';
+import { runReport } from './reportCommand';
+import { EXIT_OK, EXIT_USAGE } from './run';
+import { usage } from './usage';
+
+export function main(argv: readonly string[], streams: Streams, cwd: string, packageRoot: string): number {
+  const parsed = parseArgs(argv);
+  if (!parsed.ok) {
+    warn(streams, `ampnote: ${parsed.error}`);
+    warn(streams, `Run 'ampnote ${parsed.topic ? parsed.topic + ' ' : ''}--help' for usage.`);
+    return EXIT_USAGE;
+  }
+  const cmd = parsed.command;
+  if (cmd.kind === 'help') {
+    streams.stdout.write(usage(cmd.topic));
+    return EXIT_OK;
+  }
+  if (cmd.kind === 'version') {
+    streams.stdout.write(`${version}\n`);
+    return EXIT_OK;
+  }
+  const settings = loadSettings(cmd, cwd, streams);
+  if (!settings) return EXIT_USAGE;
+  const ctx: CliContext = { cwd, streams, version, packageRoot, settings, analyze: analyzeDocument };
+  switch (cmd.kind) {
+    case 'check':
+      return runCheck(cmd, ctx);
+    case 'analyze':
+      return runAnalyze(cmd, ctx);
+    case 'report':
+      return runReport(cmd, ctx);
+  }
+}
+
+/** A bad config file stops the run: results under thresholds the user did not mean would mislead. */
+function loadSettings(
+  cmd: Extract<Command, { config?: string }>,
+  cwd: string,
+  streams: Streams,
+): CheckSettings | undefined {
+  if (cmd.config === undefined) return DEFAULT_CHECK_SETTINGS;
+  const read = readText(resolve(cwd, cmd.config));
+  if (!read.ok) {
+    warn(streams, `${cmd.config}: error: cannot read config file: ${read.message}`);
+    return undefined;
+  }
+  const parsed = parseConfig(read.text);
+  if (!parsed.ok) {
+    warn(streams, `${cmd.config}: error: ${parsed.error}`);
+    return undefined;
+  }
+  for (const w of parsed.warnings) warn(streams, `${cmd.config}: warning: ${w}`);
+  return parsed.settings;
+}
+
+// Run only as the program itself, not when a test imports the module.
+if (require.main === module) {
+  // A reader that stops early (`| head`) closes the pipe: stop quietly rather than crash.
+  process.stdout.on('error', (err: NodeJS.ErrnoException) => {
+    if (err.code === 'EPIPE') process.exit(process.exitCode ?? 0);
+    throw err;
+  });
+  process.exitCode = main(process.argv.slice(2), process, process.cwd(), resolve(dirname(__filename), '..'));
+}

@@ -1,0 +1,73 @@
+// `ampnote report FILE -o OUT.html`: the designs' values, findings and charts in one self-contained page.
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { buildPanelData } from '../panel/buildPanelData';
+import type { Command } from './args';
+import { exitCodeForDesigns, loadDesigns } from './analyzeCommand';
+import type { CliContext } from './context';
+import { renderReport, type ReportDesign } from './htmlReport';
+import { readText, warn, writeOutput } from './io';
+import { EXIT_USAGE, findingsOfDesign, summaryLine } from './run';
+
+type ReportCommand = Extract<Command, { kind: 'report' }>;
+
+export function runReport(cmd: ReportCommand, ctx: CliContext): number {
+  // The chart bundle first: without it there is no report to write, and nothing should be analysed in vain.
+  const bundlePath = join(ctx.packageRoot, 'dist', 'charts.js');
+  const bundle = readText(bundlePath);
+  if (!bundle.ok) {
+    warn(
+      ctx.streams,
+      `ampnote: cannot read the chart bundle ${bundlePath}: ${bundle.message} (run 'npm run build')`,
+    );
+    return EXIT_USAGE;
+  }
+  const loaded = loadDesigns(cmd.file, cmd.design, ctx);
+  if (!loaded.ok) return loaded.code;
+  const { path, report, designs } = loaded;
+  const uri = pathToFileURL(resolve(ctx.cwd, cmd.file)).href;
+
+  const entries: ReportDesign[] = designs.map((d) => {
+    const model = d.source.nominal;
+    let panel;
+    if (model && d.runs.length > 0) {
+      try {
+        panel = buildPanelData(model, uri, { settleTolerance: ctx.settings.settleTolerance });
+      } catch (err) {
+        warn(
+          ctx.streams,
+          `${path}: warning: charts of design "${d.source.name}" not drawn: ${err instanceof Error ? err.message : String(err)}`,
+        );
+      }
+    }
+    return { report: d, findings: findingsOfDesign(report, d.source.name), panel };
+  });
+
+  const html = renderReport({
+    file: path,
+    version: ctx.version,
+    generated: new Date().toISOString().replace(/\.\d+Z$/, 'Z'),
+    designs: entries,
+    fileFindings: report.findings.filter((f) => f.design === undefined),
+    chartsScript: bundle.text,
+  });
+  const error = writeOutput(ctx.cwd, cmd.output, html);
+  if (error) {
+    warn(ctx.streams, `ampnote: ${error}`);
+    return EXIT_USAGE;
+  }
+  const code = exitCodeForDesigns(report, designs);
+  if (!cmd.quiet) {
+    const findings = entries.flatMap((e) => e.findings);
+    const summary = summaryLine({
+      files: 1,
+      designs: designs.length,
+      errors: findings.filter((f) => f.severity === 'error').length,
+      warnings: findings.filter((f) => f.severity === 'warning').length,
+      infos: findings.filter((f) => f.severity === 'info').length,
+      unreadable: 0,
+    });
+    warn(ctx.streams, `wrote ${cmd.output} (${summary})`);
+  }
+  return code;
+}
