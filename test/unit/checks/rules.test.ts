@@ -274,7 +274,7 @@ describe('complex poles and peaking', () => {
     const found = complexPolesCheck(input([{ model, analysis: a }]));
     expect(found.map((f) => f.message)).toEqual([
       expect.stringContaining('ζ = 0.30'),
-      expect.stringContaining('2.5 dB'),
+      expect.stringContaining('2.50 dB'),
     ]);
     const calm = analysis({ poles: [pole(1e3), pole(40e6, [], 0.7)], loop: { ugfHz: 20e6, peakingDb: 0.3 } });
     expect(complexPolesCheck(input([{ model, analysis: calm }]))).toEqual([]);
