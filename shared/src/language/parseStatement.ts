@@ -11,7 +11,6 @@ import {
   ELEMENT_KINDS,
   FIELDS_BY_STATEMENT,
   FLAGS_BY_STATEMENT,
-  KEYWORDS,
   REQUIREMENT_KINDS,
   STATEMENT_KEYWORDS,
   type ElementKind,
@@ -28,7 +27,21 @@ const STOP_WORDS: ReadonlySet<string> = new Set([
   'within',
 ]);
 /** Words that cannot name a parameter, stage, node or corner. */
-export const RESERVED_NAMES: ReadonlySet<string> = new Set([...KEYWORDS, ...ALL_FIELDS, 'in', 'gnd']);
+// Field names (`cc`, `gm`) and element and requirement words stay usable as names: where they appear
+// decides what they mean (`param cc = 1 pF` … `cc = cc`).
+export const RESERVED_NAMES: ReadonlySet<string> = new Set([
+  'design',
+  'end',
+  ...STATEMENT_KEYWORDS,
+  'from',
+  'at',
+  'within',
+  'inverting',
+  'noninverting',
+  'ugf',
+  'in',
+  'gnd',
+]);
 
 class Stop extends Error {}
 
