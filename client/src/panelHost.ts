@@ -19,6 +19,7 @@ import type {
   WebviewToHost,
 } from '../../shared/src/protocol/webviewMessages';
 import { panelHtml } from './panelHtml';
+import { isChartId, parseWebviewMessage } from './webviewGuard';
 import type { ServerRequests } from './requests';
 
 export const PANEL_VIEW_TYPE = 'ampnote.polePanel';
@@ -43,44 +44,6 @@ const CHART_TITLES: Record<ChartId, string> = {
   step: 'step',
   splane: 'pole-zero-map',
 };
-
-function isPositiveNumber(v: unknown): v is number {
-  return typeof v === 'number' && Number.isFinite(v) && v >= 0;
-}
-
-function isChartId(v: unknown): v is ChartId {
-  return v === 'locus' || v === 'bode' || v === 'step' || v === 'splane';
-}
-
-/** Messages from the webview are checked before use: the page is ours, but its input is the user's. */
-export function parseWebviewMessage(raw: unknown): WebviewToHost | undefined {
-  if (!raw || typeof raw !== 'object') return undefined;
-  const m = raw as Record<string, unknown>;
-  const values = () => ({
-    cc: isPositiveNumber(m.cc) && m.cc > 0 ? m.cc : undefined,
-    rz: isPositiveNumber(m.rz) ? m.rz : undefined,
-  });
-  switch (m.type) {
-    case 'ready':
-      return { type: 'ready' };
-    case 'slider':
-      return { type: 'slider', ...values() };
-    case 'apply':
-      return { type: 'apply', ...values() };
-    case 'exportCsv':
-      return isChartId(m.chart) && typeof m.csv === 'string'
-        ? { type: 'exportCsv', chart: m.chart, csv: m.csv }
-        : undefined;
-    case 'exportPng':
-      return isChartId(m.chart) &&
-        typeof m.dataUrl === 'string' &&
-        m.dataUrl.startsWith('data:image/png;base64,')
-        ? { type: 'exportPng', chart: m.chart, dataUrl: m.dataUrl }
-        : undefined;
-    default:
-      return undefined;
-  }
-}
 
 export class PanelHost implements vscode.Disposable {
   private panel: vscode.WebviewPanel | undefined;

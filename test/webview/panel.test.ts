@@ -318,6 +318,38 @@ describe('interaction', () => {
     });
   });
 
+  it('shows a pole’s value and node participation when hovered', async () => {
+    const data = panelData(c);
+    await panel.showData(data);
+    for (const chart of ['splane', 'locus'] as const) {
+      const role = chart === 'splane' ? 'pole' : 'current-pole';
+      const at = await panel.page.evaluate(
+        ({ chart, role }) => {
+          const c = (window as unknown as { __ampnoteCharts: Record<string, any> }).__ampnoteCharts[chart];
+          const i = c.data.datasets.findIndex((d: { role: string }) => d.role === role);
+          const el = c.getDatasetMeta(i).data[0];
+          const box = c.canvas.getBoundingClientRect();
+          return { x: box.left + el.x, y: box.top + el.y, hz: c.data.datasets[i].data[0].pole.hz as number };
+        },
+        { chart, role },
+      );
+      await panel.page.mouse.move(at.x, at.y);
+      const lines = await panel.page.waitForFunction((chart) => {
+        const c = (window as unknown as { __ampnoteCharts: Record<string, any> }).__ampnoteCharts[chart];
+        const body = c.tooltip?.opacity > 0 ? c.tooltip.body : undefined;
+        return body ? body.flatMap((b: { lines: string[] }) => b.lines) : undefined;
+      }, chart);
+      const text = ((await lines.jsonValue()) as string[]).join('\n');
+      const pole = data.poles.find((p) => p.hz === at.hz)!;
+      expect(text).toContain('participation:');
+      for (const q of pole.participation.filter((q) => q.share >= 0.005)) {
+        expect(text).toContain(`${q.node} ${(100 * q.share).toFixed(1)} %`);
+      }
+      await panel.page.screenshot({ path: join(OUTPUT, `hover-${chart}.png`) });
+      await panel.page.mouse.move(1, 1);
+    }
+  });
+
   it('exports a chart as PNG and its data as CSV through the host', async () => {
     const data = panelData(c);
     await panel.showData(data);
