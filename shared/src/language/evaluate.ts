@@ -406,10 +406,10 @@ class ModelBuilder {
       );
     let output: NodeName | undefined;
     const outStmt = outputs[0];
+    // Without an output there is no model, but every statement is still evaluated so that all of its
+    // mistakes are reported.
     if (outStmt) {
-      if (!outStmt.node || !live(outStmt)) return undefined;
-      output = this.resolveNodeName(outStmt.node, 'The output');
-      if (!output) return undefined;
+      if (outStmt.node && live(outStmt)) output = this.resolveNodeName(outStmt.node, 'The output');
     } else if (scope.stages.length) output = node(scope.stages[scope.stages.length - 1]!.name!.text);
     else if (scope.mentionsOut() || scope.decls.get('out')?.kind === 'node') output = node('out');
     else {
@@ -418,7 +418,6 @@ class ModelBuilder {
         `Design ${quote(design.name)} has no stage and names no output: add \`output NODE\`.`,
         design.nameToken ? tokenRange(design.nameToken) : tokenRange(design.keyword),
       );
-      return undefined;
     }
 
     const stages: Stage[] = [];
@@ -641,6 +640,7 @@ class ModelBuilder {
       });
     }
 
+    if (!output) return undefined;
     return {
       name: design.name,
       nodes,
@@ -899,7 +899,7 @@ export function evaluateDesign(design: DesignSyntax, sink: DiagnosticSink): Desi
     let model: DesignModel | undefined;
     if (!s.broken && !s.overrides.length)
       sink.warning('syntax', `Corner ${quote(s.name.text)} overrides nothing.`, tokenRange(s.name));
-    if (nominal) {
+    {
       // Evaluated even when some override is wrong, so that every mistake in the corner is reported.
       const cornerBuilder = new ModelBuilder(scope, overrides, dims);
       const m = cornerBuilder.build();
