@@ -6,6 +6,9 @@ import * as vscode from 'vscode';
 import type { PanelData } from '../../shared/src/protocol/panelData';
 import {
   CompensationEditRequest,
+  DesignSummaryRequest,
+  type DesignSummaryParams,
+  type DesignSummaryResult,
   PanelDataRequest,
   type CompensationEditParams,
   type CompensationEditResult,
@@ -52,6 +55,10 @@ export class PanelHost implements vscode.Disposable {
   private last: PanelData | null = null;
   private inFlight: vscode.CancellationTokenSource | undefined;
   private timer: NodeJS.Timeout | undefined;
+  /** Set while a refresh is pending: true when only cursor moves asked for it. */
+  private onlyCursorMoved: boolean | undefined;
+  /** The document version the shown data was computed for. */
+  private lastVersion: number | undefined;
   private readonly subscriptions: vscode.Disposable[] = [];
 
   constructor(
@@ -167,28 +174,61 @@ export class PanelHost implements vscode.Disposable {
       uri: editor.document.uri.toString(),
       position: { line: p.line, character: p.character },
     });
-    this.schedule(delay);
+    this.schedule(delay, true);
   }
 
-  private schedule(delay: number): void {
+  /** `cursorOnly`: nothing but the cursor moved, so the panel may be current already (see refresh). */
+  private schedule(delay: number, cursorOnly = false): void {
     if (!this.panel) return;
     if (this.timer) clearTimeout(this.timer);
-    this.timer = setTimeout(() => void this.refresh(), delay);
+    this.onlyCursorMoved = cursorOnly && this.onlyCursorMoved !== false;
+    this.timer = setTimeout(() => {
+      const cursor = this.onlyCursorMoved === true;
+      this.onlyCursorMoved = undefined;
+      void this.refresh(cursor);
+    }, delay);
+  }
+
+  private documentVersion(uri: string): number | undefined {
+    return vscode.workspace.textDocuments.find((d) => d.uri.toString() === uri)?.version;
+  }
+
+  /**
+   * After a cursor move in the same, unchanged document: true when the cursor is still in the design shown
+   * (or in no design at all).
+   * The summary request reads the server's cached analysis, far cheaper than a new panel (with its sweep).
+   */
+  private async stillShown(target: Target): Promise<boolean> {
+    const last = this.last;
+    if (!last || !target.position || last.uri !== target.uri) return false;
+    if (this.lastVersion === undefined || this.documentVersion(target.uri) !== this.lastVersion) return false;
+    try {
+      const summary = await this.server.request<DesignSummaryParams, DesignSummaryResult>(
+        DesignSummaryRequest.method,
+        { uri: target.uri, position: target.position },
+      );
+      // Outside every design (a comment between two) the panel keeps the design it shows.
+      return summary === null || summary.design === last.design;
+    } catch {
+      return false;
+    }
   }
 
   private post(message: HostToWebview): void {
     void this.panel?.webview.postMessage(message);
   }
 
-  private async refresh(): Promise<void> {
+  private async refresh(cursorOnly = false): Promise<void> {
     const target = this.target;
     if (!this.panel || !target) {
       this.post({ type: 'data', data: null });
       return;
     }
+    if (cursorOnly && (await this.stillShown(target))) return;
     this.inFlight?.cancel();
     const cts = new vscode.CancellationTokenSource();
     this.inFlight = cts;
+    const version = this.documentVersion(target.uri);
     const params: PanelDataParams = {
       uri: target.uri,
       design: target.design,
@@ -213,6 +253,7 @@ export class PanelHost implements vscode.Disposable {
         }
       }
       this.last = data;
+      this.lastVersion = version;
       if (this.panel) this.panel.title = data ? `Pole split: ${data.design}` : 'Pole split';
       this.post({ type: 'data', data });
     } catch (err) {
