@@ -404,6 +404,45 @@ describe('interaction', () => {
     expect(await panel.page.evaluate(() => window.__violations)).toEqual([]);
   });
 
+  it('lists the modelling problems the engine reports, with empty charts and no script error', async () => {
+    const [broken] = casesFrom(
+      'broken',
+      'file:///work/fixture/broken.ampnote',
+      `design floating_node
+  node a
+  stage first gm = 100 uS rout = 1 Mohm cap = 100 fF
+  element gm first -> a = 1 mS
+  element gm a -> out = 1 mS
+  miller first -> out cc = 1 pF
+  output out
+end
+`,
+    );
+    const data = panelData(broken!);
+    expect(data.problems.length).toBeGreaterThan(0);
+    await panel.showData(data);
+    expect(await panel.page.locator('#problems li').allTextContents()).toEqual(data.problems);
+    const drawn = await readCharts(panel.page);
+    expect(byRole(drawn, 'splane', 'pole')[0]!.data).toEqual([]);
+    expect(byRole(drawn, 'locus', 'pole-branch')).toEqual([]);
+    await panel.page.screenshot({ path: join(OUTPUT, 'problems.png') });
+    expect(panel.problems).toEqual([]);
+  });
+
+  it('fits a narrow panel beside the editor without sideways scrolling', async () => {
+    const narrow = await openPanel(h, { width: 480, height: 1400 });
+    const c3 = cases.find((k) => k.model.millers.length > 1) ?? c;
+    await narrow.showData(panelData(c3));
+    const overflow = await narrow.page.evaluate(
+      () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
+    );
+    expect(overflow).toBeLessThanOrEqual(0);
+    await narrow.page.screenshot({ path: join(OUTPUT, 'narrow.png'), fullPage: true });
+    expect(narrow.problems).toEqual([]);
+    expect(await narrow.page.evaluate(() => window.__violations)).toEqual([]);
+    await narrow.page.close();
+  });
+
   it('shows an empty state when no design is under the cursor', async () => {
     await panel.send({ type: 'data', data: null });
     await panel.page.waitForFunction(() => document.getElementById('app')!.classList.contains('empty'));

@@ -169,7 +169,9 @@ export function buildPanelData(
       bode: { hz: [], magDb: [], phaseDeg: [], crossings: [] },
       step: { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
       summary: { dcGainDb: 20 * Math.log10(Math.abs(analysis.dcGain)) },
-      problems: analysis.problems.map((p) => (p.node ? `${p.message} (node ${p.node})` : p.message)),
+      problems: analysis.problems.map((p) =>
+        p.node && !p.message.includes(`'${p.node}'`) ? `${p.message} (node ${p.node})` : p.message,
+      ),
     };
   }
 
