@@ -8,6 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CHECK_CODES, type Finding } from '../../shared/src/checks/types';
 import { analyzeDocument } from '../../shared/src/service';
 import { cli, ensureBuilt, FIXTURES, ROOT, tempDir } from './helpers';
+import { documentedPaths, matches, pathsOf, splitFindings } from './jsonShape';
 
 const rel = (name: string) => relative(ROOT, join(FIXTURES, name));
 const text = (name: string) => readFileSync(join(FIXTURES, name), 'utf8');
@@ -228,6 +229,33 @@ describe('--format json', () => {
       'unreadable',
       'warnings',
     ]);
+  });
+
+  it('has exactly the fields docs/cli.md documents, and every documented field occurs', () => {
+    const missing = cli(['check', rel('marginal.ampnote'), 'gone.ampnote', '--format', 'json']);
+    const top = documentedPaths('#### Fields of `check --format json`');
+    const finding = documentedPaths('A *finding*');
+    const seen = new Set<string>();
+    const seenFinding = new Set<string>();
+    for (const value of [json, JSON.parse(missing.stdout)]) {
+      const { own, finding: inFindings } = splitFindings(pathsOf(value), ['files[].findings[]']);
+      for (const p of own) {
+        expect(
+          top.some((d) => matches(d, p)),
+          `${p} is not documented`,
+        ).toBe(true);
+        for (const d of top) if (matches(d, p)) seen.add(d);
+      }
+      for (const p of inFindings) {
+        expect(
+          finding.some((d) => matches(d, p)),
+          `finding field ${p} is not documented`,
+        ).toBe(true);
+        for (const d of finding) if (matches(d, p)) seenFinding.add(d);
+      }
+    }
+    expect(top.filter((d) => !seen.has(d))).toEqual([]);
+    expect(finding.filter((d) => !seenFinding.has(d))).toEqual([]);
   });
 
   it('lists each finding as the engine reports it, with both zero- and one-based places', () => {

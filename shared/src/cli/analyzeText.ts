@@ -46,13 +46,16 @@ function designBlock(path: string, d: DesignReport, findings: readonly Finding[]
 }
 
 function metricRows(runs: readonly CornerRun[]): string[][] {
-  const row = (label: string, f: (a: DesignAnalysis) => string) => [label, ...runs.map((r) => f(r.analysis))];
+  const row = (label: string, f: (a: DesignAnalysis) => string) => [
+    label,
+    ...runs.map((r) => (r.analysis.problems.length > 0 ? 'not solved' : f(r.analysis))),
+  ];
   const opt = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? DASH : show(x));
   const tol = runs[0]?.analysis.step?.tolerance;
   return [
-    row('open-loop DC gain', (a) => `${formatDb(dbOf(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`),
+    row('open-loop DC gain', (a) => `${dbText(dbOf(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`),
     row('open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)),
-    row('loop DC gain', (a) => formatDb(dbOf(a.loop.dcGain))),
+    row('loop DC gain', (a) => dbText(dbOf(a.loop.dcGain))),
     row('loop UGF', (a) => opt(a.loop.ugfHz, formatHz)),
     row('phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)),
     row('gain margin', (a) => opt(a.loop.gainMarginDb, formatDb)),
@@ -139,6 +142,8 @@ function complexText(re: number, im: number): string {
 const share = (x: { node: string; share: number }) => `${x.node} ${pct(x.share)}`;
 const pct = (x: number) => `${Math.round(x * 100)} %`;
 const dbOf = (vv: number) => 20 * Math.log10(Math.abs(vv));
+/** dB text that reads right at zero gain too (−∞ dB, not `-Infinity dB`). */
+const dbText = (db: number) => (Number.isFinite(db) ? formatDb(db) : `${db > 0 ? '' : '−'}∞ dB`);
 const slewText = (vPerS: number) => `${roundSignificant(vPerS / 1e6)} V/us`;
 const radText = (w: number) =>
   Number.isFinite(w) ? `${formatSi(w, 'rad/s')} (${formatHz(w / TWO_PI)})` : '∞';

@@ -178,7 +178,8 @@ function designSection(d: ReportDesign, index: number): string {
     );
     return parts.join('\n');
   }
-  parts.push(keyValues(nominal.analysis, r), cornerTable(r.runs));
+  if (nominal.analysis.problems.length === 0) parts.push(keyValues(nominal.analysis, r));
+  parts.push(cornerTable(r.runs));
   parts.push(
     `<h3>Findings</h3>`,
     d.findings.length > 0 ? findingsList(d.findings) : `<p class="none">No findings.</p>`,
