@@ -58,6 +58,8 @@ let designKey = '';
 /** A slider value waiting to be sent while the previous request is still answering. */
 let pending: { cc?: number; rz?: number } | undefined;
 let inFlight = false;
+/** A slider thumb is held by the pointer. */
+let dragging = false;
 
 function saveState(next: Partial<PanelState>): void {
   state = { ...state, ...next };
@@ -128,14 +130,18 @@ function renderSliders(d: PanelData): void {
   const s = d.sliders;
   ui.controls.classList.toggle('hidden', !s || !d.compensation);
   if (!s || !d.compensation) return;
-  const cc = d.cc ?? d.compensation.ccWritten;
-  ui.ccSlider.value = String(valueToPosition(cc, s.cc, false));
-  setText(ui.ccValue, formatSi(cc, 'F'));
   setText(ui.ccWhat, d.compensation.label ?? '');
   ui.rzBox.classList.toggle('hidden', d.compensation.kind !== 'miller');
-  const rz = d.rz ?? d.compensation.rzWritten ?? 0;
-  ui.rzSlider.value = String(valueToPosition(rz, s.rz, true));
-  setText(ui.rzValue, rz > 0 ? formatSi(rz, 'ohm') : 'none');
+  // While a thumb is held (or a newer value waits to be sent) the answer is for an older position: moving
+  // the thumb back to it would make it jump under the pointer.
+  if (!dragging && !pending) {
+    const cc = d.cc ?? d.compensation.ccWritten;
+    ui.ccSlider.value = String(valueToPosition(cc, s.cc, false));
+    setText(ui.ccValue, formatSi(cc, 'F'));
+    const rz = d.rz ?? d.compensation.rzWritten ?? 0;
+    ui.rzSlider.value = String(valueToPosition(rz, s.rz, true));
+    setText(ui.rzValue, rz > 0 ? formatSi(rz, 'ohm') : 'none');
+  }
   const changed = state.cc !== undefined || state.rz !== undefined;
   ui.apply.disabled = !changed;
   ui.reset.disabled = !changed;
@@ -216,6 +222,12 @@ function onSliderInput(): void {
 
 ui.ccSlider.addEventListener('input', onSliderInput);
 ui.rzSlider.addEventListener('input', onSliderInput);
+for (const slider of [ui.ccSlider, ui.rzSlider]) {
+  slider.addEventListener('pointerdown', () => (dragging = true));
+  for (const end of ['pointerup', 'pointercancel', 'lostpointercapture'] as const) {
+    slider.addEventListener(end, () => (dragging = false));
+  }
+}
 ui.apply.addEventListener('click', () => {
   const v = sliderValues();
   post({
