@@ -78,7 +78,9 @@ const join = (a: SourceRange, b: SourceRange): SourceRange => ({ start: a.start,
 export function startsExpression(c: Cursor): boolean {
   const t = c.peek();
   if (!t) return false;
-  if (t.kind === 'number' || t.kind === 'badNumber' || t.kind === 'ident') return true;
+  if (t.kind === 'number' || t.kind === 'badNumber') return true;
+  // `name =` and `name.field` begin the next field or override: the value before them is missing.
+  if (t.kind === 'ident') return !c.isOp('=', 1) && !c.isOp('.', 1);
   return t.kind === 'op' && (t.text === '(' || t.text === '-' || t.text === '+');
 }
 

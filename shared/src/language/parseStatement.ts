@@ -139,7 +139,8 @@ class StatementParser {
       const t = this.c.peek()!;
       if (t.kind === 'ident' && allowed.includes(t.text)) {
         this.c.next();
-        const eq = this.op('=', () => `Missing \`=\` after ${quote(t.text)}.`);
+        if (!this.c.isOp('=')) this.fail(`Missing \`=\` after ${quote(t.text)}.`, tokenRange(t));
+        const eq = this.c.next()!;
         this.addField(
           t.text,
           t,
@@ -378,7 +379,7 @@ function parseRequirement(p: StatementParser, parts: Record<string, unknown>): v
 }
 
 function parseOverrides(p: StatementParser, out: OverrideSyntax[]): void {
-  const seen = new Map<string, Token>();
+  const seen = new Map<string, SourceRange>();
   while (!p.c.atEnd()) {
     const target = p.name('a parameter or `name.field` to override');
     let field: Token | undefined;
@@ -396,10 +397,10 @@ function parseOverrides(p: StatementParser, out: OverrideSyntax[]): void {
     const first = seen.get(targetText);
     if (first) {
       p.sink.error('syntax', `${quote(targetText)} is overridden twice in this corner.`, targetRange, [
-        { range: tokenRange(first), message: `first ${quote(targetText)}` },
+        { range: first, message: `first ${quote(targetText)}` },
       ]);
     } else {
-      seen.set(targetText, target);
+      seen.set(targetText, targetRange);
       out.push({ target, field, targetText, targetRange, expr, text: p.exprText(expr) });
     }
     if (p.c.isOp(',')) {

@@ -52,7 +52,7 @@ const RULES: Readonly<Record<ValueRole, Rule>> = {
   gainmargin: { unit: 'dB', low: 0, high: 100, typical: 10, what: 'a gain margin' },
   dcgain: { unit: 'dB', low: -40, high: 250, typical: 80, what: 'a DC gain' },
   zero: { unit: '', low: 0, high: 1e4, typical: 10, what: 'a zero-to-UGF ratio' },
-  slew: { unit: 'V/s', low: 1, high: 1e13, typical: 1e6, what: 'a slew rate' },
+  slew: { unit: 'V/s', low: 1e3, high: 1e13, typical: 1e6, what: 'a slew rate' },
   tolerance: { unit: '', low: 1e-9, high: 0.5, typical: 1e-3, what: 'a settling tolerance' },
   within: { unit: 's', low: 1e-13, high: 1e3, typical: 1e-6, what: 'a settling time' },
 };
