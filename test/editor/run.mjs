@@ -11,6 +11,9 @@ import { Tally } from './lib/tally.mjs';
 import { uiChecks, smokeChecks } from './lib/uiChecks.mjs';
 
 const OUTPUT = join(root, 'test-output', 'editor');
+// `--only host,ui,packaged` runs some of the three parts (for working on one); the default is all.
+const onlyArg = process.argv.find((a) => a.startsWith('--only='))?.slice('--only='.length);
+const parts = new Set((onlyArg ?? 'host,ui,packaged').split(','));
 const WORK = join(editorDir, 'work');
 const started = Date.now();
 const tally = new Tally();
@@ -94,12 +97,14 @@ async function main() {
   const browser = await launchBrowser();
   running.push({ stop: () => browser.close() });
 
-  step('extension-host suite (real vscode API)');
-  suite.writeConfig('full');
-  await hostSuite(browser, editor, workspace, suite.entry, suite.results, root, 'host');
+  if (parts.has('host')) {
+    step('extension-host suite (real vscode API)');
+    suite.writeConfig('full');
+    await hostSuite(browser, editor, workspace, suite.entry, suite.results, root, 'host');
+  }
 
-  step('UI through Chromium');
-  {
+  if (parts.has('ui')) {
+    step('UI through Chromium');
     const consoleLines = [];
     const page = await openWorkbench(
       browser,
@@ -116,6 +121,7 @@ async function main() {
   await editor.stop();
   running.splice(running.indexOf(editor), 1);
 
+  if (!parts.has('packaged')) return;
   step('packaged extension (.vsix)');
   const vsix = await tally.check(
     'npm run package writes out/ampnote.vsix',

@@ -49,8 +49,9 @@ export async function quickOpen(page, fileName) {
   const input = page.locator('.quick-input-widget input');
   await input.waitFor({ state: 'visible', timeout: 15_000 });
   await input.fill(fileName);
+  // Enter takes the focused row: wait until filtering has put the file there, not a recent one.
   await page
-    .locator('.quick-input-widget .monaco-list-row', { hasText: fileName })
+    .locator('.quick-input-widget .monaco-list-row.focused', { hasText: fileName })
     .first()
     .waitFor({ state: 'visible', timeout: 15_000 });
   await page.keyboard.press('Enter');
@@ -58,6 +59,17 @@ export async function quickOpen(page, fileName) {
     .locator('.tabs-container .tab.active', { hasText: fileName })
     .waitFor({ state: 'visible', timeout: 15_000 });
   await page.locator('.editor-instance .monaco-editor .view-lines').first().waitFor({ state: 'visible' });
+}
+
+/** Puts keyboard focus in the first editor group and waits until its active editor is `fileName`. */
+export async function focusFirstGroup(page, fileName) {
+  await page.keyboard.press('Escape');
+  // Focus may sit inside a webview's frame; a click on the editor's text area brings it back.
+  await page.locator('.editor-group-container').first().locator('.monaco-editor .view-lines').first().click();
+  await page.keyboard.press('Control+1');
+  await poll(`the editor of ${fileName} to be in front`, async () =>
+    (await page.title()).includes(fileName) ? true : undefined,
+  );
 }
 
 /** Runs a command from the palette by its title, as a person would. */
@@ -68,11 +80,17 @@ export async function runCommand(page, title) {
   await input.waitFor({ state: 'visible', timeout: 15_000 });
   await input.fill(`>${title}`);
   await page
-    .locator('.quick-input-widget .monaco-list-row', { hasText: title })
+    .locator('.quick-input-widget .monaco-list-row.focused', { hasText: title })
     .first()
     .waitFor({ state: 'visible', timeout: 15_000 });
   await page.keyboard.press('Enter');
-  await input.waitFor({ state: 'hidden', timeout: 15_000 });
+  // The palette has closed, or the command opened a quick pick of its own in the same widget.
+  await poll(
+    `the command palette to run "${title}"`,
+    async () =>
+      !(await input.isVisible()) || !(await input.inputValue()).startsWith('>') ? true : undefined,
+    15_000,
+  );
 }
 
 /** Moves the cursor to a one-based line and column of the active editor. */

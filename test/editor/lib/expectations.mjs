@@ -84,6 +84,7 @@ function fromReport(json, file, workspace) {
     severity: f.severity,
     range: f.range,
     message: f.message,
+    fixes: (f.fixes ?? []).map((x) => ({ title: x.title, preferred: x.preferred === true })),
   }));
   return { findings };
 }

@@ -18,7 +18,10 @@ export class Tally {
     console.log(`  FAIL  ${name}\n        ${text.split('\n').slice(0, 12).join('\n        ')}`);
   }
 
-  /** Runs `fn`; a throw or a timeout is a failure. Returns fn's value, or undefined when it failed. */
+  /**
+   * Runs `fn`; a throw or a timeout is a failure. Returns fn's value (true when it returns nothing), or
+   * undefined when it failed.
+   */
   async check(name, fn, timeoutMs = 60_000) {
     let timer;
     try {
@@ -29,7 +32,7 @@ export class Tally {
         }),
       ]);
       this.pass(name);
-      return value;
+      return value === undefined ? true : value;
     } catch (err) {
       this.fail(name, err);
       return undefined;

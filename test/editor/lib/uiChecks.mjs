@@ -3,6 +3,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import {
+  focusFirstGroup,
   goToLine,
   poll,
   problemCounts,
@@ -24,6 +25,30 @@ function pickShowcase(expected, workspace) {
   });
   scored.sort((a, b) => b.score - a.score);
   return scored[0]?.e;
+}
+
+/**
+ * A Miller keyword that no finding covers, so the hover shows the analysis alone (else any Miller line).
+ */
+function hoverSpot(expected, workspace) {
+  let fallback;
+  for (const e of expected) {
+    const lines = readFileSync(join(workspace, e.file), 'utf8').split(/\r?\n/);
+    for (const [line, text] of lines.entries()) {
+      if (!/^\s*miller\b/.test(text)) continue;
+      const column = text.search(/\S/);
+      const spot = { file: e.file, line, column };
+      fallback ??= spot;
+      const covered = e.findings.some((f) => {
+        const { start, end } = f.range;
+        const after = line > start.line || (line === start.line && column + 1 >= start.character);
+        const before = line < end.line || (line === end.line && column + 1 <= end.character);
+        return after && before;
+      });
+      if (!covered) return spot;
+    }
+  }
+  return fallback;
 }
 
 /**
@@ -94,42 +119,83 @@ function commandTitle(root, id) {
   return c.category ? `${c.category}: ${c.title}` : c.title;
 }
 
+/** tally.check with a screenshot of the page when the check fails. */
+function checker(tally, page, output) {
+  let n = 0;
+  return (name, fn, timeoutMs) =>
+    tally.check(
+      name,
+      async () => {
+        try {
+          return await fn();
+        } catch (err) {
+          n += 1;
+          const slug = name.replace(/[^a-z0-9]+/gi, '-').slice(0, 60);
+          await screenshot(page, output, `FAIL-${n}-${slug}`).catch(() => {});
+          throw err;
+        }
+      },
+      timeoutMs,
+    );
+}
+
 export async function uiChecks({ page, tally, expected, workspace, output, root }) {
+  const check = checker(tally, page, output);
   const show = pickShowcase(expected, workspace);
   if (!show) throw new Error('no example to show');
   const lines = readFileSync(join(workspace, show.file), 'utf8').split(/\r?\n/);
 
-  await tally.check(`UI: ${show.file} shows squiggles on the lines of its findings`, async () => {
+  await check(`UI: ${show.file} shows squiggles on the lines of its findings`, async () => {
     await quickOpen(page, show.file);
     await squigglesMatch(page, show.findings);
     await screenshot(page, output, 'squiggles');
   });
 
-  await tally.check(`UI: the problems count in the status bar matches the findings`, async () => {
+  await check(`UI: the problems count in the status bar matches the findings`, async () => {
     const c = await problemsMatch(page, expected, show.file);
     console.log(`        status bar: "${c.label}"`);
   });
 
   const millerLine = lines.findIndex((l) => /^\s*miller\b/.test(l));
-  await tally.check(`UI: the hover over the Miller capacitor shows pole values`, async () => {
-    if (millerLine < 0) throw new Error(`${show.file} has no miller line`);
-    const col = lines[millerLine].search(/\S/) + 2;
-    await goToLine(page, millerLine + 1, col);
+  const spot = hoverSpot(expected, workspace) ?? { file: show.file, line: millerLine, column: 0 };
+  await check(`UI: the hover over the Miller capacitor in ${spot.file} shows its poles`, async () => {
+    if (spot.line < 0) throw new Error('no example has a miller line');
+    const design = expected
+      .find((e) => e.file === spot.file)
+      .designs.find((d) => d.range.start.line <= spot.line && spot.line <= d.range.end.line);
+    if (!design) throw new Error(`the checker knows no design around ${spot.file}:${spot.line + 1}`);
+    const want = [...design.polesHz].sort((a, b) => a - b).slice(0, 2);
+    if (want.length < 2) throw new Error(`the checker reports ${want.length} pole(s) for ${design.name}`);
+    await quickOpen(page, spot.file);
+    await goToLine(page, spot.line + 1, spot.column + 2);
     await page.keyboard.press('Control+K');
     await page.keyboard.press('Control+I');
-    const hover = page.locator('.monaco-hover:not(.hidden) .hover-contents').first();
-    const text = await poll('the hover widget', async () => {
-      if (!(await hover.isVisible())) return undefined;
-      const t = await hover.innerText();
-      return /pole/i.test(t) ? t : undefined;
+    const hover = page.locator('.monaco-hover:not(.hidden)').first();
+    // The dominant pole and the first non-dominant one, within display rounding of the checker's values.
+    const text = await poll(
+      'the hover widget to show the two lowest poles',
+      async () => {
+        if (!(await hover.isVisible())) return undefined;
+        const t = await hover.innerText();
+        const hz = hzValuesIn(t);
+        return /pole/i.test(t) && want.every((p) => hz.some((v) => Math.abs(v - p) <= 0.01 * p))
+          ? t
+          : undefined;
+      },
+      15_000,
+    ).catch(async (err) => {
+      const t = (await hover.isVisible()) ? await hover.innerText() : '(no hover)';
+      throw new Error(
+        `${err.message}; wanted ${want.map((p) => p.toPrecision(3)).join(', ')} Hz, hover:\n${t}`,
+      );
     });
-    const hz = hzValuesIn(text);
-    if (hz.length < 2) throw new Error(`the hover shows fewer than two frequencies:\n${text}`);
+    console.log(`        hover: ${text.replace(/\s+/g, ' ').slice(0, 160)}`);
     await screenshot(page, output, 'hover');
     await page.keyboard.press('Escape');
+    await quickOpen(page, show.file);
   });
 
-  await tally.check('UI: the status bar shows the phase margin of the design under the cursor', async () => {
+  await check('UI: the status bar shows the phase margin of the design under the cursor', async () => {
     await goToLine(page, Math.max(1, millerLine + 1), 1);
     const text = await poll('a status bar item with the phase margin', async () => {
       const items = await page.locator('#workbench\\.parts\\.statusbar .statusbar-item').allInnerTexts();
@@ -145,12 +211,14 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     // Shown with one decimal: within 0.05° of the nominal or the worst-corner value the checker computes.
     const near = (v) => v !== null && Math.abs(v - shown) <= 0.051;
     if (!near(design.phaseMarginDeg.nominal) && !near(design.phaseMarginDeg.worst)) {
-      throw new Error(`status bar PM ${shown}° but the checker has ${JSON.stringify(design.phaseMarginDeg)} for ${design.name}`);
+      throw new Error(
+        `status bar PM ${shown}° but the checker has ${JSON.stringify(design.phaseMarginDeg)} for ${design.name}`,
+      );
     }
   });
 
   let frame;
-  await tally.check('UI: the panel opens from the command palette and draws its charts', async () => {
+  await check('UI: the panel opens from the command palette and draws its charts', async () => {
     await goToLine(page, Math.max(1, millerLine + 1), 1);
     await runCommand(page, commandTitle(root, 'ampnote.showPanel'));
     frame = page.frameLocator('iframe.webview.ready').frameLocator('#active-frame');
@@ -162,13 +230,13 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     await screenshot(page, output, 'panel');
   });
 
-  await tally.check('UI: the panel carries the small-signal caution', async () => {
+  await check('UI: the panel carries the small-signal caution', async () => {
     if (!frame) throw new Error('the panel did not open');
     const text = await frame.locator('#caution').innerText({ timeout: 10_000 });
     if (!/small-signal/i.test(text)) throw new Error(`caution reads "${text}"`);
   });
 
-  await tally.check('UI: moving the Cc slider redraws the poles', async () => {
+  await check('UI: moving the Cc slider redraws the poles', async () => {
     if (!frame) throw new Error('the panel did not open');
     const slider = frame.locator('#cc-slider');
     await slider.waitFor({ state: 'visible', timeout: 10_000 });
@@ -194,7 +262,9 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     await screenshot(page, output, 'panel-slider');
   });
 
-  await tally.check('UI: Analyze File lists the designs with their phase margin', async () => {
+  await check('UI: Analyze File lists the designs with their phase margin', async () => {
+    // The command is offered for .ampnote editors: bring the file back in front of the panel.
+    await focusFirstGroup(page, show.file);
     await runCommand(page, commandTitle(root, 'ampnote.analyzeFile'));
     const rows = page.locator('.quick-input-widget .monaco-list-row');
     const texts = await poll('the list of designs', async () => {
@@ -202,6 +272,25 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
       return t.length > 0 && t.every((x) => /PM/.test(x)) ? t : undefined;
     });
     console.log(`        ${texts.map((t) => t.replace(/\s+/g, ' ')).join(' | ')}`);
+    // One row per design of the file, each with the phase margin the checker computes for it.
+    const designs = show.designs;
+    if (texts.length !== designs.length) {
+      throw new Error(
+        `${texts.length} row(s) for ${designs.length} design(s) (${designs.map((d) => d.name).join(', ')})`,
+      );
+    }
+    for (const d of designs) {
+      const row = texts.find((t) => t.includes(d.name));
+      const m = row?.match(/PM\s*([-−]?\d+(?:\.\d+)?)\s*°/);
+      if (!m) throw new Error(`no row with a phase margin for design ${d.name}`);
+      const shown = Number(m[1].replace('−', '-'));
+      const near = (v) => v !== null && Math.abs(v - shown) <= 0.051;
+      if (!near(d.phaseMarginDeg.nominal) && !near(d.phaseMarginDeg.worst)) {
+        throw new Error(
+          `row for ${d.name} shows PM ${shown}°, the checker ${JSON.stringify(d.phaseMarginDeg)}`,
+        );
+      }
+    }
     await screenshot(page, output, 'analyze-file');
     await page.keyboard.press('Escape');
   });
@@ -209,8 +298,9 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
 
 /** Diagnostics of the packaged extension on one example, seen in the UI. */
 export async function smokeChecks({ page, tally, expected, output, label }) {
+  const check = checker(tally, page, output);
   const target = expected.find((e) => e.findings.some((f) => f.severity !== 'info')) ?? expected[0];
-  await tally.check(
+  await check(
     `${label}: ${target.file} shows squiggles on the lines of its findings`,
     async () => {
       await quickOpen(page, target.file);
@@ -219,7 +309,7 @@ export async function smokeChecks({ page, tally, expected, output, label }) {
     },
     90_000,
   );
-  await tally.check(`${label}: the problems count in the status bar matches the findings`, async () => {
+  await check(`${label}: the problems count in the status bar matches the findings`, async () => {
     const c = await problemsMatch(page, expected, target.file);
     console.log(`        status bar: "${c.label}"`);
   });

@@ -10,6 +10,8 @@ export interface ExpectedFinding {
     readonly end: { readonly line: number; readonly character: number };
   };
   readonly message?: string;
+  /** The fixes the checker offers for this finding (titles as shown in the editor's quick-fix menu). */
+  readonly fixes?: readonly { readonly title: string; readonly preferred: boolean }[];
 }
 
 export interface ExpectedFile {
