@@ -4,7 +4,7 @@ import type { DesignModel } from '../language/model';
 import type { AnalysisProblem, DesignAnalysis, Pole, Zero } from './types';
 import { buildNetwork } from '../circuit/buildNetwork';
 import { analyzeCore, type CoreResult } from './core';
-import { checkPole, checkZero } from './rootCheck';
+import { checkPole, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
 import { slewEstimate } from './slew';
 import { handEstimates } from './handEstimates';
@@ -63,7 +63,7 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
   const zeros: Zero[] = r.open.zeros.map((s) => {
     const zero: Zero = { s, hz: Math.hypot(s.re, s.im) / (2 * Math.PI), rhp: s.re > 0 };
     if (!withChecks) return zero;
-    const residual = checkZero(r.network, s);
+    const residual = zeroResidual(r.network, s);
     if (residual > ROOT_CHECK_LIMIT) warnings.push(`zero at ${fmt(s)} rad/s failed the network check`);
     return { ...zero, residual };
   });

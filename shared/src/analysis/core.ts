@@ -8,6 +8,7 @@ import { lowFrequencySign, type PoleZeroForm } from './frequency';
 import { frequencySpan, logGrid, loopMetrics, unityCrossings } from './loop';
 import { eigenvalues } from '../numeric/eigenvalues';
 import type { AnalysisProblem } from './types';
+import { refinePoles, refineZeros, rootScale } from './rootCheck';
 
 export interface CoreResult {
   readonly network: Network;
@@ -49,12 +50,19 @@ export function analyzeCore(network: Network, beta: number): CoreOutcome {
   if (!real.ok) return real;
   const system = real.system;
   const pz = poleZeroGain(system);
-  const poles = pz.poles.sort(byMagnitude);
-  const zeros = pz.zeros.sort(byMagnitude);
+  const scale = Math.max(rootScale(pz.poles), rootScale(pz.zeros));
+  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale).sort(byMagnitude);
+  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale).sort(byMagnitude);
   const open = { poles, zeros, k: pz.k, relativeDegree: pz.relativeDegree };
   const sign = lowFrequencySign(open);
+  const atOrigin = (r: Complex) => r.re === 0 && r.im === 0;
   let dcGain = nodalDcGain(network);
   if (dcGain === undefined) dcGain = sign * Infinity;
+  // A transfer that vanishes identically, or has a zero at the origin with no pole there, is 0 at DC
+  // exactly; the nodal solve would return roundoff.
+  const zerosAt0 = zeros.filter(atOrigin).length;
+  const polesAt0 = poles.filter(atOrigin).length;
+  if (open.k === 0 || zerosAt0 > polesAt0) dcGain = 0;
   const closed = closeLoop(system, beta, sign);
   const ce = eigenvalues(closed.A, closed.order);
   const closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);

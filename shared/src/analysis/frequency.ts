@@ -95,9 +95,16 @@ export function pzBode(pz: PoleZeroForm, hz: readonly number[], gain = 1, tiny =
 
 /**
  * Bode data from the direct nodal solve, the phase unwrapped along increasing frequency from a start
- * well below every root (where it equals its DC value), bisecting any step that turns by more than 90°.
+ * well below every root (where it equals its DC value, `dcPhaseDeg` up to a multiple of 360°), bisecting
+ * any step that turns by more than 90°.
  */
-export function nodalBode(net: Network, hz: readonly number[], gain = 1, startOmega = 0): Bode {
+export function nodalBode(
+  net: Network,
+  hz: readonly number[],
+  gain = 1,
+  startOmega = 0,
+  dcPhaseDeg = 0,
+): Bode {
   const magDb: number[] = [];
   const phaseDeg: number[] = [];
   const at = (w: number): [number, number] => {
@@ -109,7 +116,9 @@ export function nodalBode(net: Network, hz: readonly number[], gain = 1, startOm
     return (Math.atan2(i, r) * 180) / Math.PI;
   };
   let prevW = startOmega;
-  let prevPhase = wrap(startOmega);
+  // The branch at the start is the one nearest the DC convention (0 or 180°, less 90° per integrator).
+  const raw0 = wrap(startOmega);
+  let prevPhase = raw0 + 360 * Math.round((dcPhaseDeg - raw0) / 360);
   const follow = (w0: number, p0: number, w1: number, depth: number): number => {
     const raw = wrap(w1);
     const p1 = raw + 360 * Math.round((p0 - raw) / 360);

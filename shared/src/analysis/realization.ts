@@ -6,6 +6,7 @@ import type { AnalysisProblem } from './types';
 import { symmetricEigen } from '../numeric/symmetricEigen';
 import { luFactor, luSolve, luSolveMatrix } from '../numeric/luReal';
 import { complexLuFactor, complexNullVectors } from '../numeric/complexLu';
+import { conductanceSingular } from './rootCheck';
 
 export interface StateSpace {
   /** Order: the number of finite poles. */
@@ -152,8 +153,9 @@ function floatingNodeProblem(
 
 /** Exact DC gain from the nodal equations G·v = −gIn (±Infinity when G is singular: a pole at s = 0). */
 export function nodalDcGain(net: Network): number | undefined {
+  if (conductanceSingular(net)) return undefined;
   const f = luFactor(net.G, net.n);
-  if (f.singular || f.pivotRatio < SINGULAR_PIVOT_RATIO) return undefined;
+  if (f.singular) return undefined;
   const rhs = new Float64Array(net.n);
   for (let i = 0; i < net.n; i++) rhs[i] = -net.gIn[i];
   return luSolve(f, rhs)[net.output];

@@ -5,7 +5,7 @@ import type { Network } from '../circuit/network';
 import type { AnalysisProblem } from './types';
 import { buildNetwork } from '../circuit/buildNetwork';
 import { analyzeCore, type CoreResult } from './core';
-import { nodalBode, pzBode, type Bode } from './frequency';
+import { nodalBode, pzBode, unwrappedPhaseDeg, type Bode } from './frequency';
 
 export interface BodeResult extends Bode {
   /** Present (and the arrays empty) when the design could not be analysed. */
@@ -38,11 +38,17 @@ const failed = (problems: readonly AnalysisProblem[]): BodeResult => ({ magDb: [
 /** A frequency well below every root, where the phase equals its DC value. */
 const startOmega = (core: CoreResult) => core.grid[0] / 1e3;
 
+/** The DC phase convention at the start frequency: 0 or 180°, less 90° per excess pole at the origin. */
+const dcPhase = (core: CoreResult, gain: number) => {
+  const p = unwrappedPhaseDeg({ ...core.open, k: core.open.k * gain }, startOmega(core), core.tiny);
+  return 90 * Math.round(p / 90);
+};
+
 /** Open-loop A(jω) by direct complex solve of the nodal equations (hz in Hz). */
 export function openLoopResponse(source: Network | DesignModel, hz: readonly number[]): BodeResult {
   const r = coreOf(source);
   if (!r.ok) return failed(r.problems);
-  return nodalBode(r.core.network, hz, 1, startOmega(r.core));
+  return nodalBode(r.core.network, hz, 1, startOmega(r.core), dcPhase(r.core, 1));
 }
 
 /** Loop gain L(jω) = β·σ·A(jω) by direct complex solve; β from the model (or `beta` for a network). */
@@ -53,7 +59,8 @@ export function loopResponse(
 ): BodeResult {
   const r = coreOf(source, beta);
   if (!r.ok) return failed(r.problems);
-  return nodalBode(r.core.network, hz, r.core.beta * r.core.sign, startOmega(r.core));
+  const gain = r.core.beta * r.core.sign;
+  return nodalBode(r.core.network, hz, gain, startOmega(r.core), dcPhase(r.core, gain));
 }
 
 /** A(jω) from the exact poles, zeros and leading gain. */

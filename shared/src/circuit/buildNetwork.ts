@@ -161,6 +161,8 @@ export function buildNetwork(model: DesignModel): BuildResult {
       output: out,
       inputName: model.input,
       capRank: b.capRank(),
+      gAbs: b.gAbs.map(Math.abs),
+      gInAbs: b.gInAbs.map(Math.abs),
     },
   };
 }

@@ -29,6 +29,13 @@ export interface Network {
    * capacitors whatever their spread, so the number of finite poles never rests on a numerical threshold.
    */
   readonly capRank: number;
+  /**
+   * Entry-wise sums of the magnitudes of every stamp in G and gIn. A conductance and a transconductance
+   * can cancel inside one entry of G; these sums keep the scale the entry came from, so that a check of
+   * G + sC against zero is relative to the elements rather than to their difference.
+   */
+  readonly gAbs?: Float64Array;
+  readonly gInAbs?: Float64Array;
 }
 
 /** Index of a terminal in a network under construction: an unknown (≥ 0), ground, or the driven input. */
@@ -40,6 +47,8 @@ export class NetworkBuilder {
   readonly C: Float64Array;
   readonly gIn: Float64Array;
   readonly cIn: Float64Array;
+  readonly gAbs: Float64Array;
+  readonly gInAbs: Float64Array;
 
   private readonly parent: Int32Array;
   private readonly touched: Uint8Array;
@@ -48,6 +57,8 @@ export class NetworkBuilder {
     this.parent = Int32Array.from({ length: n + 1 }, (_, i) => i);
     this.touched = new Uint8Array(n);
     this.G = new Float64Array(n * n);
+    this.gAbs = new Float64Array(n * n);
+    this.gInAbs = new Float64Array(n);
     this.C = new Float64Array(n * n);
     this.gIn = new Float64Array(n);
     this.cIn = new Float64Array(n);
@@ -70,6 +81,7 @@ export class NetworkBuilder {
 
   conductance(a: Terminal, b: Terminal, g: number): void {
     this.twoTerminal(this.G, this.gIn, a, b, g);
+    this.twoTerminal(this.gAbs, this.gInAbs, a, b, Math.abs(g));
   }
 
   capacitance(a: Terminal, b: Terminal, c: number): void {
@@ -117,7 +129,12 @@ export class NetworkBuilder {
   /** gm·v(control) injected into `output` (positive gm); a negative gm draws it out. */
   transconductance(control: Terminal, output: Terminal, gm: number): void {
     if (typeof output !== 'number') return;
-    if (typeof control === 'number') this.G[output * this.n + control] -= gm;
-    else if (control === 'input') this.gIn[output] -= gm;
+    if (typeof control === 'number') {
+      this.G[output * this.n + control] -= gm;
+      this.gAbs[output * this.n + control] += Math.abs(gm);
+    } else if (control === 'input') {
+      this.gIn[output] -= gm;
+      this.gInAbs[output] += Math.abs(gm);
+    }
   }
 }
