@@ -87,7 +87,7 @@ beforeAll(() => {
 describe('analyze --json', () => {
   it('has exactly the fields docs/cli.md documents, and every documented field occurs', () => {
     const top = documentedPaths('#### Fields of `analyze --json`');
-    const finding = documentedPaths('A *finding*');
+    const finding = documentedPaths('A _finding_');
     expect(top.length).toBeGreaterThan(50);
     const seen = new Set<string>();
     const seenFinding = new Set<string>();

@@ -234,7 +234,7 @@ describe('--format json', () => {
   it('has exactly the fields docs/cli.md documents, and every documented field occurs', () => {
     const missing = cli(['check', rel('marginal.ampnote'), 'gone.ampnote', '--format', 'json']);
     const top = documentedPaths('#### Fields of `check --format json`');
-    const finding = documentedPaths('A *finding*');
+    const finding = documentedPaths('A _finding_');
     const seen = new Set<string>();
     const seenFinding = new Set<string>();
     for (const value of [json, JSON.parse(missing.stdout)]) {
