@@ -106,6 +106,11 @@ function renderProblems(d: PanelData): void {
 }
 
 function renderNotes(d: PanelData): void {
+  if (d.problems.length > 0) {
+    for (const id of CHART_IDS)
+      setText($(`note-${id}`), 'Not drawn: the design could not be analysed (see above).');
+    return;
+  }
   const notes: Record<ChartId, string> = {
     locus: d.compensation
       ? `Cc from 0 (left edge) to ${formatSi(d.locus.poles[0]?.cc.at(-1) ?? 0, 'F')}; × marks the poles at the Cc shown, ○ the zeros. Hover a pole for its node participation.`
@@ -147,6 +152,21 @@ function renderSliders(d: PanelData): void {
   ui.reset.disabled = !changed;
 }
 
+/** Charts with nothing to draw show only their note (no empty axes), and offer nothing to export. */
+function markEmpty(d: PanelData): void {
+  const has: Record<ChartId, boolean> = {
+    locus: d.locus.poles.length > 0,
+    bode: d.bode.hz.length > 0,
+    step: d.step.t.length > 0,
+    splane: d.poles.length + d.zeros.length > 0,
+  };
+  for (const id of CHART_IDS) {
+    const card = $(`card-${id}`);
+    card.classList.toggle('nodata', !has[id]);
+    for (const b of card.querySelectorAll<HTMLButtonElement>('.card-tools button')) b.disabled = !has[id];
+  }
+}
+
 function layout(): void {
   for (const id of CHART_IDS) $(`card-${id}`).classList.toggle('selected', id === state.selected);
 }
@@ -175,6 +195,7 @@ function render(d: PanelData | null): void {
   renderProblems(d);
   renderNotes(d);
   renderSliders(d);
+  markEmpty(d);
   layout();
   charts = drawCharts(ui.grid, d, { colors: readThemeColors(document.body), previous: charts });
   window.__ampnoteCharts = charts;
