@@ -22,9 +22,15 @@ const SEVERITY = {
  * The checks' documentation ships with the extension (docs/checks.md beside dist/), so the link works
  * offline: a file URI with the code as its anchor.
  */
+const hrefs = new Map<string, string>();
 export function docsHref(code: string): string {
-  const root = typeof __dirname === 'string' ? join(__dirname, '..') : process.cwd();
-  return `${pathToFileURL(join(root, 'docs', 'checks.md')).href}#${code}`;
+  let href = hrefs.get(code);
+  if (!href) {
+    const root = typeof __dirname === 'string' ? join(__dirname, '..') : process.cwd();
+    href = `${pathToFileURL(join(root, 'docs', 'checks.md')).href}#${code}`;
+    hrefs.set(code, href);
+  }
+  return href;
 }
 
 /** Which finding a diagnostic came from, so that code actions find its fixes again. */

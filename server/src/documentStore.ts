@@ -36,7 +36,7 @@ export class DocumentStore {
 
   private cache(uri: string): AnalysisCache {
     let c = this.caches.get(uri);
-    if (!c) this.caches.set(uri, (c = createAnalysisCache()));
+    if (!c) this.caches.set(uri, (c = createAnalysisCache({ stepResponse: 'when-required' })));
     return c;
   }
 

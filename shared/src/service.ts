@@ -19,7 +19,7 @@ import { languageFindings, rangeContains, runChecks } from './checks/index';
 import { resolveCheckSettings, type CheckSettings } from './checks/settings';
 import type { Finding, TextEditSpec } from './checks/types';
 import { formatSi } from './format/si';
-import { parseDocument } from './language';
+import { createParseCache } from './incrementalParse';
 import type { DesignModel, DesignSource, ParsedDocument } from './language/model';
 import type { SourcePosition, SourceRange } from './language/source';
 import type { CornerRun, DesignReport, DocumentReport } from './report';
@@ -37,12 +37,24 @@ export const ENGINE: CheckEngine = {
   solveGmForZero,
 };
 
+export interface AnalysisCacheOptions {
+  /**
+   * `always` (the default) computes every run's closed-loop step response; `when-required` only for
+   * designs that state a `settle` requirement (the editor's choice: the step is the costliest part, and
+   * the panel computes its own).
+   */
+  readonly stepResponse?: 'always' | 'when-required';
+}
+
 /**
  * Per-design results keyed by the design's exact text and the settings: an edit re-analyses only the
  * designs whose text changed. A design that only moved (lines added above it) is reused with its ranges
- * shifted. Keep one cache per document.
+ * shifted. The document is parsed piece by piece too (see incrementalParse.ts). Keep one cache per
+ * document.
  */
 export interface AnalysisCache {
+  readonly options: AnalysisCacheOptions;
+  parse(text: string): ParsedDocument;
   design(source: DesignSource, settings: CheckSettings, token?: CancelToken): DesignReport;
   /** Forget entries not used since the previous sweep (called after each complete document pass). */
   sweep(): void;
@@ -55,9 +67,12 @@ interface Entry {
   used: boolean;
 }
 
-export function createAnalysisCache(): AnalysisCache {
+export function createAnalysisCache(options: AnalysisCacheOptions = {}): AnalysisCache {
   const entries = new Map<string, Entry>();
+  const parser = createParseCache();
   return {
+    options,
+    parse: (text) => parser.parse(text),
     design(source, settings, token) {
       const key = `${JSON.stringify(settings)}\u0000${source.text}`;
       const hit = entries.get(key);
@@ -65,7 +80,7 @@ export function createAnalysisCache(): AnalysisCache {
         hit.used = true;
         return relocate(hit.report, source);
       }
-      const report = analyzeDesignSource(source, settings, token);
+      const report = analyzeDesignSource(source, settings, token, options);
       if (!token?.isCancellationRequested) entries.set(key, { report, used: true });
       return report;
     },
@@ -75,7 +90,10 @@ export function createAnalysisCache(): AnalysisCache {
         else entry.used = false;
       }
     },
-    clear: () => entries.clear(),
+    clear: () => {
+      entries.clear();
+      parser.clear();
+    },
     get size() {
       return entries.size;
     },
@@ -87,13 +105,18 @@ export function analyzeDesignSource(
   source: DesignSource,
   settings: CheckSettings,
   token?: CancelToken,
+  options: AnalysisCacheOptions = {},
 ): DesignReport {
   if (!source.nominal) return { source, runs: [], worst: {}, findings: [] };
   // The settling tolerance setting applies only where a design states none of its own.
   const statesSettle = source.nominal.requirements.some((r) => r.kind === 'settle');
+  const step = options.stepResponse !== 'when-required' || statesSettle;
   const { runs, worst } = analyzeCorners(
     source,
-    statesSettle ? {} : { settleTolerance: settings.settleTolerance },
+    {
+      ...(statesSettle ? {} : { settleTolerance: settings.settleTolerance }),
+      ...(step ? {} : { step: false }),
+    },
     token,
   );
   const findings = [
@@ -139,7 +162,7 @@ export function* analyzeDocumentSteps(
   token?: CancelToken,
   cache: AnalysisCache = createAnalysisCache(),
 ): Generator<number, DocumentReport, void> {
-  const parsed = parseDocument(text);
+  const parsed = cache.parse(text);
   const resolved = resolveCheckSettings(settings);
   const designs: DesignReport[] = [];
   for (const source of parsed.designs) {

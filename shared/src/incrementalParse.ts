@@ -1,0 +1,113 @@
+// Parsing a long document piece by piece: the text is cut before every `design` line, each piece is parsed
+// on its own and its result reused while its text is unchanged (shifted when lines were added above it).
+// The language is line-based and every `design` line closes the design before it, so the pieces' results
+// put together equal a parse of the whole text (a property the tests check on random documents). The one
+// rule that spans pieces, a design name declared twice, is left to a whole-text parse whenever it applies.
+import { parseDocument } from './language';
+import { lexLine } from './language/lexer';
+import type { ParsedDocument } from './language/model';
+
+export interface Piece {
+  readonly text: string;
+  /** Zero-based line of the piece's first line in the document. */
+  readonly startLine: number;
+}
+
+const DESIGN_LINE = /[ \t]*design(?![A-Za-z0-9_\u00b5\u03bc\u03a9\u2126])/y;
+
+/** Cut `text` before each line whose first token is `design` (line breaks \n, \r\n and \r, as the parser). */
+export function splitAtDesigns(text: string): Piece[] {
+  const pieces: Piece[] = [];
+  let pieceStart = 0;
+  let pieceLine = 0;
+  let line = 0;
+  let i = 0;
+  while (i < text.length) {
+    const c = text.charCodeAt(i);
+    if (c !== 10 && c !== 13) {
+      i++;
+      continue;
+    }
+    i = c === 13 && text.charCodeAt(i + 1) === 10 ? i + 2 : i + 1;
+    line++;
+    if (opensDesign(text, i)) {
+      pieces.push({ text: text.slice(pieceStart, i), startLine: pieceLine });
+      pieceStart = i;
+      pieceLine = line;
+    }
+  }
+  pieces.push({ text: text.slice(pieceStart), startLine: pieceLine });
+  return pieces;
+}
+
+function opensDesign(text: string, at: number): boolean {
+  DESIGN_LINE.lastIndex = at;
+  if (!DESIGN_LINE.test(text)) return false;
+  let end = at;
+  while (end < text.length && text.charCodeAt(end) !== 10 && text.charCodeAt(end) !== 13) end++;
+  const first = lexLine(text.slice(at, end), 0).tokens[0];
+  return first?.kind === 'ident' && first.text === 'design';
+}
+
+/** A deep copy of `value` with every position's line moved by `delta` (shared objects stay shared). */
+export function shiftLines<T>(value: T, delta: number, memo = new Map<object, unknown>()): T {
+  if (delta === 0 || value === null || typeof value !== 'object') return value;
+  const seen = memo.get(value as object);
+  if (seen) return seen as T;
+  if (Array.isArray(value)) {
+    const out: unknown[] = [];
+    memo.set(value, out);
+    for (const x of value) out.push(shiftLines(x, delta, memo));
+    return out as T;
+  }
+  const src = value as Record<string, unknown>;
+  const out: Record<string, unknown> = {};
+  memo.set(value as object, out);
+  const isPosition = typeof src['line'] === 'number' && typeof src['character'] === 'number';
+  for (const key of Object.keys(src)) {
+    out[key] =
+      isPosition && key === 'line' ? (src[key] as number) + delta : shiftLines(src[key], delta, memo);
+  }
+  return out as T;
+}
+
+export interface ParseCache {
+  parse(text: string): ParsedDocument;
+  clear(): void;
+}
+
+/** Piece-wise parsing with reuse; falls back to a whole-text parse when a design name repeats. */
+export function createParseCache(): ParseCache {
+  let entries = new Map<string, { startLine: number; parsed: ParsedDocument }>();
+  return {
+    parse(text) {
+      const next = new Map<string, { startLine: number; parsed: ParsedDocument }>();
+      const designs: ParsedDocument['designs'][number][] = [];
+      const diagnostics: ParsedDocument['diagnostics'][number][] = [];
+      for (const piece of splitAtDesigns(text)) {
+        let entry = next.get(piece.text) ?? entries.get(piece.text);
+        if (!entry)
+          entry = {
+            startLine: piece.startLine,
+            parsed: shiftLines(parseDocument(piece.text), piece.startLine),
+          };
+        else if (entry.startLine !== piece.startLine)
+          entry = {
+            startLine: piece.startLine,
+            parsed: shiftLines(entry.parsed, piece.startLine - entry.startLine),
+          };
+        next.set(piece.text, entry);
+        designs.push(...entry.parsed.designs);
+        diagnostics.push(...entry.parsed.diagnostics);
+      }
+      entries = next;
+      const names = new Set<string>();
+      for (const d of designs) {
+        if (d.name && names.has(d.name)) return parseDocument(text);
+        names.add(d.name);
+      }
+      return { designs, diagnostics };
+    },
+    clear: () => entries.clear(),
+  };
+}
