@@ -5,10 +5,10 @@ import { CAUTION } from '../protocol/panelData';
 import type { Finding } from '../checks/types';
 import type { CornerRun, DesignReport, DocumentReport, Worst } from '../report';
 import { formatFindingText } from './formatText';
+import { dbOf, dbText, errorText, radText, rootText, slewText } from './display';
 import { findingsOfDesign, sortedFindings } from './run';
 
 const DASH = '—';
-const TWO_PI = 2 * Math.PI;
 
 export function formatAnalyzeText(
   path: string,
@@ -96,7 +96,7 @@ function rootsBlock(run: CornerRun): string[] {
       h.formula,
       radText(h.hand),
       radText(h.exact),
-      Number.isFinite(h.relativeError) ? `${roundSignificant(h.relativeError * 100)} %` : DASH,
+      errorText(h.relativeError),
     ]);
     out.push(
       '',
@@ -125,28 +125,15 @@ function poleCells(p: Pole): string[] {
           .map(share)
           .join(', ')
       : `${p.namedAfter} ${pct(p.participation[0]?.share ?? 1)}`;
-  return [complexText(p.s.re, p.s.im), formatHz(p.hz), roundSignificant(p.damping, 3).toString(), where];
+  return [rootText(p.s.re, p.s.im), formatHz(p.hz), roundSignificant(p.damping, 3).toString(), where];
 }
 
 function zeroCells(z: Zero): string[] {
-  return [complexText(z.s.re, z.s.im), formatHz(z.hz), '', z.rhp ? 'right half-plane' : 'left half-plane'];
-}
-
-/** `−1.23 kHz` for a real root, `−25.1 MHz ± j12 MHz` for a pair; the engine lists each of a pair. */
-function complexText(re: number, im: number): string {
-  const r = (re > 0 ? '+' : '') + formatSi(re / TWO_PI, 'Hz');
-  if (im === 0) return r;
-  return `${r} ${im < 0 ? '−' : '+'} j${formatSi(Math.abs(im) / TWO_PI, 'Hz')}`;
+  return [rootText(z.s.re, z.s.im), formatHz(z.hz), '', z.rhp ? 'right half-plane' : 'left half-plane'];
 }
 
 const share = (x: { node: string; share: number }) => `${x.node} ${pct(x.share)}`;
 const pct = (x: number) => `${Math.round(x * 100)} %`;
-const dbOf = (vv: number) => 20 * Math.log10(Math.abs(vv));
-/** dB text that reads right at zero gain too (−∞ dB, not `-Infinity dB`). */
-const dbText = (db: number) => (Number.isFinite(db) ? formatDb(db) : `${db > 0 ? '' : '−'}∞ dB`);
-const slewText = (vPerS: number) => `${roundSignificant(vPerS / 1e6)} V/us`;
-const radText = (w: number) =>
-  Number.isFinite(w) ? `${formatSi(w, 'rad/s')} (${formatHz(w / TWO_PI)})` : '∞';
 
 function worstLine(d: DesignReport): string {
   const w = d.worst;

@@ -7,6 +7,7 @@ import { formatDb, formatDeg, formatHz, formatSi, roundSignificant } from '../fo
 import { CAUTION, type PanelData } from '../protocol/panelData';
 import type { DesignAnalysis } from '../analysis/types';
 import type { CornerRun, DesignReport, Worst } from '../report';
+import { dbOf, errorText, radText, rootText, slewText } from './display';
 import { sortedFindings } from './run';
 
 export interface ReportDesign {
@@ -285,7 +286,7 @@ function handTable(a: DesignAnalysis): string {
   if (hand.length === 0) return '';
   const rows = hand.map(
     (h) =>
-      `<tr><td>${escapeHtml(h.quantity)}</td><td><code>${escapeHtml(h.formula)}</code></td><td>${escapeHtml(radText(h.hand))}</td><td>${escapeHtml(radText(h.exact))}</td><td>${Number.isFinite(h.relativeError) ? `${roundSignificant(h.relativeError * 100)} %` : '—'}</td></tr>`,
+      `<tr><td>${escapeHtml(h.quantity)}</td><td><code>${escapeHtml(h.formula)}</code></td><td>${escapeHtml(radText(h.hand))}</td><td>${escapeHtml(radText(h.exact))}</td><td>${errorText(h.relativeError)}</td></tr>`,
   );
   return `<h3>Hand estimates against the exact roots <span class="sub">nominal</span></h3><div class="scroll"><table><thead><tr><th>quantity</th><th>formula</th><th>hand</th><th>exact</th><th>error</th></tr></thead><tbody>${rows.join('')}</tbody></table></div>`;
 }
@@ -312,14 +313,6 @@ function findingsList(findings: readonly Finding[]): string {
 }
 
 const opt = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? '—' : show(x));
-const dbOf = (vv: number) => 20 * Math.log10(Math.abs(vv));
-const slewText = (v: number) => `${roundSignificant(v / 1e6)} V/us`;
-const radText = (w: number) =>
-  Number.isFinite(w) ? `${formatSi(w, 'rad/s')} (${formatHz(w / (2 * Math.PI))})` : '∞';
-function rootText(re: number, im: number): string {
-  const r = (re > 0 ? '+' : '') + formatSi(re / (2 * Math.PI), 'Hz');
-  return im === 0 ? r : `${r} ${im < 0 ? '−' : '+'} j${formatSi(Math.abs(im) / (2 * Math.PI), 'Hz')}`;
-}
 
 /** Width classes for the participation bars: styles are hashed, so no inline style attributes. */
 const BAR_WIDTHS = Array.from({ length: 21 }, (_, i) => `.bar i.w${i * 5}{width:${i * 5}%}`).join('');
