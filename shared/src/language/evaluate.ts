@@ -62,11 +62,14 @@ class DesignScope {
   readonly skipped = new Set<Statement>();
   readonly stages: StatementOf<'stage'>[] = [];
   readonly params = new Map<string, StatementOf<'param'>>();
+  /** Names that a line with an unknown keyword probably declared (see DesignSyntax.tentativeNames). */
+  readonly tentative: ReadonlySet<string>;
 
   constructor(
     readonly design: DesignSyntax,
     readonly sink: DiagnosticSink,
   ) {
+    this.tentative = new Set(design.tentativeNames.map((t) => t.text));
     for (const s of design.statements) {
       if (s.broken) this.skipped.add(s);
       switch (s.kind) {
@@ -287,6 +290,7 @@ class ModelBuilder {
           this.sink.error('reference', `${quote(name)} is a ${decl.kind} (a node), not a value.`, range);
           return undefined;
         }
+        if (this.scope.tentative.has(name)) return undefined;
         const near = closest(name, [...this.scope.params.keys(), ...(ugfAllowed ? ['ugf'] : [])]);
         const hint = near
           ? ` Did you mean ${quote(near)}?`
@@ -349,6 +353,7 @@ class ModelBuilder {
       this.sink.error('reference', `${quote(name)} is a parameter, not a node.`, tokenRange(t));
       return undefined;
     }
+    if (this.scope.tentative.has(name)) return undefined;
     const nodes = [...this.scope.decls.values()].filter((d) => d.kind !== 'param').map((d) => d.token.text);
     const near = closest(name, [...nodes, 'in', 'gnd', 'out']);
     this.sink.error(

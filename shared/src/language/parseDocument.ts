@@ -32,6 +32,7 @@ interface OpenDesign {
   readonly nameToken?: Token;
   readonly name: string;
   readonly statements: Statement[];
+  readonly tentative: Token[];
   lastToken: Token;
 }
 
@@ -63,6 +64,7 @@ export function parseDocument(text: string): ParsedDocument {
       nameToken: d.nameToken,
       range,
       statements: d.statements,
+      tentativeNames: d.tentative,
       closed: endToken !== undefined,
     };
     if (d.nameToken) {
@@ -107,6 +109,7 @@ export function parseDocument(text: string): ParsedDocument {
       nameToken: name,
       name: name?.text ?? '',
       statements: [],
+      tentative: [],
       lastToken: name ?? keyword!,
     };
   };
@@ -139,6 +142,7 @@ export function parseDocument(text: string): ParsedDocument {
     open.lastToken = lexed.tokens[lexed.tokens.length - 1]!;
     const statement = parseStatement(lexed, lines[i]!, sink);
     if (statement) open.statements.push(statement);
+    else if (lexed.tokens[1]?.kind === 'ident') open.tentative.push(lexed.tokens[1]);
   }
   if (open) close(undefined);
   const diagnostics = [...sink.items].sort(

@@ -84,6 +84,11 @@ export interface DesignSyntax {
   readonly nameToken?: Token;
   readonly range: SourceRange;
   readonly statements: readonly Statement[];
+  /**
+   * The second word of each line whose statement keyword was not recognised (`stag first …`): probably a
+   * name that line meant to declare. Uses of it stay silent, since the line is already reported.
+   */
+  readonly tentativeNames: readonly Token[];
   /** False when the file ended (or another design began) before `end`. */
   readonly closed: boolean;
 }

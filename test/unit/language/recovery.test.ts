@@ -125,3 +125,25 @@ end`);
     }
   });
 });
+
+describe('a misspelt statement keyword', () => {
+  it('is reported once; the name it meant to declare is not reported again where it is used', () => {
+    const doc = parseDocument(`design d
+  stag first gm = 1 mS rout = 1 Mohm
+  stage second from first gm = 1 mS rout = 1 Mohm
+  miller first -> second cc = 1 pF
+  parm g = 1 mS
+  load cap = g
+end`);
+    expect(doc.diagnostics.map((x) => x.message.split('.')[0])).toEqual([
+      'Unknown statement `stag`',
+      'Unknown statement `parm`',
+    ]);
+    // what used the missing names is left out of the model, the rest stays
+    const m = doc.designs[0]!.nominal!;
+    expect(m.stages).toEqual([]);
+    expect(m.millers).toEqual([]);
+    expect(m.loads).toEqual([]);
+    expect(m.output).toBe('second');
+  });
+});
