@@ -195,11 +195,19 @@ describe('language server over stdio', () => {
   });
 
   it('re-reads settings when the configuration changes', async () => {
-    const uri = client.openFile('examples/gmDrivenRcLadder.ampnote');
+    // Without its own `require pm`, the design is judged against the phaseMargin setting.
+    const uri = 'file:///virtual/settings.ampnote';
+    client.open(
+      uri,
+      readFileSync(resolve(ROOT, 'examples/twoStageRhpZero.ampnote'), 'utf8').replace(
+        /^ *require pm .*\n/m,
+        '',
+      ),
+    );
     const first = await client.diagnosticsFor(uri, 1);
     expect(first.map((d) => d.code)).toContain('phase-margin');
     const count = client.published.get(uri)!.length;
-    client.configuration = { phaseMargin: 40 };
+    client.configuration = { phaseMargin: 50 };
     await client.connection.sendNotification('workspace/didChangeConfiguration', { settings: {} });
     const relaxed = await waitFor(
       () => client.published.get(uri)!.slice(count).at(-1)?.diagnostics,

@@ -2,10 +2,17 @@
 import { formatDb, formatHz } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { compensationRange, participationText, primaryCompensation, sortedPoles } from './locate';
+import {
+  compensationRange,
+  participationText,
+  primaryCompensation,
+  sortedPoles,
+  judgedAsLoop,
+} from './locate';
 
 export const complexPolesCheck: Check = (input: CheckInput) =>
   acrossRuns(input, 'complex-poles', (run): Hit[] => {
+    if (!judgedAsLoop(run.model)) return [];
     const hits: Hit[] = [];
     const range = compensationRange(input.source, primaryCompensation(run.model));
     const nondominant = sortedPoles(run.analysis.poles).slice(1);

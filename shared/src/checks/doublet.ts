@@ -3,13 +3,14 @@
 import { formatHz, formatSi } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { fieldRange, primaryCompensation } from './locate';
+import { fieldRange, primaryCompensation, judgedAsLoop } from './locate';
 
 /** Below this relative spread a pole and zero cancel to numerical precision: no tail is left. */
 const EXACT = 1e-6;
 
 export const doubletCheck: Check = (input: CheckInput) =>
   acrossRuns(input, 'doublet', (run): Hit[] => {
+    if (!judgedAsLoop(run.model)) return [];
     const ugf = run.analysis.loop.ugfHz;
     if (ugf === undefined) return [];
     let best: { zeroHz: number; poleHz: number; spread: number } | undefined;

@@ -3,13 +3,14 @@ import { formatDb, formatHz } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check } from './context';
 import { addRequirementEdit, defined } from './fixes';
-import { compensationRange, primaryCompensation, requirementOf, violates } from './locate';
+import { compensationRange, primaryCompensation, requirementOf, violates, judgedAsLoop } from './locate';
 
 export const gainMarginCheck: Check = (input) =>
   acrossRuns(
     input,
     'gain-margin',
     (run): Hit[] => {
+      if (!judgedAsLoop(run.model)) return [];
       const hits: Hit[] = [];
       const loop = run.analysis.loop;
       const req = requirementOf(run.model, 'gain-margin');

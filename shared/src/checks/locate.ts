@@ -70,3 +70,23 @@ export function participationText(participation: readonly { node: string; share:
     .map((p) => `${p.node} ${Math.round(p.share * 100)} %`)
     .join(', ');
 }
+
+/**
+ * Whether the design is a feedback loop whose margins the default rules may judge: it has a gain stage, a
+ * written `feedback`, or a requirement on the loop. A passive or element-only network (a filter driven by
+ * one transconductance) is judged only against the requirements it states.
+ */
+export function judgedAsLoop(model: DesignModel): boolean {
+  return (
+    model.stages.length > 0 ||
+    model.betaOrigin !== undefined ||
+    model.requirements.some(
+      (r) =>
+        r.kind === 'pm' ||
+        r.kind === 'gain-margin' ||
+        r.kind === 'ugf' ||
+        r.kind === 'zero' ||
+        r.kind === 'settle',
+    )
+  );
+}

@@ -4,7 +4,13 @@ import { formatHz } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
 import { defined, setValueEdit, solvedFix } from './fixes';
-import { compensationRange, participationText, primaryCompensation, sortedPoles } from './locate';
+import {
+  compensationRange,
+  participationText,
+  primaryCompensation,
+  sortedPoles,
+  judgedAsLoop,
+} from './locate';
 
 /** A LHP zero this close to a pole (relative) cancels it for this rule: its residue is negligible. */
 const CANCELLED = 0.02;
@@ -27,6 +33,7 @@ export const nondominantPoleCheck: Check = (input: CheckInput) =>
     input,
     'nondominant-pole',
     (run): Hit[] => {
+      if (!judgedAsLoop(run.model)) return [];
       const ugf = run.analysis.loop.ugfHz;
       const p2 = firstNondominantPole(run.analysis);
       const factor = input.settings.nondominantFactor;

@@ -4,7 +4,7 @@ import type { DesignModel } from '../language/model';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
 import { addRequirementEdit, defined, setValueEdit, solvedFix } from './fixes';
-import { compensationRange, primaryCompensation, requirementOf, violates } from './locate';
+import { compensationRange, primaryCompensation, requirementOf, violates, judgedAsLoop } from './locate';
 import type { FixSuggestion } from './types';
 
 export function requiredPhaseMargin(
@@ -20,6 +20,7 @@ export const phaseMarginCheck: Check = (input: CheckInput) =>
     input,
     'phase-margin',
     (run): Hit[] => {
+      if (!judgedAsLoop(run.model)) return [];
       const pm = run.analysis.loop.phaseMarginDeg;
       const ugf = run.analysis.loop.ugfHz;
       if (pm === undefined || ugf === undefined) return [];

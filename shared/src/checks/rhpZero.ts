@@ -6,7 +6,7 @@ import type { CornerRun } from '../report';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckEngine, CheckInput } from './context';
 import { addRequirementEdit, defined, setOrInsertField, setValueEdit, solvedFix } from './fixes';
-import { requirementOf, stageAt } from './locate';
+import { requirementOf, stageAt, judgedAsLoop } from './locate';
 import type { FixSuggestion } from './types';
 
 export function zeroFactor(model: DesignModel, fallback: number): number {
@@ -45,6 +45,7 @@ export const rhpZeroCheck: Check = (input: CheckInput) =>
     input,
     'rhp-zero',
     (run): Hit[] => {
+      if (!judgedAsLoop(run.model)) return [];
       const factor = zeroFactor(run.model, input.settings.rhpZeroFactor);
       const zero = offendingRhpZero(run.analysis, factor);
       if (!zero) return [];

@@ -101,6 +101,14 @@ describe('phase margin', () => {
     expect(found[0]!.message).toContain('worst: hot');
   });
 
+  it('leaves a network with no stage, feedback or loop requirement to the requirements it states', () => {
+    const network = { ...twoStage(BASE), stages: [] };
+    const a = analysis({ loop: { ugfHz: 20e6, phaseMarginDeg: 40 } });
+    expect(phaseMarginCheck(input([{ model: network, analysis: a }]))).toEqual([]);
+    const stated = { ...network, requirements: [requirePm(60)] };
+    expect(phaseMarginCheck(input([{ model: stated, analysis: a }]))).toHaveLength(1);
+  });
+
   it('an unstable loop is an error even against the default', () => {
     const found = phaseMarginCheck(
       input([{ model: twoStage(BASE), analysis: analysis({ loop: { ugfHz: 20e6, phaseMarginDeg: -5 } }) }]),
