@@ -77,7 +77,7 @@ async function main() {
   if (!prepared) return;
   const { workspace, files } = prepared;
   const expected = await tally.check(`the terminal checker reports on ${files.length} example(s)`, async () =>
-    expectationsFor(root, workspace),
+    expectationsFor(root, workspace, files),
   );
   if (!expected) return;
   for (const e of expected) {

@@ -32,8 +32,8 @@ async function main() {
       throw new Error('npm run build failed');
     }
   }
-  const { workspace } = scratchWorkspace(root, join(desktopDir, 'work'));
-  const expected = expectationsFor(root, workspace);
+  const { workspace, files } = scratchWorkspace(root, join(desktopDir, 'work'));
+  const expected = expectationsFor(root, workspace, files);
   const suite = await suiteFiles(root, join(desktopDir, 'suite'), workspace, expected);
   suite.writeConfig('full');
 

@@ -56,7 +56,7 @@ export async function quickOpen(page, fileName) {
     .waitFor({ state: 'visible', timeout: 15_000 });
   await page.keyboard.press('Enter');
   await page
-    .locator('.tabs-container .tab.active', { hasText: fileName })
+    .locator('.tabs-container .tab.active', { hasText: fileName.split('/').pop() })
     .waitFor({ state: 'visible', timeout: 15_000 });
   await page.locator('.editor-instance .monaco-editor .view-lines').first().waitFor({ state: 'visible' });
 }

@@ -11,13 +11,13 @@ export function exampleFiles(dir) {
 }
 
 /**
- * Runs `node dist/cli.js check --format json <files>` in `workspace` and returns one entry per file.
+ * Runs `node dist/cli.js check --format json <files>` in `workspace` (paths relative to it) and returns
+ * one entry per file.
  * Throws with the checker's own output when it cannot be run or read.
  */
-export function checkerExpectations(root, workspace) {
+export function checkerExpectations(root, workspace, files) {
   const cli = join(root, 'dist', 'cli.js');
   if (!existsSync(cli)) throw new Error('dist/cli.js is missing: the terminal checker has not been built');
-  const files = exampleFiles(workspace);
   const r = spawnSync(process.execPath, [cli, 'check', '--format', 'json', ...files], {
     cwd: workspace,
     encoding: 'utf8',

@@ -5,19 +5,25 @@ import { join } from 'node:path';
 import { checkerExpectations, exampleFiles } from './expectations.mjs';
 import { bundleSuite } from './suiteBundle.mjs';
 
+/** The workspace folder that holds the tests' own fixtures beside the examples. */
+export const HAND_CHECKED = 'hand-checked';
+
 /** Copies examples/ into `workDir`/examples (fresh each time): the checks edit and save files there. */
 export function scratchWorkspace(root, workDir) {
   const workspace = join(workDir, 'examples');
   rmSync(workDir, { recursive: true, force: true });
   mkdirSync(workDir, { recursive: true });
   cpSync(join(root, 'examples'), workspace, { recursive: true });
-  const files = exampleFiles(workspace);
-  if (files.length === 0) throw new Error('examples/ has no .ampnote files');
-  return { workspace, files };
+  const examples = exampleFiles(workspace);
+  if (examples.length === 0) throw new Error('examples/ has no .ampnote files');
+  // The tests' own fixtures, whose values the suite also checks against closed forms.
+  cpSync(join(root, 'test', 'editor', 'fixtures'), join(workspace, HAND_CHECKED), { recursive: true });
+  const fixtures = exampleFiles(join(workspace, HAND_CHECKED)).map((f) => `${HAND_CHECKED}/${f}`);
+  return { workspace, files: [...examples, ...fixtures] };
 }
 
-export function expectationsFor(root, workspace) {
-  return checkerExpectations(root, workspace);
+export function expectationsFor(root, workspace, files) {
+  return checkerExpectations(root, workspace, files);
 }
 
 /** Bundles the suite into `suiteDir` and returns a writer for its config (mode: full | smoke). */

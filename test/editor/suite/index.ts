@@ -4,6 +4,7 @@ import { readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import * as vscode from 'vscode';
 import type { ExpectedFile, ExpectedFinding, SuiteConfig } from './config';
+import { FIXTURE, rhpZeroHz, twoStagePolesHz } from './closedForm';
 import { assert, Suite, waitFor } from './harness';
 import { hzValuesIn } from '../lib/hzValues.mjs';
 
@@ -95,6 +96,73 @@ function defineChecks(suite: Suite, config: SuiteConfig): void {
         );
       }
     }
+  });
+
+  suite.check(
+    'the hand-checked two-stage design: hover poles and zero agree with the closed forms',
+    async () => {
+      const doc = await vscode.workspace.openTextDocument(uriOf(FIXTURE.file));
+      await vscode.window.showTextDocument(doc);
+      const text = doc.getText();
+      for (const line of FIXTURE.text) assert(text.includes(line), `the fixture no longer says "${line}"`);
+      const millerLine = doc
+        .getText()
+        .split(/\r?\n/)
+        .findIndex((l) => /^\s*miller\b/.test(l));
+      const at = new vscode.Position(millerLine, doc.lineAt(millerLine).firstNonWhitespaceCharacterIndex + 1);
+      const [p1, p2] = twoStagePolesHz(FIXTURE);
+      const zero = rhpZeroHz(FIXTURE);
+      const hover = await waitFor('a hover with the poles on the fixture Miller line', async () => {
+        const h = await vscode.commands.executeCommand<vscode.Hover[]>(
+          'vscode.executeHoverProvider',
+          doc.uri,
+          at,
+        );
+        const t = h ? hoverText(h) : '';
+        return /pole/i.test(t) ? t : undefined;
+      });
+      const hz = hzValuesIn(hover);
+      // Shown with three significant digits: within 0.5 % (1 % allowed).
+      for (const [what, want] of [
+        ['dominant pole', p1],
+        ['non-dominant pole', p2],
+        ['right-half-plane zero', zero],
+      ] as const) {
+        assert(
+          hz.some((v) => Math.abs(v - want) <= 0.01 * want),
+          `${what} ${want.toPrecision(4)} Hz (closed form) not in the hover:\n${hover}`,
+        );
+      }
+    },
+  );
+
+  suite.check('the hand-checked design is flagged for its RHP zero and its gm ratio', async () => {
+    const doc = await vscode.workspace.openTextDocument(uriOf(FIXTURE.file));
+    await vscode.window.showTextDocument(doc);
+    const lines = doc.getText().split(/\r?\n/);
+    const millerLine = lines.findIndex((l) => /^\s*miller\b/.test(l));
+    const secondLine = lines.findIndex((l) => /^\s*stage\s+second\b/.test(l));
+    // Zero gm2/Cc = 159 MHz against a UGF near gm1/(2π·Cc) = 31.8 MHz: about 5 × the UGF, below the 10 ×
+    // asked by default (common practice); and gm2/gm1 = 5, below the default 10 (common practice).
+    const want = [
+      { code: 'rhp-zero', line: millerLine },
+      { code: 'gm-ratio', line: secondLine },
+    ];
+    await waitFor(
+      'rhp-zero on the Miller line and gm-ratio on the second stage',
+      () => {
+        const diags = vscode.languages.getDiagnostics(doc.uri);
+        return want.every((w) => diags.some((d) => codeOf(d) === w.code && d.range.start.line === w.line))
+          ? true
+          : undefined;
+      },
+      20_000,
+    ).catch((err) => {
+      const got = vscode.languages
+        .getDiagnostics(doc.uri)
+        .map((d) => `${codeOf(d)}@${d.range.start.line + 1}`);
+      throw new Error(`${err.message}; the editor has ${got.join(', ') || 'none'}`);
+    });
   });
 
   suite.check(
