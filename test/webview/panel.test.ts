@@ -318,6 +318,31 @@ describe('interaction', () => {
     });
   });
 
+  it('zooms the step chart to its settling band and remembers it', async () => {
+    const data = panelData(c);
+    await panel.showData(data);
+    const yRange = () =>
+      panel.page.evaluate(() => {
+        const y = (window as unknown as { __ampnoteCharts: Record<string, any> }).__ampnoteCharts.step.scales
+          .y;
+        return { min: y.min as number, max: y.max as number };
+      });
+    const full = await yRange();
+    await panel.page.click('#step-zoom');
+    const band = Math.abs(data.step.final) * data.step.tolerance;
+    const zoomed = await yRange();
+    expect(zoomed.min).toBeCloseTo(data.step.final - 6 * band, 12);
+    expect(zoomed.max).toBeCloseTo(data.step.final + 6 * band, 12);
+    expect(zoomed.max - zoomed.min).toBeLessThan(full.max - full.min);
+    expect(await panel.page.evaluate(() => (window.__state as { stepBandZoom?: boolean }).stepBandZoom)).toBe(
+      true,
+    );
+    expect(await panel.page.getAttribute('#step-zoom', 'aria-pressed')).toBe('true');
+    await panel.page.locator('#card-step').screenshot({ path: join(OUTPUT, 'step-band-zoom.png') });
+    await panel.page.click('#step-zoom');
+    expect((await yRange()).max - (await yRange()).min).toBeCloseTo(full.max - full.min, 9);
+  });
+
   it('shows a pole’s value and node participation when hovered', async () => {
     const data = panelData(c);
     await panel.showData(data);

@@ -78,6 +78,8 @@ export interface DrawOptions {
   readonly colors: ChartColors;
   /** Existing charts to update in place (keeps hover state and avoids flicker while a slider moves). */
   readonly previous?: Partial<ChartSet>;
+  /** Step chart: show only a few band widths around the final value, so a tight band is readable. */
+  readonly stepBandZoom?: boolean;
 }
 
 /** Paints the theme background under each chart, so an exported PNG reads the same as the panel. */
@@ -477,7 +479,14 @@ function bodeConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'s
 
 // ---- (c) closed-loop step ----------------------------------------------------------------------------------
 
-function stepConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'scatter', PlotPoint[]> {
+/** Half-height of the zoomed step view, in band widths either side of the final value. */
+export const BAND_ZOOM = 6;
+
+function stepConfig(
+  data: PanelData,
+  colors: ChartColors,
+  options: DrawOptions,
+): ChartConfiguration<'scatter', PlotPoint[]> {
   const st = data.step;
   const t0 = st.t[0] ?? 0;
   const t1 = st.t[st.t.length - 1] ?? 1;
@@ -561,7 +570,7 @@ function stepConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'s
             callback: (v: string | number) => formatSi(Number(v), 's', 2),
           },
         },
-        y: { type: 'linear', ...axis(colors, 'output') },
+        y: { type: 'linear', ...axis(colors, 'output'), ...bandZoom(data, options) },
       },
       plugins: {
         ...base.plugins,
@@ -682,9 +691,15 @@ function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<
   } as ChartConfiguration<'scatter', PlotPoint[]>;
 }
 
+function bandZoom(data: PanelData, options: DrawOptions): { min?: number; max?: number } {
+  const band = Math.abs(data.step.final) * data.step.tolerance;
+  if (!options.stepBandZoom || !(band > 0) || data.step.t.length === 0) return {};
+  return { min: data.step.final - BAND_ZOOM * band, max: data.step.final + BAND_ZOOM * band };
+}
+
 const BUILDERS: Record<
   ChartId,
-  (d: PanelData, c: ChartColors) => ChartConfiguration<'scatter', PlotPoint[]>
+  (d: PanelData, c: ChartColors, o: DrawOptions) => ChartConfiguration<'scatter', PlotPoint[]>
 > = {
   locus: locusConfig,
   bode: bodeConfig,
@@ -714,7 +729,7 @@ function canvasFor(root: ParentNode, id: ChartId): HTMLCanvasElement {
 export function drawCharts(root: ParentNode, data: PanelData, options: DrawOptions): ChartSet {
   const out = {} as ChartSet;
   for (const id of CHART_IDS) {
-    const config = BUILDERS[id](data, options.colors);
+    const config = BUILDERS[id](data, options.colors, options);
     const existing = options.previous?.[id];
     if (existing && existing.canvas && existing.canvas.isConnected) {
       existing.data = config.data;

@@ -197,13 +197,18 @@ function render(d: PanelData | null): void {
   renderSliders(d);
   markEmpty(d);
   layout();
-  charts = drawCharts(ui.grid, d, { colors: readThemeColors(document.body), previous: charts });
-  window.__ampnoteCharts = charts;
+  redraw();
 }
 
-function redrawForTheme(): void {
+/** Draws the current data with the theme's colours as they are now (also after a theme change). */
+function redraw(): void {
   if (!data) return;
-  charts = drawCharts(ui.grid, data, { colors: readThemeColors(document.body), previous: charts });
+  $('step-zoom').setAttribute('aria-pressed', String(state.stepBandZoom === true));
+  charts = drawCharts(ui.grid, data, {
+    colors: readThemeColors(document.body),
+    previous: charts,
+    stepBandZoom: state.stepBandZoom === true,
+  });
   window.__ampnoteCharts = charts;
 }
 
@@ -278,6 +283,10 @@ ui.grid.addEventListener('click', (ev) => {
       layout();
       // The canvases changed size with the layout; chart.js follows on its own resize observer.
       break;
+    case 'zoom':
+      saveState({ stepBandZoom: !state.stepBandZoom });
+      redraw();
+      break;
     case 'png': {
       const c = charts[chart];
       if (c) post({ type: 'exportPng', chart, dataUrl: c.toBase64Image('image/png', 1) });
@@ -308,11 +317,12 @@ window.addEventListener('message', (event: MessageEvent<HostToWebview>) => {
       break;
     }
     case 'theme':
-      redrawForTheme();
+      redraw();
       break;
     case 'restore':
       saveState(msg.state);
       layout();
+      redraw();
       break;
     case 'status':
       if (msg.error) inFlight = false;
@@ -323,7 +333,7 @@ window.addEventListener('message', (event: MessageEvent<HostToWebview>) => {
 });
 
 // The host sets the theme as classes on <body>; redraw when they change (the CSS variables change with them).
-new MutationObserver(() => redrawForTheme()).observe(document.body, {
+new MutationObserver(() => redraw()).observe(document.body, {
   attributes: true,
   attributeFilter: ['class'],
 });

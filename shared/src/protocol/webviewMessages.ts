@@ -22,4 +22,6 @@ export interface PanelState {
   readonly selected: ChartId;
   readonly cc?: number;
   readonly rz?: number;
+  /** The step chart is zoomed to its settling band. */
+  readonly stepBandZoom?: boolean;
 }
