@@ -157,6 +157,9 @@ class StatementParser {
         continue;
       }
       if (t.kind === 'ident' && extra?.(t)) continue;
+      const prev = this.c.last();
+      if (t.kind === 'op' && t.text === ',' && prev?.kind === 'number' && this.c.peek(1)?.kind === 'number')
+        this.fail('Unexpected `,` in a number: the decimal separator is `.` (`1.5 mS`).', tokenRange(t));
       const list = allowed.length ? ` (${kind} takes ${[...allowed, ...flags].join(', ')})` : '';
       if (t.kind === 'ident' && this.c.isOp('=', 1)) {
         const near = closest(t.text, allowed);

@@ -195,6 +195,13 @@ const cases: Case[] = [
     "A miller capacitor's node cannot be ground.",
   ],
   [
+    'decimal comma',
+    d('  stage t gm = 1⟦,⟧5 mS rout = 1 Mohm'),
+    'syntax',
+    'error',
+    'Unexpected `,` in a number: the decimal separator is `.` (`1.5 mS`).',
+  ],
+  [
     'unexpected character',
     d('  load cap = 1 pF ⟦;⟧'),
     'syntax',
