@@ -1,6 +1,7 @@
 // `ampnote check`: the built program in a child process — exit codes, compiler-style lines, JSON and SARIF.
 import Ajv from 'ajv';
 import addFormats from 'ajv-formats';
+import { spawnSync } from 'node:child_process';
 import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import type * as Sarif from 'sarif';
@@ -167,6 +168,35 @@ describe('text output', () => {
       expect(bad.status).toBe(2);
       expect(bad.stderr).toContain('bad.json: error: not valid JSON');
       expect(bad.stdout).toBe('');
+    } finally {
+      dir.remove();
+    }
+  });
+
+  it('draws a progress line on a terminal for many files, never in a pipe or with --quiet', () => {
+    const dir = tempDir('tty');
+    try {
+      for (let i = 1; i <= 6; i++) writeFileSync(join(dir.path, `d${i}.ampnote`), text('clean.ampnote'));
+      // `script` runs the checker on a pseudo-terminal, as a person at a terminal would.
+      const onTerminal = (extra: string) =>
+        spawnSync(
+          'script',
+          ['-qec', `"${process.execPath}" "${join(ROOT, 'dist', 'cli.js')}" check .${extra}`, '/dev/null'],
+          {
+            cwd: dir.path,
+            encoding: 'utf8',
+            timeout: 120_000,
+          },
+        ).stdout;
+      const shown = onTerminal('');
+      expect(shown).toContain('\r\x1b[K[1/6] checking d1.ampnote');
+      expect(shown).toContain('\r\x1b[K[6/6] checking d6.ampnote');
+      // Erased before the summary is printed.
+      expect(shown).toMatch(/\r\x1b\[K6 files, 6 designs, 0 errors, 0 warnings\r?\n$/);
+      expect(onTerminal(' --quiet')).toBe('');
+      const piped = cli(['check', '.'], dir.path);
+      expect(piped.stderr).toBe('');
+      expect(piped.stdout).toBe('6 files, 6 designs, 0 errors, 0 warnings\n');
     } finally {
       dir.remove();
     }

@@ -13,8 +13,8 @@ export interface Progress {
   done(): void;
 }
 
-/** Shown once the run has more than this many files, or has taken longer than DELAY_MS. */
-const MANY_FILES = 3;
+/** Shown once the run has more than this many items (files, designs), or has taken longer than DELAY_MS. */
+const MANY_ITEMS = 3;
 const DELAY_MS = 1000;
 /** At most one redraw per interval, so a fast run over many small files does not flood the terminal. */
 const REDRAW_MS = 80;
@@ -27,10 +27,10 @@ export function createProgress(sink: ProgressSink, enabled: boolean, now: () => 
   return {
     step(index, total, label) {
       const t = now();
-      if (total <= MANY_FILES && t - started < DELAY_MS) return;
+      if (total <= MANY_ITEMS && t - started < DELAY_MS) return;
       if (t - lastDraw < REDRAW_MS && index !== total - 1) return;
       lastDraw = t;
-      const width = Math.max(20, (sink.columns ?? 80) - 1);
+      const width = Math.max(20, (sink.columns || 80) - 1);
       let line = `[${index + 1}/${total}] ${label}`;
       if (line.length > width) line = line.slice(0, width - 1) + '…';
       sink.write(`\r\x1b[K${line}`);

@@ -7,6 +7,7 @@ import { exitCodeForDesigns, loadDesigns } from './analyzeCommand';
 import type { CliContext } from './context';
 import { renderReport, type ReportDesign } from './htmlReport';
 import { readText, warn, writeOutput } from './io';
+import { createProgress } from './progress';
 import { EXIT_USAGE, findingsOfDesign, summaryLine } from './run';
 
 type ReportCommand = Extract<Command, { kind: 'report' }>;
@@ -27,13 +28,17 @@ export function runReport(cmd: ReportCommand, ctx: CliContext): number {
   const { path, report, designs } = loaded;
   const uri = pathToFileURL(resolve(ctx.cwd, cmd.file)).href;
 
-  const entries: ReportDesign[] = designs.map((d) => {
+  // The chart sweeps are the slow part of a report: show which design is being drawn when it takes a while.
+  const progress = createProgress(ctx.streams.stderr, !cmd.quiet);
+  const entries: ReportDesign[] = designs.map((d, i) => {
+    progress.step(i, designs.length, `charts for ${d.source.name}`);
     const model = d.source.nominal;
     let panel;
     if (model && d.runs.length > 0) {
       try {
         panel = buildPanelData(model, uri, { settleTolerance: ctx.settings.settleTolerance });
       } catch (err) {
+        progress.done();
         warn(
           ctx.streams,
           `${path}: warning: charts of design "${d.source.name}" not drawn: ${err instanceof Error ? err.message : String(err)}`,
@@ -43,6 +48,7 @@ export function runReport(cmd: ReportCommand, ctx: CliContext): number {
     return { report: d, findings: findingsOfDesign(report, d.source.name), panel };
   });
 
+  progress.done();
   const html = renderReport({
     file: path,
     version: ctx.version,
