@@ -30,8 +30,14 @@ export function editorEnv(extra = {}) {
   return { ...process.env, TMPDIR: tmp, XDG_CONFIG_HOME: config, XDG_DATA_HOME: data, ...extra };
 }
 
-/** Everything the install needs that this script cannot provide itself; empty when all is there. */
-export function missingPrerequisites() {
+/**
+ * What this script cannot provide itself; empty when all is there. `install`: what the npm install of
+ * code-server needs (not needed once it is in the cache); `browser`: Chromium for the UI tests.
+ */
+export function missingPrerequisites({
+  install = installedVersion() !== CODE_SERVER_VERSION,
+  browser = true,
+} = {}) {
   const missing = [];
   const debian = existsSync('/etc/debian_version');
   if (!debian)
@@ -45,10 +51,12 @@ export function missingPrerequisites() {
       `Node.js 20 (this is ${process.versions.node}; code-server ${CODE_SERVER_VERSION} is built for 20)`,
     );
   const apt = [];
-  if (!existsSync('/usr/bin/rg')) apt.push('ripgrep');
-  if (!existsSync('/usr/bin/chromium')) apt.push('chromium', 'fonts-liberation');
-  if (!existsSync('/usr/include/krb5.h') && !existsSync('/usr/include/krb5/krb5.h')) apt.push('libkrb5-dev');
-  if (!existsSync('/usr/bin/pkg-config') && !existsSync('/usr/bin/pkgconf')) apt.push('pkg-config');
+  if (install && !existsSync('/usr/bin/rg')) apt.push('ripgrep');
+  if (browser && !existsSync('/usr/bin/chromium')) apt.push('chromium', 'fonts-liberation');
+  if (install && !existsSync('/usr/include/krb5.h') && !existsSync('/usr/include/krb5/krb5.h'))
+    apt.push('libkrb5-dev');
+  if (install && !existsSync('/usr/bin/pkg-config') && !existsSync('/usr/bin/pkgconf'))
+    apt.push('pkg-config');
   if (apt.length > 0) {
     const root = typeof process.getuid === 'function' && process.getuid() === 0;
     missing.push(
@@ -73,7 +81,7 @@ export function installedVersion() {
  */
 export function installEditor({ log = (s) => console.log(s) } = {}) {
   if (installedVersion() === CODE_SERVER_VERSION) return { reused: true };
-  const missing = missingPrerequisites();
+  const missing = missingPrerequisites({ install: true, browser: false });
   if (missing.length > 0) {
     throw new Error(
       `Cannot install the editor for tests and the demo. Missing:\n  - ${missing.join('\n  - ')}`,
@@ -174,10 +182,7 @@ export async function startEditor({
   const extDir = extensionsDir ?? join(base, 'extensions');
   mkdirSync(join(userData, 'User'), { recursive: true });
   mkdirSync(extDir, { recursive: true });
-  writeFileSync(
-    join(userData, 'User', 'settings.json'),
-    JSON.stringify({ ...QUIET_SETTINGS, ...settings }, null, 2) + '\n',
-  );
+  writeSettings(join(userData, 'User', 'settings.json'), { ...QUIET_SETTINGS, ...settings });
   const port = await freePort();
   const args = [
     codeServerBin,
@@ -263,6 +268,25 @@ export async function startEditor({
     );
   }
   return editor;
+}
+
+/**
+ * Writes the quiet defaults under whatever the user has set in this profile: their own values win, and a
+ * file that cannot be read as plain JSON (comments, say) is left exactly as they wrote it.
+ */
+function writeSettings(file, defaults) {
+  let current = {};
+  if (existsSync(file)) {
+    try {
+      current = JSON.parse(readFileSync(file, 'utf8'));
+    } catch {
+      return;
+    }
+    if (!current || typeof current !== 'object' || Array.isArray(current)) return;
+  }
+  const merged = { ...defaults, ...current };
+  if (existsSync(file) && JSON.stringify(merged) === JSON.stringify(current)) return;
+  writeFileSync(file, JSON.stringify(merged, null, 2) + '\n');
 }
 
 export function remoteUri(port, absPath) {

@@ -4,7 +4,14 @@
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { editorDir, installEditor, installVsix, root, startEditor } from '../../scripts/editor.mjs';
+import {
+  editorDir,
+  installEditor,
+  installVsix,
+  missingPrerequisites,
+  root,
+  startEditor,
+} from '../../scripts/editor.mjs';
 import { launchBrowser, openWorkbench, poll, screenshot } from './lib/browser.mjs';
 import { expectationsFor, scratchWorkspace, suiteFiles } from './lib/prepare.mjs';
 import { Tally } from './lib/tally.mjs';
@@ -63,6 +70,11 @@ async function main() {
   } else console.log('  dist/ is newer than the sources; not rebuilt');
 
   step('editor install');
+  const ready = await tally.check('the machine has what the editor tests need', async () => {
+    const missing = missingPrerequisites();
+    if (missing.length > 0) throw new Error(`Missing:\n  - ${missing.join('\n  - ')}`);
+  });
+  if (!ready) return;
   const installed = await tally.check(
     'code-server is installed (or reused from .cache/editor)',
     async () => installEditor({ log: (s) => console.log(`  ${s}`) }),
