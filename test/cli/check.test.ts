@@ -223,6 +223,13 @@ describe('text output', () => {
       const none = cli(['check', join(FIXTURES, 'marginal.ampnote')], dir.path);
       expect(none.status).toBe(1);
       expect(readdirSync(dir.path)).toEqual(['out.sarif']);
+      // An output path naming an input is refused, and the design file is left as it was.
+      writeFileSync(join(dir.path, 'mine.ampnote'), text('marginal.ampnote'));
+      const clash = cli(['check', '.', '--format', 'json', '-o', 'mine.ampnote'], dir.path);
+      expect(clash.status).toBe(2);
+      expect(clash.stderr).toContain('refusing to write mine.ampnote: it is one of the inputs');
+      expect(readFileSync(join(dir.path, 'mine.ampnote'), 'utf8')).toBe(text('marginal.ampnote'));
+      expect(readdirSync(dir.path).sort()).toEqual(['mine.ampnote', 'out.sarif']);
     } finally {
       dir.remove();
     }

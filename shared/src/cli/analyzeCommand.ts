@@ -76,7 +76,7 @@ export function runAnalyze(cmd: AnalyzeCommand, ctx: CliContext): number {
       ) + '\n'
     : fileLevelText(path, report) + formatAnalyzeText(path, report, designs);
   if (cmd.output !== undefined) {
-    const error = writeOutput(ctx.cwd, cmd.output, body);
+    const error = writeOutput(ctx.cwd, cmd.output, body, [cmd.file]);
     if (error) {
       warn(ctx.streams, `ampnote: ${error}`);
       return EXIT_USAGE;

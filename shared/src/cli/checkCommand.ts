@@ -87,7 +87,7 @@ export function runCheck(cmd: CheckCommand, ctx: CliContext): number {
       break;
   }
   if (cmd.output !== undefined) {
-    const error = writeOutput(ctx.cwd, cmd.output, body);
+    const error = writeOutput(ctx.cwd, cmd.output, body, discovery.files);
     if (error) {
       warn(ctx.streams, `ampnote: ${error}`);
       return EXIT_USAGE;

@@ -1,5 +1,5 @@
 // The CLI's edge: reading inputs, writing outputs, messages on stderr. Everything else is pure.
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync, statSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { describeFsError } from './discover';
 
@@ -16,13 +16,36 @@ export function readText(path: string): ReadResult {
   }
 }
 
-/** Writes the requested output file (its folder must exist: nothing else is created); an error message on failure. */
-export function writeOutput(cwd: string, path: string, text: string): string | undefined {
+/**
+ * Writes the requested output file (its folder must exist: nothing else is created); an error message on
+ * failure. An output path that names one of the inputs is refused: a slip in `-o` must not overwrite a
+ * design file.
+ */
+export function writeOutput(
+  cwd: string,
+  path: string,
+  text: string,
+  inputs: readonly string[],
+): string | undefined {
+  const target = resolve(cwd, path);
+  if (inputs.some((i) => sameFile(resolve(cwd, i), target)))
+    return `refusing to write ${path}: it is one of the inputs`;
   try {
-    writeFileSync(resolve(cwd, path), text, 'utf8');
+    writeFileSync(target, text, 'utf8');
     return undefined;
   } catch (err) {
     return `cannot write ${path}: ${describeFsError(err)}`;
+  }
+}
+
+/** Same path, or the same file reached through another name (a link). */
+function sameFile(a: string, b: string): boolean {
+  if (a === b) return true;
+  try {
+    const [x, y] = [statSync(a), statSync(b)];
+    return x.dev === y.dev && x.ino === y.ino;
+  } catch {
+    return false;
   }
 }
 

@@ -57,7 +57,7 @@ export function runReport(cmd: ReportCommand, ctx: CliContext): number {
     fileFindings: report.findings.filter((f) => f.design === undefined),
     chartsScript: bundle.text,
   });
-  const error = writeOutput(ctx.cwd, cmd.output, html);
+  const error = writeOutput(ctx.cwd, cmd.output, html, [cmd.file]);
   if (error) {
     warn(ctx.streams, `ampnote: ${error}`);
     return EXIT_USAGE;
