@@ -50,25 +50,34 @@ function opensDesign(text: string, at: number): boolean {
 }
 
 /** A deep copy of `value` with every position's line moved by `delta` (shared objects stay shared). */
-export function shiftLines<T>(value: T, delta: number, memo = new Map<object, unknown>()): T {
-  if (delta === 0 || value === null || typeof value !== 'object') return value;
-  const seen = memo.get(value as object);
-  if (seen) return seen as T;
+export function shiftLines<T>(value: T, delta: number): T {
+  return delta === 0 ? value : (shift(value, delta, new Map()) as T);
+}
+
+function shift(value: unknown, delta: number, memo: Map<object, unknown>): unknown {
+  if (value === null || typeof value !== 'object') return value;
   if (Array.isArray(value)) {
-    const out: unknown[] = [];
-    memo.set(value, out);
-    for (const x of value) out.push(shiftLines(x, delta, memo));
-    return out as T;
+    const out = new Array<unknown>(value.length);
+    for (let i = 0; i < value.length; i++) out[i] = shift(value[i], delta, memo);
+    return out;
   }
   const src = value as Record<string, unknown>;
+  // Positions and ranges are the bulk of the data and never shared in a way that matters: copy directly.
+  if (typeof src['line'] === 'number' && typeof src['character'] === 'number' && Object.keys(src).length === 2)
+    return { line: (src['line'] as number) + delta, character: src['character'] };
+  const start = src['start'] as Record<string, unknown> | undefined;
+  const end = src['end'] as Record<string, unknown> | undefined;
+  if (start && end && typeof start['line'] === 'number' && typeof end['line'] === 'number' && Object.keys(src).length === 2)
+    return {
+      start: { line: (start['line'] as number) + delta, character: start['character'] },
+      end: { line: (end['line'] as number) + delta, character: end['character'] },
+    };
+  const seen = memo.get(src);
+  if (seen) return seen;
   const out: Record<string, unknown> = {};
-  memo.set(value as object, out);
-  const isPosition = typeof src['line'] === 'number' && typeof src['character'] === 'number';
-  for (const key of Object.keys(src)) {
-    out[key] =
-      isPosition && key === 'line' ? (src[key] as number) + delta : shiftLines(src[key], delta, memo);
-  }
-  return out as T;
+  memo.set(src, out);
+  for (const key in src) out[key] = shift(src[key], delta, memo);
+  return out;
 }
 
 export interface ParseCache {

@@ -9,10 +9,15 @@ import type { CornerRun, DesignReport } from '../../../shared/src/report';
 export const sortedByHz = <T extends { hz: number }>(xs: readonly T[]): T[] =>
   [...xs].sort((a, b) => a.hz - b.hz);
 
+const isComplex = (p: Pole) => Math.abs(p.s.im) > 1e-9 * Math.hypot(p.s.re, p.s.im);
+
+/** A complex pair is shown once: its upper member stands for both. */
+export const shownPoles = (poles: readonly Pole[]): Pole[] =>
+  sortedByHz(poles.filter((p) => !isComplex(p) || p.s.im > 0));
+
 export function poleText(p: Pole): string {
-  const complex = Math.abs(p.s.im) > 1e-9 * Math.abs(p.s.re || 1);
   const unstable = p.s.re > 0;
-  return `${formatHz(p.hz)}${complex ? ` (ζ = ${p.damping.toFixed(2)})` : ''}${unstable ? ' (unstable)' : ''}`;
+  return `${formatHz(p.hz)}${isComplex(p) ? ` (pair, ζ = ${p.damping.toFixed(2)})` : ''}${unstable ? ' (unstable)' : ''}`;
 }
 
 export function zeroText(z: Zero): string {
@@ -26,7 +31,7 @@ export function polesOf(
   nodes: readonly string[],
 ): { pole: Pole; shares: string }[] {
   const out: { pole: Pole; shares: string }[] = [];
-  for (const pole of sortedByHz(analysis.poles)) {
+  for (const pole of shownPoles(analysis.poles)) {
     const mine = pole.participation.filter((x) => nodes.includes(x.node) && x.share >= 0.01);
     if (!mine.length) continue;
     const others = pole.participation.filter((x) => !nodes.includes(x.node) && x.share >= 0.01);

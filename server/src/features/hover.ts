@@ -142,6 +142,28 @@ function body(design: DesignReport, target: Target): string[] | undefined {
       }
       return lines;
     }
+    case 'design': {
+      const lines = [`**design ${design.source.name}**`];
+      if (!run) return [...lines, 'Not analysed: see the errors in this design.'];
+      const loop = run.analysis.loop;
+      lines.push(
+        `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, phase margin ${loop.phaseMarginDeg !== undefined ? `${loop.phaseMarginDeg.toFixed(1)}°` : '—'}, ` +
+          `gain margin ${loop.gainMarginDb !== undefined ? `${loop.gainMarginDb.toFixed(1)} dB` : '—'}, DC gain ${(20 * Math.log10(Math.abs(run.analysis.dcGain))).toFixed(1)} dB`,
+      );
+      const w = design.worst;
+      if (design.runs.length > 1) {
+        const parts = [
+          w.phaseMarginDeg ? `PM ${w.phaseMarginDeg.value.toFixed(1)}° (${w.phaseMarginDeg.corner})` : '',
+          w.ugfHz ? `UGF ${formatSi(w.ugfHz.value, 'Hz')} (${w.ugfHz.corner})` : '',
+        ].filter(Boolean);
+        if (parts.length) lines.push(`Worst over ${design.runs.length} runs: ${parts.join(', ')}`);
+      }
+      const counts = ['error', 'warning', 'info'].map(
+        (sev) => [sev, design.findings.filter((f) => f.severity === sev).length] as const,
+      );
+      lines.push(counts.map(([sev, n]) => `${n} ${sev}${n === 1 ? '' : 's'}`).join(', '));
+      return lines;
+    }
     case 'symbol': {
       const s = target.symbol;
       if (s.kind === 'node')

@@ -4,7 +4,7 @@ import { InlayHintKind, type InlayHint, type Range } from 'vscode-languageserver
 import type { TextDocument } from 'vscode-languageserver-textdocument';
 import type { DocumentReport } from '../../../shared/src/report';
 import { rangesMeet } from '../convert';
-import { nominal, poleText, requirementAcrossRuns, sortedByHz, zeroText } from './describe';
+import { nominal, poleText, requirementAcrossRuns, shownPoles, sortedByHz, zeroText } from './describe';
 
 function endOfLine(document: TextDocument, line: number) {
   const text = document.getText({ start: { line, character: 0 }, end: { line: line + 1, character: 0 } });
@@ -29,13 +29,13 @@ export function inlayHints(report: DocumentReport, document: TextDocument, range
     const comps = [...model.millers, ...model.buffered];
     for (const c of comps) {
       if (!rangesMeet(c.origin.range, range)) continue;
-      const poles = sortedByHz(a.poles).map(poleText).join(', ');
+      const poles = shownPoles(a.poles).map(poleText).join(', ');
       const zeros = sortedByHz(a.zeros).map(zeroText).join(', ');
       add(c.origin.range.end.line, `poles ${poles || 'none'} · zeros ${zeros || 'none'}`);
     }
     for (const s of model.stages) {
       if (!rangesMeet(s.origin.range, range)) continue;
-      const named = a.poles.filter((p) => p.namedAfter === s.name);
+      const named = shownPoles(a.poles).filter((p) => p.namedAfter === s.name);
       if (named.length) add(s.origin.range.end.line, `pole ${named.map(poleText).join(', ')}`);
     }
     for (const req of model.requirements) {
@@ -45,7 +45,7 @@ export function inlayHints(report: DocumentReport, document: TextDocument, range
       if (!m) continue;
       const worst =
         r.runs.length > 1 && r.worst && r.worst.corner !== 'nominal'
-          ? ` · worst ${r.worst.corner}: ${r.worst.m.measured}`
+          ? ` · worst ${r.worst.corner}: ${r.worst.m.measured} ${r.worst.m.pass ? '✓' : '✗'}`
           : '';
       add(req.origin.range.end.line, `${m.measured} ${m.pass ? '✓' : '✗'}${worst}`);
     }

@@ -33,7 +33,8 @@ export type Target =
   | { readonly kind: 'load'; readonly item: Load; readonly range: SourceRange }
   | { readonly kind: 'element'; readonly item: Element; readonly range: SourceRange }
   | { readonly kind: 'requirement'; readonly item: Requirement; readonly range: SourceRange }
-  | { readonly kind: 'param'; readonly item: Param; readonly range: SourceRange };
+  | { readonly kind: 'param'; readonly item: Param; readonly range: SourceRange }
+  | { readonly kind: 'design'; readonly range: SourceRange };
 
 /** The symbol (declaration or reference) at `position`. */
 export function symbolAt(
@@ -100,6 +101,12 @@ export function targetAt(design: DesignReport, position: SourcePosition): Target
       if (item) return { kind: 'param', item, range: sym.range };
     }
   }
-  if (sym && sym.symbol.kind !== 'design') return { kind: 'symbol', symbol: sym.symbol, range: sym.range };
-  return model ? statementAt(model, position) : undefined;
+  if (sym?.symbol.kind === 'design') return { kind: 'design', range: sym.range };
+  if (sym) return { kind: 'symbol', symbol: sym.symbol, range: sym.range };
+  const inModel = model ? statementAt(model, position) : undefined;
+  if (inModel) return inModel;
+  // A corner line outside its name: the corner itself.
+  const corner = design.source.corners.find((c) => contains(c.origin.range, position));
+  const symbol = corner && design.source.symbols.find((s) => s.kind === 'corner' && s.name === corner.name);
+  return symbol && corner ? { kind: 'symbol', symbol, range: corner.origin.range } : undefined;
 }

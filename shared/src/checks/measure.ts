@@ -20,6 +20,7 @@ export interface Measurement {
 
 const perMicro = (rate: number) => `${+(rate / 1e6).toPrecision(3)} V/µs`;
 const signed = (x: number, text: string) => `${x >= 0 ? '+' : '−'}${text}`;
+const OP = { '>=': '≥', '<=': '≤' } as const;
 
 export function measure(req: Requirement, a: DesignAnalysis): Measurement {
   switch (req.kind) {
@@ -28,7 +29,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       return {
         label: 'unity-gain frequency',
         measured: v === undefined ? 'loop gain never reaches 0 dB' : formatHz(v),
-        required: `${req.op} ${formatHz(req.value)}`,
+        required: `${OP[req.op]} ${formatHz(req.value)}`,
         pass: v !== undefined && !violates(req.op, v, req.value),
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, formatHz(Math.abs(v - req.value))) }
@@ -40,7 +41,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       return {
         label: 'phase margin',
         measured: v === undefined ? 'no unity crossing' : formatDeg(v),
-        required: `${req.op} ${formatDeg(req.value)}`,
+        required: `${OP[req.op]} ${formatDeg(req.value)}`,
         pass: v !== undefined && !violates(req.op, v, req.value),
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, formatDeg(Math.abs(v - req.value))) }
@@ -52,7 +53,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       return {
         label: 'gain margin',
         measured: v === undefined ? 'phase never reaches −180° (unbounded)' : formatDb(v),
-        required: `${req.op} ${formatDb(req.value)}`,
+        required: `${OP[req.op]} ${formatDb(req.value)}`,
         pass: v === undefined ? req.op === '>=' : !violates(req.op, v, req.value),
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, formatDb(Math.abs(v - req.value))) }
@@ -80,7 +81,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       return {
         label: 'slew rate',
         measured: v === undefined ? 'no stage states its bias' : perMicro(v),
-        required: `${req.op} ${perMicro(req.value)}`,
+        required: `${OP[req.op]} ${perMicro(req.value)}`,
         pass: v !== undefined && !violates(req.op, v, req.value),
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, perMicro(Math.abs(v - req.value))) }
@@ -105,7 +106,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       return {
         label: 'open-loop DC gain',
         measured: formatDb(v),
-        required: `${req.op} ${formatDb(req.value)}`,
+        required: `${OP[req.op]} ${formatDb(req.value)}`,
         pass: !violates(req.op, v, req.value),
         value: v,
         margin: signed(v - req.value, formatDb(Math.abs(v - req.value))),
