@@ -1,0 +1,175 @@
+// The server's feature functions in process, on designs written inline with a `|` cursor marker.
+import { describe, expect, it } from 'vitest';
+import { TextDocument } from 'vscode-languageserver-textdocument';
+import { analyzeDesign } from '../../shared/src/analysis';
+import { formatHz } from '../../shared/src/format/si';
+import { analyzeDocument } from '../../shared/src/service';
+import { codeActions } from '../../server/src/features/codeActions';
+import { codeLenses } from '../../server/src/features/codeLens';
+import { completion } from '../../server/src/features/completion';
+import { definition } from '../../server/src/features/definition';
+import { hover } from '../../server/src/features/hover';
+import { inlayHints } from '../../server/src/features/inlayHints';
+import { prepareRename, rename } from '../../server/src/features/rename';
+import { documentSymbols } from '../../server/src/features/symbols';
+
+/** Split `text` at its `|` marker: the text without it and the marker's position. */
+function cursor(marked: string) {
+  const at = marked.indexOf('|');
+  const text = marked.slice(0, at) + marked.slice(at + 1);
+  const before = text.slice(0, at).split('\n');
+  const position = { line: before.length - 1, character: before[before.length - 1]!.length };
+  return {
+    text,
+    position,
+    report: analyzeDocument(text),
+    document: TextDocument.create('file:///t.ampnote', 'ampnote', 1, text),
+  };
+}
+
+// An invented two-stage design (demo values).
+const DESIGN = (body: string) => `design demo
+  param gm1 = 120 uS
+  stage first   gm = gm1     rout = 1.5 Mohm  cap = 100 fF
+  stage second  gm = 1.5 mS  rout = 150 kohm  cap = 250 fF  inverting
+  load cap = 2 pF
+  miller first -> second  cc = 1.2 pF   # compensation
+  require pm >= 60 deg
+  require ugf >= 5 MHz
+${body}end
+`;
+
+const hoverText = (marked: string) => {
+  const c = cursor(marked);
+  const h = hover(c.report, c.position);
+  return { ...c, value: h ? (h.contents as { value: string }).value : '' };
+};
+
+describe('hover', () => {
+  it('a stage: its values and the poles it takes part in, with shares', () => {
+    const { value, report } = hoverText(DESIGN('').replace('stage second', 'stage sec|ond'));
+    expect(value).toContain('**stage second** (inverting, input first)');
+    expect(value).toContain('gm = 1.5 mS, rout = 150 kohm, cap = 250 fF');
+    const poles = analyzeDesign(report.designs[0]!.source.nominal!).poles;
+    const second = poles.filter((p) => p.participation.some((x) => x.node === 'second' && x.share >= 0.01));
+    expect(second.length).toBeGreaterThan(0);
+    for (const p of second) expect(value).toContain(formatHz(p.hz));
+    expect(value).toMatch(/second \d+ %/);
+    expect(value).toContain('Hand estimate vs exact');
+  });
+
+  it('a parameter from one of its uses', () => {
+    const { value } = hoverText(DESIGN('').replace('gm = gm1 ', 'gm = g|m1 '));
+    expect(value).toContain('**param gm1** = 120 uS');
+    expect(value).toContain('Used 1 time.');
+  });
+
+  it('a requirement: measured, required, pass or fail', () => {
+    const { value, report } = hoverText(DESIGN('').replace('require pm', 'req|uire pm'));
+    const pm = report.designs[0]!.runs[0]!.analysis.loop.phaseMarginDeg!;
+    expect(value).toContain('**requirement: phase margin** ≥ 60.0°');
+    expect(value).toContain(`Measured: ${pm.toFixed(1)}° — ${pm >= 60 ? 'pass' : 'FAIL'}`);
+  });
+
+  it('nothing on a blank line or outside any design', () => {
+    expect(hoverText(DESIGN('\n|\n')).value).toBe('');
+    expect(hoverText('# notes|\n' + DESIGN('')).value).toBe('');
+  });
+});
+
+describe('completion', () => {
+  const labels = (marked: string) => {
+    const c = cursor(marked);
+    return completion(c.report, c.document, c.position).map((i) => i.label);
+  };
+  it('statement keywords at the start of a line', () => {
+    expect(labels(DESIGN('  |\n'))).toEqual(
+      expect.arrayContaining(['stage', 'miller', 'require', 'corner', 'end']),
+    );
+  });
+  it('requirement kinds after `require`', () => {
+    expect(labels(DESIGN('  require |\n'))).toEqual(
+      expect.arrayContaining(['ugf', 'pm', 'gainmargin', 'slew', 'settle']),
+    );
+  });
+  it('units after a number', () => {
+    expect(labels(DESIGN('').replace('cc = 1.2 pF', 'cc = 1.2 |'))).toEqual(
+      expect.arrayContaining(['pF', 'fF', 'nF']),
+    );
+  });
+  it('fields not yet written and names in scope inside a statement', () => {
+    const got = labels(DESIGN('').replace('cc = 1.2 pF', 'cc = 1.2 pF |'));
+    expect(got).toContain('rz');
+    expect(got).not.toContain('cc');
+    expect(got).toEqual(expect.arrayContaining(['gm1', 'first', 'second']));
+  });
+});
+
+describe('names', () => {
+  it('goes to the declaration and renames every use', () => {
+    const c = cursor(DESIGN('').replace('gm = gm1 ', 'gm = gm|1 '));
+    const def = definition(c.report, 'u', c.position)!;
+    expect(def.range.start).toEqual({ line: 1, character: 8 });
+    expect(prepareRename(c.report, c.position)!.placeholder).toBe('gm1');
+    const edit = rename(c.report, 'u', c.position, 'gm_a')!;
+    expect(edit.changes!['u']!.map((e) => e.range.start.line).sort()).toEqual([1, 2]);
+    expect(() => rename(c.report, 'u', c.position, '2x')).toThrow(/not a name/);
+    expect(() => rename(c.report, 'u', c.position, 'stage')).toThrow(/word of the language/);
+  });
+  it('refuses to rename a keyword', () => {
+    const c = cursor(DESIGN('').replace('miller first', 'mil|ler first'));
+    expect(prepareRename(c.report, c.position)).toBeNull();
+  });
+  it('lists the outline', () => {
+    const c = cursor(DESIGN('') + '|');
+    const [d] = documentSymbols(c.report);
+    expect(d!.name).toBe('demo');
+    expect(d!.children!.map((x) => x.name)).toEqual(['gm1', 'first', 'second', 'require pm', 'require ugf']);
+  });
+});
+
+describe('inline values, lenses and actions', () => {
+  it('shows pass or fail after each requirement and the roots after the compensation', () => {
+    const c = cursor(DESIGN('') + '|');
+    const hints = inlayHints(c.report, c.document, {
+      start: { line: 0, character: 0 },
+      end: { line: 99, character: 0 },
+    });
+    const byLine = new Map(hints.map((h) => [h.position.line, String(h.label)]));
+    const loop = c.report.designs[0]!.runs[0]!.analysis.loop;
+    expect(byLine.get(6)).toContain(
+      `${loop.phaseMarginDeg!.toFixed(1)}° ${loop.phaseMarginDeg! >= 60 ? '✓' : '✗'}`,
+    );
+    expect(byLine.get(7)).toContain(`${formatHz(loop.ugfHz!)} ${loop.ugfHz! >= 5e6 ? '✓' : '✗'}`);
+    expect(byLine.get(5)).toMatch(/^ {2}poles .* · zeros .*RHP/);
+    // The hint goes after the comment, at the end of the line.
+    expect(hints.find((h) => h.position.line === 5)!.position.character).toBe(c.text.split('\n')[5]!.length);
+  });
+  it('puts the summary and the panel lens above the design', () => {
+    const c = cursor(DESIGN('') + '|');
+    const lenses = codeLenses(c.report, 'u');
+    expect(lenses.map((l) => l.range.start.line)).toEqual([0, 0]);
+    expect(lenses[1]!.command).toEqual({
+      title: 'show pole split',
+      command: 'ampnote.showPanel',
+      arguments: [{ uri: 'u', design: 'demo' }],
+    });
+  });
+  it('offers the fixes of the findings the range touches, and only those', () => {
+    const c = cursor(DESIGN('').replace('gm = 1.5 mS', 'gm = 600 uS') + '|');
+    const finding = c.report.findings.find((f) => f.code === 'gm-ratio')!;
+    const at = codeActions(c.report, {
+      textDocument: { uri: 'u' },
+      range: finding.range,
+      context: { diagnostics: [] },
+    });
+    expect(at.length).toBeGreaterThan(0);
+    expect(at.every((a) => a.kind === 'quickfix' && a.edit?.changes?.['u']?.length)).toBe(true);
+    const none = codeActions(c.report, {
+      textDocument: { uri: 'u' },
+      range: { start: { line: 4, character: 0 }, end: { line: 4, character: 1 } },
+      context: { diagnostics: [] },
+    });
+    expect(none).toEqual([]);
+  });
+});
