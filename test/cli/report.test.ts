@@ -162,6 +162,37 @@ describe('ampnote report', () => {
     }
   });
 
+  it('draws every design of a file with several, and gives the reason where a network cannot be solved', async () => {
+    const many = await openReport(join(FIXTURES, 'broken.ampnote'), 'several');
+    try {
+      const drawn = await many.page.evaluate(() =>
+        (window as any).ampnoteReport.drawn.map((d: any) => d.design),
+      );
+      expect(drawn).toEqual(['half_written', 'intact']);
+      const ids = await many.page.$$eval('canvas', (els) => els.map((e) => e.id));
+      expect(ids).toEqual([0, 1].flatMap((i) => CHARTS.map((c) => `chart-${c}-${i}`)));
+      for (const id of ids)
+        await expect.poll(() => inkedPixels(many.page, `#${id}`), { timeout: 10_000 }).toBeGreaterThan(2000);
+      expect(await many.page.$$eval('.contents a', (els) => els.map((e) => e.textContent))).toEqual([
+        'half_written',
+        'intact',
+      ]);
+      expect(many.requests).toEqual([many.url]);
+    } finally {
+      await many.page.close();
+    }
+    const none = await openReport(join(FIXTURES, 'unsolvable.ampnote'), 'unsolvable');
+    try {
+      expect(await none.page.locator('canvas').count()).toBe(0);
+      const problems = await none.page.$$eval('.problem', (els) => els.map((e) => e.textContent));
+      expect(problems.some((p) => p?.includes("node 'x' has no DC path"))).toBe(true);
+      expect(await none.page.textContent('.where')).toContain('not evaluated: corner typo');
+      expect(none.errors).toEqual([]);
+    } finally {
+      await none.page.close();
+    }
+  });
+
   it('writes what the user typed as text, never as markup', async () => {
     const file = join(dir.path, 'markup.ampnote');
     writeFileSync(

@@ -7,7 +7,7 @@ import { formatDb, formatDeg, formatHz, formatSi, roundSignificant } from '../fo
 import { CAUTION, type PanelData } from '../protocol/panelData';
 import type { DesignAnalysis } from '../analysis/types';
 import type { CornerRun, DesignReport, Worst } from '../report';
-import { dbOf, errorText, radText, rootText, slewText } from './display';
+import { dbOf, dbText, errorText, radText, rootText, slewText } from './display';
 import { sortedFindings } from './run';
 
 export interface ReportDesign {
@@ -169,7 +169,7 @@ function designSection(d: ReportDesign, index: number): string {
   parts.push(
     `<section class="design" id="design-${index}" data-design-index="${index}">`,
     `<h2><span class="label">design</span> ${escapeHtml(r.source.name)}</h2>`,
-    `<p class="where">line ${r.source.range.start.line + 1}${r.runs.length > 1 ? ` · nominal and ${plural(r.runs.length - 1, 'corner')}` : ''}</p>`,
+    `<p class="where">${whereLine(r)}</p>`,
   );
   if (!nominal) {
     parts.push(
@@ -179,13 +179,16 @@ function designSection(d: ReportDesign, index: number): string {
     );
     return parts.join('\n');
   }
+  const solved = r.runs.filter((run) => run.analysis.problems.length === 0);
   if (nominal.analysis.problems.length === 0) parts.push(keyValues(nominal.analysis, r));
-  parts.push(cornerTable(r.runs));
+  // A table of nothing but "not solved" says less than the reason, which the roots section gives.
+  if (solved.length > 0) parts.push(cornerTable(r.runs));
+  else parts.push(rootsTable(nominal));
   parts.push(
     `<h3>Findings</h3>`,
     d.findings.length > 0 ? findingsList(d.findings) : `<p class="none">No findings.</p>`,
   );
-  parts.push(rootsTable(nominal), handTable(nominal.analysis));
+  if (solved.length > 0) parts.push(rootsTable(nominal), handTable(nominal.analysis));
   parts.push(`<h3>Charts <span class="sub">nominal</span></h3>`);
   if (!d.panel) parts.push(`<p class="problem">No chart data for this design.</p>`);
   else if (d.panel.problems.length > 0) {
@@ -205,6 +208,19 @@ function designSection(d: ReportDesign, index: number): string {
   return parts.join('\n');
 }
 
+/** Where the design is, which corners were analysed, and which could not be evaluated. */
+function whereLine(r: DesignReport): string {
+  const parts = [`line ${r.source.range.start.line + 1}`];
+  if (r.runs.length > 1) parts.push(`nominal and ${plural(r.runs.length - 1, 'corner')}`);
+  const skipped = r.source.corners
+    .filter((c) => !r.runs.some((run) => run.corner === c.name))
+    .map((c) => c.name);
+  if (skipped.length > 0) {
+    parts.push(`not evaluated: corner${skipped.length > 1 ? 's' : ''} ${skipped.map(escapeHtml).join(', ')}`);
+  }
+  return parts.join(' · ');
+}
+
 function keyValues(a: DesignAnalysis, r: DesignReport): string {
   const worst = (w: Worst | undefined, show: (v: number) => string) =>
     w && r.runs.length > 1
@@ -214,7 +230,7 @@ function keyValues(a: DesignAnalysis, r: DesignReport): string {
     ['Unity-gain frequency', opt(a.loop.ugfHz, formatHz), worst(r.worst.ugfHz, formatHz)],
     ['Phase margin', opt(a.loop.phaseMarginDeg, formatDeg), worst(r.worst.phaseMarginDeg, formatDeg)],
     ['Gain margin', opt(a.loop.gainMarginDb, formatDb), worst(r.worst.gainMarginDb, formatDb)],
-    ['Open-loop DC gain', formatDb(dbOf(a.dcGain)), worst(r.worst.dcGainDb, formatDb)],
+    ['Open-loop DC gain', dbText(dbOf(a.dcGain)), worst(r.worst.dcGainDb, dbText)],
     ['Slew rate', opt(a.slew?.rate, slewText), worst(r.worst.slew, slewText)],
     [
       a.step ? `Settling to ±${roundSignificant(a.step.tolerance * 100)} %` : 'Settling',
@@ -240,7 +256,7 @@ function cornerTable(runs: readonly CornerRun[]): string {
           : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'} ${formatHz(c.hz)}`).join(', '),
     ],
     ['closed-loop peaking', (a) => formatDb(a.loop.peakingDb)],
-    ['open-loop DC gain', (a) => formatDb(dbOf(a.dcGain))],
+    ['open-loop DC gain', (a) => dbText(dbOf(a.dcGain))],
     ['open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)],
     ['slew rate', (a) => opt(a.slew?.rate, slewText)],
     ['settling', (a) => (a.step ? opt(a.step.settlingTime, (t) => formatSi(t, 's')) : '—')],
