@@ -8,8 +8,6 @@ import {
   solveGmForZero,
   solveRzForZeroAtInfinity,
   solveRzToCancelPole,
-  withStageGm,
-  withValue,
 } from './analysis';
 import type { CancelToken } from './analysis/types';
 import type { CheckEngine } from './checks/context';
@@ -28,8 +26,6 @@ import type { CornerRun, DesignReport, DocumentReport } from './report';
 export const ENGINE: CheckEngine = {
   // Fix re-checks read poles, zeros and loop margins only: no step response, no participation.
   analyze: (model) => analyzeDesign(model, { step: false, participation: false }),
-  withValue,
-  withStageGm,
   solveCcForPhaseMargin,
   solveCcForNondominantPole,
   solveRzForZeroAtInfinity,

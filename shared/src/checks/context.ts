@@ -13,13 +13,12 @@ export interface CompensationTarget {
 }
 
 /**
- * The exact-model operations fixes are solved with. The facade hands in the analysis engine; without one,
- * checks still report findings but offer no fixes (a fix is never estimated by a hand formula).
+ * The exact-model operations fixes are solved and re-checked with. The facade hands in the analysis
+ * engine; without one, checks still report findings but offer no fixes (a fix is never estimated by a
+ * hand formula).
  */
 export interface CheckEngine {
   analyze(model: DesignModel, token?: CancelToken): DesignAnalysis;
-  withValue(model: DesignModel, target: CompensationTarget, value: number): DesignModel;
-  withStageGm(model: DesignModel, stageIndex: number, value: number): DesignModel;
   solveCcForPhaseMargin(model: DesignModel, millerIndex: number, deg: number): SynthesisResult;
   solveCcForNondominantPole(model: DesignModel, millerIndex: number, factor: number): SynthesisResult;
   solveRzForZeroAtInfinity(model: DesignModel, millerIndex: number): SynthesisResult;

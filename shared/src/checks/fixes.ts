@@ -2,7 +2,9 @@
 // every run, and only then turn it into an edit of the one value it names.
 import type { DesignAnalysis, SynthesisResult } from '../analysis/types';
 import { formatSi, roundSignificant } from '../format/si';
+import { parseDocument } from '../language';
 import type { DesignModel, DesignSource, FieldOrigin, Origin } from '../language/model';
+import type { SourcePosition } from '../language/source';
 import type { CornerRun } from '../report';
 import type { CheckEngine, CheckInput } from './context';
 import type { FixSuggestion, TextEditSpec } from './types';
@@ -72,38 +74,93 @@ export interface SolvedFixSpec {
   /** `valueText` is the rounded value as it will be written (`1.23 pF`). */
   readonly title: (valueText: string) => string;
   readonly solve: (engine: CheckEngine) => SynthesisResult;
-  /** The model with the candidate value in place of the one the fix edits. */
-  readonly apply: (engine: CheckEngine, model: DesignModel, value: number) => DesignModel;
-  /** Whether the run meets the rule once the value is in place. */
+  /** Whether a run of the edited design meets the rule; `value` is the rounded value written. */
   readonly meets: (analysis: DesignAnalysis, run: CornerRun, value: number) => boolean;
   readonly prefer: 'up' | 'down' | 'nearest';
   readonly unit: 'F' | 'ohm' | 'S';
+  /** The edits that write `valueText`, located in the nominal design's text. */
   readonly edits: (valueText: string) => readonly TextEditSpec[] | undefined;
   readonly preferred?: boolean;
 }
 
 /**
- * Solve, round, re-check in every analysed run; undefined when no rounded value meets the rule. Runs when a
- * finding's fixes are first read, after the analysis that found it, so it takes no cancellation token.
+ * Solve, round, and re-check: the edits are applied to the design's own text, which is parsed and analysed
+ * again in every corner, so a parameter used elsewhere or a corner that overrides the edited value is
+ * accounted for exactly. Undefined when no rounded value meets the rule everywhere. Runs when a finding's
+ * fixes are first read, after the analysis that found it, so it takes no cancellation token.
  */
 export function solvedFix(input: CheckInput, spec: SolvedFixSpec): FixSuggestion | undefined {
   const engine = input.engine;
   if (!engine) return undefined;
   const solved = spec.solve(engine);
   if (!solved.ok) return undefined;
-  const runs = input.runs.filter((r) => !r.analysis.problems.length);
   for (const candidate of roundedCandidates(solved.value, spec.prefer)) {
-    const ok = runs.every((run) => {
-      const analysis = engine.analyze(spec.apply(engine, run.model, candidate));
-      return !analysis.problems.length && spec.meets(analysis, run, candidate);
-    });
-    if (!ok) continue;
     const text = formatSi(candidate, spec.unit);
     const edits = spec.edits(text);
     if (!edits || !edits.length) return undefined;
+    const runs = rerunEdited(input.source, edits, engine);
+    if (!runs || !runs.every((run) => spec.meets(run.analysis, run, candidate))) continue;
     return { title: spec.title(text), edits, ...(spec.preferred ? { preferred: true } : {}) };
   }
   return undefined;
+}
+
+/** Offsets of each line's start in `text` (line breaks \n, \r\n and \r). */
+function lineStarts(text: string): number[] {
+  const starts = [0];
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === 13 && text.charCodeAt(i + 1) === 10) i++;
+    if (c === 10 || c === 13) starts.push(i + 1);
+  }
+  return starts;
+}
+
+/** The design's text with `edits` (document positions) applied; undefined when an edit lies outside it. */
+export function editDesignText(source: DesignSource, edits: readonly TextEditSpec[]): string | undefined {
+  const starts = lineStarts(source.text);
+  const origin = source.range.start;
+  const offset = (p: SourcePosition): number | undefined => {
+    const line = p.line - origin.line;
+    const start = starts[line];
+    if (line < 0 || start === undefined) return undefined;
+    const at = start + p.character - (line === 0 ? origin.character : 0);
+    return at >= 0 && at <= source.text.length ? at : undefined;
+  };
+  const located = edits.map((e) => ({
+    from: offset(e.range.start),
+    to: offset(e.range.end),
+    text: e.newText,
+  }));
+  if (located.some((e) => e.from === undefined || e.to === undefined || e.to < e.from)) return undefined;
+  let out = source.text;
+  for (const e of [...located].sort((x, y) => y.from! - x.from!))
+    out = out.slice(0, e.from) + e.text + out.slice(e.to);
+  return out;
+}
+
+/** Every run of the edited design, analysed; undefined when it no longer reads cleanly or cannot be solved. */
+export function rerunEdited(
+  source: DesignSource,
+  edits: readonly TextEditSpec[],
+  engine: CheckEngine,
+): CornerRun[] | undefined {
+  const text = editDesignText(source, edits);
+  if (text === undefined) return undefined;
+  const parsed = parseDocument(text);
+  const design = parsed.designs[0];
+  if (
+    parsed.designs.length !== 1 ||
+    !design?.nominal ||
+    parsed.diagnostics.some((d) => d.severity === 'error')
+  )
+    return undefined;
+  const models = [
+    { corner: 'nominal', model: design.nominal },
+    ...design.corners.flatMap((c) => (c.model ? [{ corner: c.name, model: c.model }] : [])),
+  ];
+  const runs = models.map((r) => ({ ...r, analysis: engine.analyze(r.model) }));
+  return runs.every((r) => !r.analysis.problems.length) ? runs : undefined;
 }
 
 export function defined<T>(items: readonly (T | undefined)[]): T[] {

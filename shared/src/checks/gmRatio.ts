@@ -50,17 +50,21 @@ export const gmRatioCheck: Check = (input: CheckInput) =>
 
 function gmRatioFixes(input: CheckInput, worstRun: CornerRun, index: number): FixSuggestion[] {
   const model = worstRun.model;
+  const nominal = input.source.nominal ?? model;
   const miller = model.millers[index];
   const first = miller && stageAt(model, miller.from);
   const second = miller && stageAt(model, miller.to);
   if (!miller || !first || !second) return [];
   const factor = zeroFactor(model, input.settings.rhpZeroFactor);
-  const gmField = second.stage.origin.fields['gm'];
-  const ratioMet = (run: CornerRun, a: DesignAnalysis, gm2: number) => {
+  const gmField = nominal.stages[second.index]?.origin.fields['gm'];
+  // The rule holds in the edited design's run: gm2 ≥ ratio·gm1 there, and no RHP zero below k·UGF.
+  const ratioMet = (run: CornerRun, a: DesignAnalysis) => {
     const f = stageAt(run.model, miller.from);
+    const s2 = stageAt(run.model, miller.to);
     return (
-      f !== undefined &&
-      gm2 >= input.settings.gmRatio * f.stage.gm * (1 - 1e-9) &&
+      !!f &&
+      !!s2 &&
+      s2.stage.gm >= input.settings.gmRatio * f.stage.gm * (1 - 1e-9) &&
       !offendingRhpZero(a, factor)
     );
   };
@@ -75,22 +79,21 @@ function gmRatioFixes(input: CheckInput, worstRun: CornerRun, index: number): Fi
             ? { ...solved, value: Math.max(solved.value, floor) }
             : { ok: true, value: floor, achieved: floor, note: solved.reason };
         },
-        apply: (engine, m, v) => engine.withStageGm(m, second.index, v),
-        meets: (a, run, v) => ratioMet(run, a, v),
+        meets: (a, run) => ratioMet(run, a),
         prefer: 'up',
         unit: 'S',
-        edits: (v) => defined([setValueEdit(model, gmField, v)]),
+        edits: (v) => defined([setValueEdit(nominal, gmField, v)]),
         preferred: true,
       })
     : undefined;
+  const nominalMiller = nominal.millers[index] ?? miller;
   const rz = solvedFix(input, {
     title: (v) => `Add rz = ${v} (moves the zero to infinity)`,
     solve: (engine) => engine.solveRzForZeroAtInfinity(model, index),
-    apply: (engine, m, v) => engine.withValue(m, { kind: 'miller', index, field: 'rz' }, v),
     meets: (a) => !offendingRhpZero(a, factor),
     prefer: 'nearest',
     unit: 'ohm',
-    edits: (v) => defined([setOrInsertField(model, miller.origin, 'rz', v)]),
+    edits: (v) => defined([setOrInsertField(nominal, nominalMiller.origin, 'rz', v)]),
   });
   return defined([raise, rz]);
 }

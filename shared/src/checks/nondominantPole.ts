@@ -62,21 +62,21 @@ export const nondominantPoleCheck: Check = (input: CheckInput) =>
     ({ worstRun }) => {
       const model = worstRun.model;
       const comp = primaryCompensation(model);
-      const ccField = comp?.item.origin.fields['cc'];
+      const nominal = input.source.nominal ?? model;
+      const ccField = comp ? nominal.millers[comp.index]?.origin.fields['cc'] : undefined;
       if (comp?.kind !== 'miller' || !ccField) return [];
       const factor = input.settings.nondominantFactor;
       return defined([
         solvedFix(input, {
           title: (v) => `Set cc = ${v} (smallest Cc with the non-dominant pole at ${factor} × UGF)`,
           solve: (engine) => engine.solveCcForNondominantPole(model, comp.index, factor),
-          apply: (engine, m, v) => engine.withValue(m, { kind: 'miller', index: comp.index, field: 'cc' }, v),
           meets: (a) => {
             const p = firstNondominantPole(a);
             return a.loop.ugfHz !== undefined && (!p || p.hz >= factor * a.loop.ugfHz);
           },
           prefer: 'up',
           unit: 'F',
-          edits: (v) => defined([setValueEdit(model, ccField, v)]),
+          edits: (v) => defined([setValueEdit(nominal, ccField, v)]),
           preferred: true,
         }),
       ]);

@@ -55,13 +55,11 @@ export const phaseMarginCheck: Check = (input: CheckInput) =>
       const fixes: (FixSuggestion | undefined)[] = [];
       if (comp?.kind === 'miller' && requiredPhaseMargin(model, input.settings.phaseMargin).op === '>=') {
         const target = requiredPhaseMargin(model, input.settings.phaseMargin).value;
-        const ccField = comp.item.origin.fields['cc'];
+        const ccField = (input.source.nominal ?? model).millers[comp.index]?.origin.fields['cc'];
         fixes.push(
           solvedFix(input, {
             title: (v) => `Set cc = ${v} for ${formatDeg(target)} phase margin`,
             solve: (engine) => engine.solveCcForPhaseMargin(model, comp.index, target),
-            apply: (engine, m, v) =>
-              engine.withValue(m, { kind: 'miller', index: comp.index, field: 'cc' }, v),
             meets: (a, run) => {
               const need = requiredPhaseMargin(run.model, input.settings.phaseMargin);
               return (
@@ -70,7 +68,8 @@ export const phaseMarginCheck: Check = (input: CheckInput) =>
             },
             prefer: 'up',
             unit: 'F',
-            edits: (v) => defined([ccField ? setValueEdit(model, ccField, v) : undefined]),
+            edits: (v) =>
+              defined([ccField ? setValueEdit(input.source.nominal ?? model, ccField, v) : undefined]),
             preferred: true,
           }),
         );

@@ -4,7 +4,7 @@ import { formatHz, formatSi } from '../format/si';
 import type { DesignModel } from '../language/model';
 import type { CornerRun } from '../report';
 import { acrossRuns, type Hit } from './acrossRuns';
-import type { Check, CheckEngine, CheckInput } from './context';
+import type { Check, CheckInput } from './context';
 import { addRequirementEdit, defined, setOrInsertField, setValueEdit, solvedFix } from './fixes';
 import { requirementOf, stageAt, judgedAsLoop } from './locate';
 import type { FixSuggestion } from './types';
@@ -64,7 +64,7 @@ export const rhpZeroCheck: Check = (input: CheckInput) =>
             'it adds phase lag like a pole while the gain keeps falling' +
             (miller
               ? miller.rz === undefined
-                ? '; with no nulling resistor the zero sits at gm2/Cc'
+                ? '; this Miller capacitor has no nulling resistor (in a two-stage design the zero is gm2/Cc)'
                 : `; rz = ${formatSi(miller.rz, 'ohm')} is below 1/gm2`
               : '; it comes from a feed-forward path of the network'),
           range: miller ? miller.origin.range : input.source.nameRange,
@@ -95,16 +95,14 @@ function rhpZeroFixes(input: CheckInput, worstRun: CornerRun): FixSuggestion[] {
   const meets = (a: DesignAnalysis, run: CornerRun) =>
     a.loop.ugfHz !== undefined && !offendingRhpZero(a, zeroFactor(run.model, input.settings.rhpZeroFactor));
   if (index !== undefined) {
-    const miller = model.millers[index]!;
+    const nominal = input.source.nominal ?? model;
+    const miller = nominal.millers[index] ?? model.millers[index]!;
     const verb = miller.rz === undefined ? 'Add' : 'Set';
-    const rzEdit = (v: string) => defined([setOrInsertField(model, miller.origin, 'rz', v)]);
-    const applyRz = (engine: CheckEngine, m: DesignModel, v: number) =>
-      engine.withValue(m, { kind: 'miller', index, field: 'rz' }, v);
+    const rzEdit = (v: string) => defined([setOrInsertField(nominal, miller.origin, 'rz', v)]);
     fixes.push(
       solvedFix(input, {
         title: (v) => `${verb} rz = ${v} (moves the zero to infinity)`,
         solve: (engine) => engine.solveRzForZeroAtInfinity(model, index),
-        apply: applyRz,
         meets,
         prefer: 'nearest',
         unit: 'ohm',
@@ -114,7 +112,6 @@ function rhpZeroFixes(input: CheckInput, worstRun: CornerRun): FixSuggestion[] {
       solvedFix(input, {
         title: (v) => `${verb} rz = ${v} (left-half-plane zero on the non-dominant pole)`,
         solve: (engine) => engine.solveRzToCancelPole(model, index),
-        apply: applyRz,
         meets,
         prefer: 'nearest',
         unit: 'ohm',
@@ -122,17 +119,16 @@ function rhpZeroFixes(input: CheckInput, worstRun: CornerRun): FixSuggestion[] {
       }),
     );
     const second = stageAt(model, miller.to);
-    const gmField = second?.stage.origin.fields['gm'];
+    const gmField = second ? nominal.stages[second.index]?.origin.fields['gm'] : undefined;
     if (second && gmField) {
       fixes.push(
         solvedFix(input, {
           title: (v) => `Raise gm of stage ${second.stage.name} to ${v} (zero at ${factor} × UGF)`,
           solve: (engine) => engine.solveGmForZero(model, second.index, factor),
-          apply: (engine, m, v) => engine.withStageGm(m, second.index, v),
           meets,
           prefer: 'up',
           unit: 'S',
-          edits: (v) => defined([setValueEdit(model, gmField, v)]),
+          edits: (v) => defined([setValueEdit(nominal, gmField, v)]),
         }),
       );
     }
