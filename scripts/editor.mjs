@@ -23,11 +23,25 @@ const codeServerPkg = join(editorDir, 'node_modules', 'code-server', 'package.js
 
 /** Environment that keeps code-server's and npm's writes inside the cache, never in the home folder. */
 export function editorEnv(extra = {}) {
-  const tmp = join(editorDir, 'tmp');
   const config = join(editorDir, 'xdg', 'config');
   const data = join(editorDir, 'xdg', 'data');
-  for (const d of [tmp, config, data]) mkdirSync(d, { recursive: true });
-  return { ...process.env, TMPDIR: tmp, XDG_CONFIG_HOME: config, XDG_DATA_HOME: data, ...extra };
+  for (const d of [config, data]) mkdirSync(d, { recursive: true });
+  return { ...process.env, XDG_CONFIG_HOME: config, XDG_DATA_HOME: data, ...extra };
+}
+
+/**
+ * The install also gets a TMPDIR of its own, where the search package looks for its download cache.
+ * (The running editor keeps the system's: its IPC socket paths must stay short.)
+ */
+function installEnv() {
+  const tmp = join(editorDir, 'tmp');
+  mkdirSync(tmp, { recursive: true });
+  return editorEnv({
+    TMPDIR: tmp,
+    npm_config_yes: 'true',
+    npm_config_fund: 'false',
+    npm_config_audit: 'false',
+  });
 }
 
 /**
@@ -88,7 +102,7 @@ export function installEditor({ log = (s) => console.log(s) } = {}) {
     );
   }
   mkdirSync(editorDir, { recursive: true });
-  const env = editorEnv({ npm_config_yes: 'true', npm_config_fund: 'false', npm_config_audit: 'false' });
+  const env = installEnv();
   // The search package's postinstall downloads ripgrep; hand it Debian's binary through its own cache.
   const rgCache = join(env.TMPDIR, RIPGREP_CACHE);
   mkdirSync(rgCache, { recursive: true });

@@ -106,7 +106,7 @@ async function main() {
   });
   running.push(editor);
   console.log(`  code-server on ${editor.url}`);
-  const browser = await launchBrowser();
+  const browser = await launchBrowser(join(editorDir, 'xdg', 'browser'));
   running.push({ stop: () => browser.close() });
 
   if (parts.has('host')) {
@@ -214,7 +214,7 @@ async function hostSuite(browser, editor, workspace, suiteEntry, resultsFile, ex
   }
   const results = existsSync(resultsFile) ? JSON.parse(readFileSync(resultsFile, 'utf8')) : [];
   for (const r of results) {
-    if (r.ok) tally.pass(`${label}: ${r.name}`);
+    if (r.ok) tally.pass(`${label}: ${r.name}`, r.ms);
     else tally.fail(`${label}: ${r.name}`, r.error);
   }
   if (results.length === 0) {

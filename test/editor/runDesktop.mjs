@@ -67,7 +67,7 @@ async function main() {
   }
   const results = existsSync(suite.results) ? JSON.parse(readFileSync(suite.results, 'utf8')) : [];
   for (const r of results) {
-    if (r.ok) tally.pass(`desktop: ${r.name}`);
+    if (r.ok) tally.pass(`desktop: ${r.name}`, r.ms);
     else tally.fail(`desktop: ${r.name}`, r.error);
   }
   if (results.length === 0)

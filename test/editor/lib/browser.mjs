@@ -14,9 +14,17 @@ const FLAGS = [
   '--disable-sync',
 ];
 
-export async function launchBrowser() {
+/** `xdgDir`: where Chromium may write outside its profile (crash-report settings), instead of home. */
+export async function launchBrowser(xdgDir) {
+  const env = { ...process.env };
+  if (xdgDir) {
+    for (const k of ['XDG_CONFIG_HOME', 'XDG_CACHE_HOME']) {
+      env[k] = join(xdgDir, k.toLowerCase());
+      mkdirSync(env[k], { recursive: true });
+    }
+  }
   // launch() gives every run a fresh, throw-away profile.
-  return chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS, timeout: 60_000 });
+  return chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS, env, timeout: 60_000 });
 }
 
 /** A page of the workbench, loaded and ready for keyboard input. */

@@ -5,10 +5,10 @@ export class Tally {
   /** @type {{ name: string, ok: boolean, error?: string }[]} */
   results = [];
 
-  pass(name) {
+  pass(name, ms) {
     this.passed += 1;
     this.results.push({ name, ok: true });
-    console.log(`  ok    ${name}`);
+    console.log(`  ok    ${name}${ms === undefined ? '' : ` (${(ms / 1000).toFixed(1)} s)`}`);
   }
 
   fail(name, error) {
@@ -24,6 +24,7 @@ export class Tally {
    */
   async check(name, fn, timeoutMs = 60_000) {
     let timer;
+    const started = Date.now();
     try {
       const value = await Promise.race([
         fn(),
@@ -31,7 +32,7 @@ export class Tally {
           timer = setTimeout(() => reject(new Error(`timed out after ${timeoutMs / 1000} s`)), timeoutMs);
         }),
       ]);
-      this.pass(name);
+      this.pass(name, Date.now() - started);
       return value === undefined ? true : value;
     } catch (err) {
       this.fail(name, err);
