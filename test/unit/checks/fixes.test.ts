@@ -82,6 +82,17 @@ describe('quick fixes on the exact model', () => {
     expect(codes).not.toContain('gm-ratio');
   });
 
+  it('offers no fix that a corner overriding the same value would undo', () => {
+    const text = RHP.replace('end\n', '  corner weak gm2 = 300 uS\nend\n');
+    const ratio = find(analyzeDocument(text).findings, 'gm-ratio');
+    expect(ratio.corners).toBeUndefined(); // it holds in both runs
+    const titles = ratio.fixes.map((f) => f.title);
+    expect(titles.some((t) => t.startsWith('Raise gm'))).toBe(false);
+    const rz = fixTitled(ratio, 'Add rz');
+    const fixed = analyzeDocument(apply(text, rz.edits));
+    expect(fixed.findings.map((f) => f.code)).not.toContain('gm-ratio');
+  });
+
   it('offers to state a missing requirement with its default', () => {
     const text = RHP.replace('  require pm     >= 60 deg\n', '');
     const pm = find(analyzeDocument(text).findings, 'phase-margin');
