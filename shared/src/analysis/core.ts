@@ -5,7 +5,7 @@ import type { Complex, LoopMetrics } from './types';
 import { realize, nodalDcGain, type StateSpace } from './realization';
 import { poleZeroGain } from './polesZeros';
 import { lowFrequencySign, type PoleZeroForm } from './frequency';
-import { frequencySpan, logGrid, loopMetrics, unityCrossings } from './loop';
+import { crossingsOf, frequencySpan, logGrid, loopMetrics, sample } from './loop';
 import { eigenvalues } from '../numeric/eigenvalues';
 import type { AnalysisProblem } from './types';
 import { refinePoles, refineZeros, rootScale } from './rootCheck';
@@ -66,12 +66,22 @@ export function analyzeCore(network: Network, beta: number): CoreOutcome {
   const closed = closeLoop(system, beta, sign);
   const ce = eigenvalues(closed.A, closed.order);
   const closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);
-  const span = frequencySpan(open, Math.abs(beta * dcGain));
-  const openSpan = frequencySpan(open, Math.abs(dcGain));
-  const grid = logGrid(span.lo, Math.max(span.hi, openSpan.hi));
-  const loop = loopMetrics({ open, closedPoles, dcGain, beta, sign, grid, tiny: span.tiny, d: system.d });
-  const ol = unityCrossings(open, grid);
-  const lastDown = [...ol].reverse().find((c) => c.down);
+  const span = frequencySpan(open, Math.max(1, Math.abs(beta)));
+  const grid = logGrid(span.lo, span.hi);
+  const samples = sample(open, grid);
+  const loop = loopMetrics({
+    open,
+    samples,
+    closedPoles,
+    dcGain,
+    beta,
+    sign,
+    grid,
+    tiny: span.tiny,
+    d: system.d,
+  });
+  let lastDown: { omega: number } | undefined;
+  for (const c of crossingsOf(samples)) if (c.down) lastDown = c;
   return {
     ok: true,
     result: {

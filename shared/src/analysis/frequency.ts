@@ -84,6 +84,41 @@ export function unwrappedPhaseDeg(pz: PoleZeroForm, omega: number, tiny: number)
   return (phase * 180) / Math.PI;
 }
 
+/** unwrappedPhaseDeg as a function of ω with the per-root DC terms computed once. */
+export function phaseFunction(pz: PoleZeroForm, tiny: number): (omega: number) => number {
+  let base = lowFrequencySign(pz) < 0 ? Math.PI : 0;
+  const zr: number[] = [];
+  const zi: number[] = [];
+  const pr: number[] = [];
+  const pi: number[] = [];
+  for (const z of pz.zeros) {
+    if (Math.hypot(z.re, z.im) <= tiny) base += Math.PI / 2;
+    else {
+      base -= continuousArg(z, 0);
+      zr.push(z.re);
+      zi.push(z.im);
+    }
+  }
+  for (const p of pz.poles) {
+    if (Math.hypot(p.re, p.im) <= tiny) base -= Math.PI / 2;
+    else {
+      base += continuousArg(p, 0);
+      pr.push(p.re);
+      pi.push(p.im);
+    }
+  }
+  const arg = (re: number, im: number, w: number) => {
+    const t = Math.atan2(w - im, -re);
+    return re > 0 && t < 0 ? t + 2 * Math.PI : t;
+  };
+  return (w) => {
+    let phase = base;
+    for (let i = 0; i < zr.length; i++) phase += arg(zr[i], zi[i], w);
+    for (let i = 0; i < pr.length; i++) phase -= arg(pr[i], pi[i], w);
+    return (phase * 180) / Math.PI;
+  };
+}
+
 /** Bode data from the pole/zero/gain form, scaled by `gain` (e.g. β and a sign). */
 export function pzBode(pz: PoleZeroForm, hz: readonly number[], gain = 1, tiny = 0): Bode {
   const scaled = { ...pz, k: pz.k * gain };

@@ -1,87 +1,156 @@
 // Loop metrics from the exact pole/zero/gain form: every unity crossing (bracketed on a log grid that spans
 // all roots, refined by Brent), phase margin at the last downward crossing, gain margin at the lowest
-// phase crossover, and closed-loop peaking.
+// phase crossover, and closed-loop peaking. ln|A(jω)|² is sampled once; the loop gain L = β·σ·A differs
+// from it by the constant ln β², so the open-loop and loop crossings come from the same samples.
 import type { Complex, Crossing, LoopMetrics } from './types';
-import { magnitudeSquared, unwrappedPhaseDeg, type PoleZeroForm } from './frequency';
+import { phaseFunction, unwrappedPhaseDeg, type PoleZeroForm } from './frequency';
 import { brentRoot, goldenMax } from '../numeric/roots';
 
-const POINTS_PER_DECADE = 12;
+const POINTS_PER_DECADE = 10;
 
-/** Frequency span (rad/s) that holds every root a few decades either side, and any gain crossing. */
-export function frequencySpan(
-  pz: PoleZeroForm,
-  dcMagnitude: number,
-): { lo: number; hi: number; tiny: number } {
-  const mags: number[] = [];
-  for (const r of [...pz.poles, ...pz.zeros]) {
-    const m = Math.hypot(r.re, r.im);
-    if (m > 0 && Number.isFinite(m)) mags.push(m);
+/**
+ * Frequency span (rad/s) holding every root with room either side and every unity crossing of
+ * |gain·H|. Above ten times the largest root each factor |jω − r| is within 10 % of ω, so
+ * |H| ≤ |k·gain|·1.1^nz·ω^(nz−np)/0.9^np, which bounds the last crossing for a strictly proper H.
+ */
+export function frequencySpan(pz: PoleZeroForm, gain = 1): { lo: number; hi: number; tiny: number } {
+  let min = Infinity;
+  let max = 0;
+  for (const list of [pz.poles, pz.zeros]) {
+    for (const r of list) {
+      const m = Math.hypot(r.re, r.im);
+      if (m > 0 && Number.isFinite(m)) {
+        if (m < min) min = m;
+        if (m > max) max = m;
+      }
+    }
   }
-  if (mags.length === 0) return { lo: 1, hi: 1e6, tiny: 0 };
-  const min = Math.min(...mags);
-  const max = Math.max(...mags);
+  if (max === 0) return { lo: 1, hi: 1e6, tiny: 0 };
   // Roots below this are at the origin to working precision.
   const tiny = max * 1e-14;
-  const gainRoom = Number.isFinite(dcMagnitude) ? Math.max(1, Math.min(dcMagnitude, 1e15)) : 1e15;
-  return { lo: min / 1e3, hi: max * 1e3 * Math.sqrt(gainRoom) * 10, tiny };
+  const rho = pz.poles.length - pz.zeros.length;
+  let hi = max * 1e3;
+  if (rho >= 1) {
+    const bound = Math.abs(pz.k * gain) * 1.1 ** pz.zeros.length * (1 / 0.9) ** pz.poles.length;
+    hi = 2 * Math.max(10 * max, bound ** (1 / rho));
+  }
+  return { lo: min / 100, hi: Math.min(hi, max * 1e15), tiny };
 }
 
 export function logGrid(lo: number, hi: number, perDecade = POINTS_PER_DECADE): number[] {
   const decades = Math.log10(hi / lo);
   const count = Math.max(2, Math.ceil(decades * perDecade) + 1);
-  const step = decades / (count - 1);
-  return Array.from({ length: count }, (_, i) => lo * 10 ** (i * step));
+  const ratio = 10 ** (decades / (count - 1));
+  const out = new Array<number>(count);
+  out[0] = lo;
+  for (let i = 1; i < count; i++) out[i] = out[i - 1] * ratio;
+  return out;
+}
+
+/** ln|H(jω)|² at ω = e^u, with the roots unpacked into flat arrays once. */
+export function logMagnitudeFunction(pz: PoleZeroForm): (u: number) => number {
+  const nz = pz.zeros.length;
+  const np = pz.poles.length;
+  const zr = new Float64Array(nz);
+  const zi = new Float64Array(nz);
+  const pr = new Float64Array(np);
+  const pi = new Float64Array(np);
+  pz.zeros.forEach((z, i) => {
+    zr[i] = z.re;
+    zi[i] = z.im;
+  });
+  pz.poles.forEach((p, i) => {
+    pr[i] = p.re;
+    pi[i] = p.im;
+  });
+  const k2 = pz.k * pz.k;
+  return (u) => {
+    const w = Math.exp(u);
+    let m = k2;
+    for (let i = 0; i < nz; i++) {
+      const di = w - zi[i];
+      m *= zr[i] * zr[i] + di * di;
+    }
+    for (let i = 0; i < np; i++) {
+      const di = w - pi[i];
+      m /= pr[i] * pr[i] + di * di;
+    }
+    return Math.log(m);
+  };
+}
+
+/** ln|H|² sampled on a grid of u = ln ω. */
+export interface Samples {
+  readonly us: Float64Array;
+  readonly fs: Float64Array;
+  readonly f: (u: number) => number;
+}
+
+export function sample(pz: PoleZeroForm, grid: readonly number[]): Samples {
+  const f = logMagnitudeFunction(pz);
+  const us = new Float64Array(grid.length);
+  const fs = new Float64Array(grid.length);
+  for (let i = 0; i < grid.length; i++) {
+    us[i] = Math.log(grid[i]);
+    fs[i] = f(us[i]);
+  }
+  return { us, fs, f };
 }
 
 /**
- * All ω where |H(jω)| = 1, lowest first, with direction. f(u) = ln|H|² at ω = e^u; sign changes on the grid
+ * All ω where |gain·H(jω)| = 1 (offset = ln gain²), lowest first, with direction. Sign changes on the grid
  * are refined by Brent; a grid extremum close to unity is refined by golden search so that a narrow
  * excursion through unity between two grid points is not missed.
  */
-export function unityCrossings(
-  pz: PoleZeroForm,
-  grid: readonly number[],
-): { omega: number; down: boolean }[] {
-  const f = (u: number) => Math.log(magnitudeSquared(pz, Math.exp(u)));
-  const us = grid.map(Math.log);
-  const fs = us.map(f);
+export function crossingsOf(s: Samples, offset = 0): { omega: number; down: boolean }[] {
+  const { us, fs } = s;
+  const f = (u: number) => s.f(u) + offset;
   const out: { omega: number; down: boolean }[] = [];
   const bracket = (a: number, b: number, fa: number, fb: number) => {
     const u = brentRoot(f, a, b, fa, fb, 1e-13);
     out.push({ omega: Math.exp(u), down: fa > fb });
   };
-  for (let i = 0; i + 1 < us.length; i++) {
-    const fa = fs[i];
-    const fb = fs[i + 1];
+  const n = us.length;
+  for (let i = 0; i + 1 < n; i++) {
+    const fa = fs[i] + offset;
+    const fb = fs[i + 1] + offset;
     if (!Number.isFinite(fa) || !Number.isFinite(fb)) continue;
-    if (fa > 0 !== fb > 0) {
-      bracket(us[i], us[i + 1], fa, fb);
-    }
+    if (fa > 0 !== fb > 0) bracket(us[i], us[i + 1], fa, fb);
   }
-  for (let i = 1; i + 1 < us.length; i++) {
-    const fm = fs[i];
+  for (let i = 1; i + 1 < n; i++) {
+    const fm = fs[i] + offset;
     if (Math.abs(fm) > 0.7 || !Number.isFinite(fm)) continue;
-    const isPeak = fm >= fs[i - 1] && fm >= fs[i + 1] && fm < 0;
-    const isDip = fm <= fs[i - 1] && fm <= fs[i + 1] && fm > 0;
+    const fl = fs[i - 1] + offset;
+    const fr = fs[i + 1] + offset;
+    const isPeak = fm >= fl && fm >= fr && fm < 0;
+    const isDip = fm <= fl && fm <= fr && fm > 0;
     if (!isPeak && !isDip) continue;
     const sign = isPeak ? 1 : -1;
     const ext = goldenMax((u) => sign * f(u), us[i - 1], us[i + 1], 1e-12);
     const fe = sign * ext.value;
     if (fe > 0 === fm > 0) continue;
-    bracket(us[i - 1], ext.x, fs[i - 1], fe);
-    bracket(ext.x, us[i + 1], fe, fs[i + 1]);
+    bracket(us[i - 1], ext.x, fl, fe);
+    bracket(ext.x, us[i + 1], fe, fr);
   }
   out.sort((a, b) => a.omega - b.omega);
   return out;
 }
 
+/** All unity crossings of |H(jω)| on a grid (convenience for one-off use). */
+export function unityCrossings(pz: PoleZeroForm, grid: readonly number[]) {
+  return crossingsOf(sample(pz, grid));
+}
+
 /** Lowest ω where the unwrapped phase passes an odd multiple of 180°, or undefined. */
 export function phaseCrossover(pz: PoleZeroForm, grid: readonly number[], tiny: number): number | undefined {
-  const ph = (u: number) => unwrappedPhaseDeg(pz, Math.exp(u), tiny);
+  const phase = phaseFunction(pz, tiny);
+  const ph = (u: number) => phase(Math.exp(u));
   const level = (p: number) => Math.floor((p + 180) / 360);
   let pu = Math.log(grid[0]);
   let pp = ph(pu);
-  for (let i = 1; i < grid.length; i++) {
+  // Every other grid point (five a decade): the phase is smooth between them.
+  for (let i = 2; i < grid.length + 1; i += 2) {
+    if (i >= grid.length) i = grid.length - 1;
     const u = Math.log(grid[i]);
     const p = ph(u);
     const la = level(pp);
@@ -100,6 +169,8 @@ export function phaseCrossover(pz: PoleZeroForm, grid: readonly number[], tiny: 
 export interface LoopInput {
   /** The open-loop A(s) in pole/zero/gain form. */
   readonly open: PoleZeroForm;
+  /** ln|A|² on the grid. */
+  readonly samples: Samples;
   /** Closed-loop poles of σA/(1 + βσA). */
   readonly closedPoles: readonly Complex[];
   /** Signed open-loop DC gain A(0) (±Infinity with a pole at the origin). */
@@ -117,14 +188,18 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
   const { open, beta, sign, grid, tiny } = input;
   const loop: PoleZeroForm = { ...open, k: open.k * beta * sign };
   const dcLoop = Math.abs(beta * input.dcGain);
-  const crossings: Crossing[] = unityCrossings(loop, grid).map((c) => ({
+  const crossings: Crossing[] = crossingsOf(input.samples, Math.log(beta * beta)).map((c) => ({
     hz: c.omega / (2 * Math.PI),
     direction: c.down ? 'down' : 'up',
     phaseDeg: unwrappedPhaseDeg(loop, c.omega, tiny),
   }));
-  const lastDown = [...crossings].reverse().find((c) => c.direction === 'down');
+  let lastDown: Crossing | undefined;
+  for (const c of crossings) if (c.direction === 'down') lastDown = c;
   const wpc = phaseCrossover(loop, grid, tiny);
-  const gainMarginDb = wpc === undefined ? undefined : -10 * Math.log10(magnitudeSquared(loop, wpc));
+  const gainMarginDb =
+    wpc === undefined
+      ? undefined
+      : (-10 * (input.samples.f(Math.log(wpc)) + Math.log(beta * beta))) / Math.LN10;
   return {
     dcGain: dcLoop,
     crossings,
@@ -136,7 +211,10 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
   };
 }
 
-/** Peak of |σA/(1 + βσA)| over its DC value, dB (0 without a peak). */
+/**
+ * Peak of |σA/(1 + βσA)| over its DC value, dB (0 without a peak). A peak of a rational response lies
+ * near its poles or zeros, so the search spans the closed-loop roots a decade either side.
+ */
 function closedLoopPeakingDb(input: LoopInput): number {
   const { open, beta, sign, d } = input;
   // The closed loop keeps the open-loop zeros; its leading coefficient is σk/(1 + βσd) when d ≠ 0 and
@@ -147,18 +225,21 @@ function closedLoopPeakingDb(input: LoopInput): number {
   const h0 = Number.isFinite(a0) ? a0 / (1 + beta * a0) : 1 / beta;
   const h0sq = h0 * h0;
   if (!(h0sq > 0) || !Number.isFinite(h0sq)) return 0;
-  const us = input.grid.map(Math.log);
-  const g = (u: number) => magnitudeSquared(cl, Math.exp(u));
-  let best = 0;
+  const span = frequencySpan(cl);
+  if (span.tiny === 0) return 0;
+  const grid = logGrid(span.lo * 10, (span.tiny / 1e-14) * 10);
+  const f = logMagnitudeFunction(cl);
+  let best = -Infinity;
   let bi = -1;
+  const us = grid.map(Math.log);
   for (let i = 0; i < us.length; i++) {
-    const v = g(us[i]);
+    const v = f(us[i]);
     if (v > best) {
       best = v;
       bi = i;
     }
   }
-  if (bi > 0 && bi < us.length - 1) best = Math.max(best, goldenMax(g, us[bi - 1], us[bi + 1], 1e-12).value);
-  const ratio = best / h0sq;
-  return ratio > 1 ? 10 * Math.log10(ratio) : 0;
+  if (bi > 0 && bi < us.length - 1) best = Math.max(best, goldenMax(f, us[bi - 1], us[bi + 1], 1e-12).value);
+  const ratioDb = (10 * (best - Math.log(h0sq))) / Math.LN10;
+  return ratioDb > 0 ? ratioDb : 0;
 }

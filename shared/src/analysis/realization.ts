@@ -153,9 +153,8 @@ function floatingNodeProblem(
 
 /** Exact DC gain from the nodal equations G·v = −gIn (±Infinity when G is singular: a pole at s = 0). */
 export function nodalDcGain(net: Network): number | undefined {
-  if (conductanceSingular(net)) return undefined;
   const f = luFactor(net.G, net.n);
-  if (f.singular) return undefined;
+  if (f.singular || (f.pivotRatio < 1e-8 && conductanceSingular(net))) return undefined;
   const rhs = new Float64Array(net.n);
   for (let i = 0; i < net.n; i++) rhs[i] = -net.gIn[i];
   return luSolve(f, rhs)[net.output];

@@ -191,7 +191,7 @@ function polish(s0: Complex, pencilAt: (s: Complex) => Pencil, D: Float64Array, 
 }
 
 /** Roots whose check is above this are polished. */
-const POLISH_ABOVE = 1e-15;
+const POLISH_ABOVE = 1e-13;
 const ORIGIN: Complex = { re: 0, im: 0 };
 
 function refineAll(roots: Complex[], pencilAt: (s: Complex) => Pencil, D: () => Float64Array): Complex[] {
@@ -277,7 +277,7 @@ export function refinePoles(net: Network, poles: Complex[], scaleMag = rootScale
     () => poleDerivative(net),
   );
   // Poles at the origin only with a singular G (a node with charge but no DC path).
-  if (!conductanceSingular(net)) return out;
+  if (!out.some((p) => Math.hypot(p.re, p.im) < 1e-8 * scaleMag) || !conductanceSingular(net)) return out;
   const count = out.filter((p) => poleResidual(net, p) >= poleResidual(net, ORIGIN)).length;
   return snapToOrigin(out, Math.max(1, count), 1e-8 * scaleMag);
 }
@@ -289,5 +289,7 @@ export function refineZeros(net: Network, zeros: Complex[], scaleMag: number): C
     (s) => zeroPencil(net, s),
     () => (D ??= zeroDerivative(net)),
   );
-  return snapToOrigin(out, originZeroCount(net) ?? 0, 1e-3 * scaleMag);
+  const window = 1e-3 * scaleMag;
+  if (!out.some((z) => Math.hypot(z.re, z.im) <= window)) return out;
+  return snapToOrigin(out, originZeroCount(net) ?? 0, window);
 }

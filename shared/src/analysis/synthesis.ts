@@ -101,7 +101,7 @@ export function solveCcForPhaseMargin(
       reason: `the loop already has ${pm0.toFixed(1)}° of phase margin without this capacitor`,
     };
   }
-  const grid = logGrid(1e-18, 1e-6, 3);
+  const grid = logGrid(1e-18, 1e-6, 2);
   const { value, samples } = smallestCrossing((cc) => pm(cc) - targetDeg, grid);
   if (value === undefined) {
     let best = -Infinity;
@@ -139,7 +139,7 @@ export function solveCcForNondominantPole(
   if (missing) return { ok: false, reason: missing };
   const target: CompensationTarget = { kind: 'miller', index: millerIndex, field: 'cc' };
   const ratio = (cc: number) => p2OverUgf(core(withValue(model, target, cc)));
-  const grid = logGrid(1e-18, 1e-6, 3);
+  const grid = logGrid(1e-18, 1e-6, 2);
   const { value, samples } = smallestCrossing((cc) => Math.log(ratio(cc) / factor), grid);
   if (value === undefined) {
     const best = Math.max(...samples.filter(Number.isFinite));
