@@ -70,5 +70,18 @@ if (require.main === module) {
     if (err.code === 'EPIPE') process.exit(process.exitCode ?? 0);
     throw err;
   });
-  process.exitCode = main(process.argv.slice(2), process, process.cwd(), resolve(dirname(__filename), '..'));
+  try {
+    process.exitCode = main(
+      process.argv.slice(2),
+      process,
+      process.cwd(),
+      resolve(dirname(__filename), '..'),
+    );
+  } catch (err) {
+    // A fault of ours must not read as "findings" (status 1) to a CI script.
+    process.stderr.write(
+      `ampnote: internal error: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`,
+    );
+    process.exitCode = EXIT_USAGE;
+  }
 }
