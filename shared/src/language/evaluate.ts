@@ -2,7 +2,7 @@
 // Errors are reported where they are made, once: a statement that fails adds nothing to the model, and
 // whatever depends on it stays silent.
 import { si, type Amperes, type Farads, type Ohms } from '../units';
-import { DiagnosticSink, quote } from './diagnostics';
+import { CornerReporter, DiagnosticSink, quote, type Reporter } from './diagnostics';
 import { evaluate, forEachRef, type Expr, type Quantity } from './expression';
 import { tokenRange, type Token } from './lexer';
 import type {
@@ -141,8 +141,9 @@ class DesignScope {
   /** True when the text mentions `out` as a node anywhere (it is then a node of the design). */
   mentionsOut(): boolean {
     if (this.decls.has('out')) return false;
-    return this.nodeRefs.some((t) => t.text === 'out');
+    return (this.cachedMentionsOut ??= this.nodeRefs.some((t) => t.text === 'out'));
   }
+  private cachedMentionsOut?: boolean;
 }
 
 /** The node names a statement refers to (not the ones it declares). */
@@ -181,6 +182,23 @@ interface Overrides {
 
 const NO_OVERRIDES: Overrides = { params: new Map(), fields: new Map() };
 
+interface Produced {
+  readonly stages: readonly Stage[];
+  readonly loads: readonly Load[];
+  readonly millers: readonly Miller[];
+  readonly buffered: readonly BufferedCap[];
+  readonly elements: readonly Element[];
+  readonly requirements: readonly Requirement[];
+}
+
+const count = (p: Produced): number =>
+  p.stages.length +
+  p.loads.length +
+  p.millers.length +
+  p.buffered.length +
+  p.elements.length +
+  p.requirements.length;
+
 type FieldResult =
   | { readonly status: 'absent' }
   | { readonly status: 'failed' }
@@ -194,16 +212,67 @@ class ModelBuilder {
   /** Set when an override of this corner could not be evaluated. */
   overrideFailed = false;
 
+  /** The nominal parameter dimensions, for checking corner overrides. */
+  private readonly nominalDims?: ReadonlyMap<string, Dimension>;
+  /** The nominal model's statements, for a corner. */
+  private readonly reuse?: ReadonlyMap<Statement, Produced>;
+  private readonly nominalBuiltBeta: boolean;
+  /** True when a `feedback` statement gave this model its beta. */
+  builtBeta = false;
+  /** What each statement added to this model, so that corners can take over what they do not change. */
+  readonly produced = new Map<Statement, Produced>();
+  /** Parameters whose value this corner may change: the overridden ones and all that depend on them. */
+  private readonly affectedParams = new Set<string>();
+
   constructor(
     readonly scope: DesignScope,
     readonly overrides: Overrides,
-    /** The nominal parameter dimensions, for checking corner overrides. */
-    readonly nominalDims?: ReadonlyMap<string, Dimension>,
-  ) {}
-
-  get sink(): DiagnosticSink {
-    return this.scope.sink;
+    /** For a corner: the nominal evaluation, already built. */
+    nominal?: ModelBuilder,
+    corner?: StatementOf<'corner'>,
+  ) {
+    this.nominalDims = nominal?.nominalDimensions();
+    this.reuse = nominal?.produced;
+    this.nominalBuiltBeta = nominal?.builtBeta ?? false;
+    this.sink =
+      corner?.name !== undefined
+        ? new CornerReporter(scope.sink, corner.name.text, corner.range, tokenRange(corner.name))
+        : scope.sink;
+    for (const name of overrides.params.keys()) this.affectedParams.add(name);
+    if (!this.affectedParams.size) return;
+    const deps = [...scope.params].map(([name, st]) => {
+      const refs = new Set<string>();
+      for (const f of st.fields) forEachRef(f.expr, (r) => refs.add(r));
+      return [name, refs] as const;
+    });
+    for (let changed = true; changed;) {
+      changed = false;
+      for (const [name, refs] of deps) {
+        if (this.affectedParams.has(name)) continue;
+        for (const r of refs)
+          if (this.affectedParams.has(r)) {
+            this.affectedParams.add(name);
+            changed = true;
+            break;
+          }
+      }
+    }
   }
+
+  /** True when this corner's overrides can change what the statement builds. */
+  private affects(s: Statement): boolean {
+    if (this.overrides.fields.has(s)) return true;
+    if (!this.affectedParams.size) return false;
+    let hit = false;
+    for (const f of s.fields)
+      forEachRef(f.expr, (r) => {
+        if (this.affectedParams.has(r)) hit = true;
+      });
+    return hit;
+  }
+
+  /** Where this evaluation reports: the parse's sink, or for a corner an adapter that names the corner. */
+  readonly sink: Reporter;
 
   // ---- parameters ----
 
@@ -280,30 +349,35 @@ class ModelBuilder {
 
   /** Evaluates an expression; `ugfAllowed` binds `ugf` (only inside `require zero`). */
   eval(expr: Expr, ugfAllowed: boolean): Quantity | undefined {
-    return evaluate(
-      expr,
-      (name, range) => {
-        if (ugfAllowed && name === 'ugf') return { value: 1, dim: DIM.ugf };
-        const decl = this.scope.decls.get(name);
-        if (decl?.kind === 'param') return this.param(name);
-        if (decl) {
-          this.sink.error('reference', `${quote(name)} is a ${decl.kind} (a node), not a value.`, range);
-          return undefined;
-        }
-        if (this.scope.tentative.has(name)) return undefined;
-        const near = closest(name, [...this.scope.params.keys(), ...(ugfAllowed ? ['ugf'] : [])]);
-        const hint = near
-          ? ` Did you mean ${quote(near)}?`
-          : name === 'ugf'
-            ? ' `ugf` can only be used in `require zero >= N * ugf`.'
-            : lookupUnit(name)
-              ? ` ${quote(name)} is a unit: it follows a number, and a compound unit has no spaces (\`V/us\`).`
-              : '';
-        this.sink.error('reference', `Undefined name ${quote(name)}.${hint}`, range);
-        return undefined;
-      },
-      this.sink,
-    );
+    // A plain number needs no resolver; and the two resolvers are made once per builder, not per value.
+    if (expr.kind === 'number') return { value: expr.value, dim: expr.dim };
+    return evaluate(expr, ugfAllowed ? this.resolveWithUgf : this.resolveValue, this.sink);
+  }
+
+  private readonly resolveValue = (name: string, range: SourceRange): Quantity | undefined =>
+    this.resolve(name, range, false);
+  private readonly resolveWithUgf = (name: string, range: SourceRange): Quantity | undefined =>
+    this.resolve(name, range, true);
+
+  private resolve(name: string, range: SourceRange, ugfAllowed: boolean): Quantity | undefined {
+    if (ugfAllowed && name === 'ugf') return { value: 1, dim: DIM.ugf };
+    const decl = this.scope.decls.get(name);
+    if (decl?.kind === 'param') return this.param(name);
+    if (decl) {
+      this.sink.error('reference', `${quote(name)} is a ${decl.kind} (a node), not a value.`, range);
+      return undefined;
+    }
+    if (this.scope.tentative.has(name)) return undefined;
+    const near = closest(name, [...this.scope.params.keys(), ...(ugfAllowed ? ['ugf'] : [])]);
+    const hint = near
+      ? ` Did you mean ${quote(near)}?`
+      : name === 'ugf'
+        ? ' `ugf` can only be used in `require zero >= N * ugf`.'
+        : lookupUnit(name)
+          ? ` ${quote(name)} is a unit: it follows a number, and a compound unit has no spaces (\`V/us\`).`
+          : '';
+    this.sink.error('reference', `Undefined name ${quote(name)}.${hint}`, range);
+    return undefined;
   }
 
   // ---- fields ----
@@ -466,13 +540,11 @@ class ModelBuilder {
     };
 
     let previous: NodeName = node('in');
-    for (const s of design.statements) {
+    let prev: NodeName = previous;
+    const handle = (s: Statement): void => {
       if (s.kind === 'stage') {
-        // The default input is the stage before, even if that stage itself has an error.
         const own = s.name && scope.decls.get(s.name.text)?.statement === s ? node(s.name.text) : undefined;
-        const prev = previous;
-        if (own) previous = own;
-        if (!live(s) || !own) continue;
+        if (!live(s) || !own) return;
         const input: NodeRef | undefined = s.from ? this.resolveNode(s.from) : { kind: 'node', name: prev };
         const f = fieldsOf(s, [
           ['gm', 'S', 'gm'],
@@ -480,7 +552,7 @@ class ModelBuilder {
           ['cap', 'F', 'cap'],
           ['bias', 'A', 'bias'],
         ]);
-        if (!f || !input) continue;
+        if (!f || !input) return;
         stages.push({
           name: own,
           input,
@@ -491,9 +563,9 @@ class ModelBuilder {
           ...(f.values.bias !== undefined ? { bias: si<Amperes>(f.values.bias) } : {}),
           origin: this.origin(s, f.origins),
         });
-        continue;
+        return;
       }
-      if (!live(s)) continue;
+      if (!live(s)) return;
       switch (s.kind) {
         case 'load': {
           const at = s.at ? this.resolveNodeName(s.at, 'A load') : output;
@@ -625,6 +697,45 @@ class ModelBuilder {
         default:
           break;
       }
+    };
+
+    for (const s of design.statements) {
+      if (s.kind === 'stage') {
+        // The default input is the stage before, even if that stage itself has an error.
+        prev = previous;
+        if (s.name && scope.decls.get(s.name.text)?.statement === s) previous = node(s.name.text);
+      }
+      // A corner takes over what the nominal model built from a statement its overrides cannot reach.
+      const nominal = this.reuse?.get(s);
+      if (nominal && s.kind !== 'feedback' && !this.affects(s)) {
+        stages.push(...nominal.stages);
+        loads.push(...nominal.loads);
+        millers.push(...nominal.millers);
+        buffered.push(...nominal.buffered);
+        elements.push(...nominal.elements);
+        requirements.push(...nominal.requirements);
+        continue;
+      }
+      const mark = [
+        stages.length,
+        loads.length,
+        millers.length,
+        buffered.length,
+        elements.length,
+        requirements.length,
+      ];
+      handle(s);
+      const made: Produced = {
+        stages: stages.slice(mark[0]),
+        loads: loads.slice(mark[1]),
+        millers: millers.slice(mark[2]),
+        buffered: buffered.slice(mark[3]),
+        elements: elements.slice(mark[4]),
+        requirements: requirements.slice(mark[5]),
+      };
+      this.produced.set(s, made);
+      // A statement that builds in the nominal model but not in this corner leaves the corner incomplete.
+      if (nominal && count(made) < count(nominal)) this.overrideFailed = true;
     }
 
     const params: Param[] = [];
@@ -645,6 +756,8 @@ class ModelBuilder {
       });
     }
 
+    this.builtBeta = betaOrigin !== undefined;
+    if (this.nominalBuiltBeta && !this.builtBeta) this.overrideFailed = true;
     if (!output) return undefined;
     return {
       name: design.name,
@@ -888,7 +1001,6 @@ export function evaluateDesign(design: DesignSyntax, sink: DiagnosticSink): Desi
   checkConnections(scope);
   const builder = new ModelBuilder(scope, NO_OVERRIDES);
   const nominal = builder.build();
-  const dims = builder.nominalDimensions();
   const corners: CornerSource[] = [];
   for (const s of design.statements) {
     if (s.kind !== 'corner' || !s.name || scope.corners.get(s.name.text) !== s) continue;
@@ -906,7 +1018,7 @@ export function evaluateDesign(design: DesignSyntax, sink: DiagnosticSink): Desi
       sink.warning('syntax', `Corner ${quote(s.name.text)} overrides nothing.`, tokenRange(s.name));
     {
       // Evaluated even when some override is wrong, so that every mistake in the corner is reported.
-      const cornerBuilder = new ModelBuilder(scope, overrides, dims);
+      const cornerBuilder = new ModelBuilder(scope, overrides, builder, s);
       const m = cornerBuilder.build();
       if (m && ok && !s.broken && !cornerBuilder.overrideFailed) model = { ...m, corner: s.name.text };
     }

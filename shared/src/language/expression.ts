@@ -1,6 +1,6 @@
 // Expressions: a small recursive-descent parser over + - * / ^ and parentheses, numbers with SI prefixes
 // and units, and parameter references; and an evaluator that carries a dimension with every value.
-import { DiagnosticSink, quote } from './diagnostics';
+import { quote, type Reporter } from './diagnostics';
 import { spanRange, tokenRange, type Token } from './lexer';
 import type { SourceRange } from './source';
 import {
@@ -67,7 +67,7 @@ export class Cursor {
 }
 
 export interface ExpressionContext {
-  readonly sink: DiagnosticSink;
+  readonly sink: Reporter;
   /** Words that end an expression after a number instead of being read as its unit (field names, flags). */
   readonly stopWords: ReadonlySet<string>;
 }
@@ -258,7 +258,7 @@ export interface Quantity {
 export type Resolver = (name: string, range: SourceRange) => Quantity | undefined;
 
 /** Evaluates an expression; `undefined` means an error was reported somewhere inside. */
-export function evaluate(e: Expr, resolve: Resolver, sink: DiagnosticSink): Quantity | undefined {
+export function evaluate(e: Expr, resolve: Resolver, sink: Reporter): Quantity | undefined {
   switch (e.kind) {
     case 'number':
       return { value: e.value, dim: e.dim };

@@ -3,7 +3,7 @@
 // cause (`cc = 1.2 F` meant `1.2 pF`). The usual ranges are common practice for integrated amplifiers,
 // kept wide enough for board-level loads.
 import { formatSi } from '../format/si';
-import { quote, type DiagnosticSink } from './diagnostics';
+import { quote, type Reporter } from './diagnostics';
 import type { Expr } from './expression';
 import type { SourceRange } from './source';
 import { PREFIX_SCALES } from './unitTable';
@@ -100,7 +100,7 @@ export function checkValue(
   value: number,
   expr: Expr,
   range: SourceRange,
-  sink: DiagnosticSink,
+  sink: Reporter,
 ): boolean {
   const rule = RULES[role];
   const name = quote(field);

@@ -371,3 +371,50 @@ describe('symbols', () => {
     expect(sym.c).toEqual({ name: 'c', kind: 'corner', declaration: c, references: [] });
   });
 });
+
+describe('corners take over what their overrides cannot reach', () => {
+  const doc = parseDocument(
+    wrap(
+      '  param g = 1 mS\n  param h = 2 * g\n  param r = 1 Mohm\n  stage a gm = g rout = r\n  stage b gm = 3 mS rout = 1 Mohm\n  stage c gm = h rout = 1 Mohm\n  load cap = 1 pF\n' +
+        '  corner x g = 2 mS\n  corner y r = -1 ohm\n  corner z c.rout = 2 Mohm',
+    ),
+  );
+  const nominal = doc.designs[0]!.nominal!;
+  const [x, y, z] = doc.designs[0]!.corners;
+
+  it('rebuilds every statement that depends on an overridden parameter, directly or through another', () => {
+    expect(x!.model!.stages.map((s) => s.gm)).toEqual([2e-3, 3e-3, 4e-3]);
+    expect(x!.model!.stages[1]).toBe(nominal.stages[1]); // untouched: the nominal's own object
+    expect(x!.model!.loads[0]).toBe(nominal.loads[0]);
+    expect(z!.model!.stages[2]!.rout).toBe(2e6);
+    expect(z!.model!.stages[0]).toBe(nominal.stages[0]);
+  });
+
+  it('still reports what goes wrong only in a corner, where it goes wrong, naming the corner', () => {
+    expect(doc.diagnostics.map((d) => [d.code, d.message, d.range.start.line, d.related])).toEqual([
+      [
+        'plausibility',
+        'In corner `y`: A resistance cannot be negative; `rout` must be positive.',
+        4, // the field `rout = r` of stage a, which only corner y makes negative
+        [{ range: doc.designs[0]!.symbols.find((x) => x.name === 'y')!.declaration, message: 'corner `y`' }],
+      ],
+    ]);
+    expect(y!.model).toBeUndefined();
+  });
+});
+
+describe('a corner that breaks a value', () => {
+  it('has no model when its values make a nominal statement impossible, the feedback factor included', () => {
+    const doc = parseDocument(
+      wrap(
+        '  param b = 0.5\n  stage a gm = 1 mS rout = 1 Mohm\n  feedback beta = b\n  corner neg b = -0.5\n  corner ok b = 0.25',
+      ),
+    );
+    expect(doc.diagnostics.map((d) => d.message)).toEqual([
+      'In corner `neg`: The feedback factor must be positive.',
+    ]);
+    const [neg, ok] = doc.designs[0]!.corners;
+    expect(neg!.model).toBeUndefined();
+    expect(ok!.model!.beta).toBe(0.25);
+  });
+});
