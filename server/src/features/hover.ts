@@ -36,7 +36,11 @@ function poleLines(analysis: DesignAnalysis, nodes: string[]): string[] {
   if (!mine.length) return [`Takes part in no pole (no capacitance at ${nodes.join(', ')}).`];
   return [
     'Poles it takes part in (share of each node):',
-    ...mine.map(({ pole, shares }) => `- ${poleText(pole)} — ${shares}`),
+    ...mine.map(
+      ({ pole, shares }) =>
+        `- ${poleText(pole)} — ${shares}` +
+        (pole.namedAfter === 'shared' ? ' (shared: no node holds 80 %, so no single node sets it)' : ''),
+    ),
   ];
 }
 
@@ -46,6 +50,12 @@ function zeroLines(analysis: DesignAnalysis): string[] {
   return [`Zeros: ${zeros.map(zeroText).join(', ')}`];
 }
 
+const HAND_LABEL = {
+  'dominant-pole': 'dominant pole',
+  'nondominant-pole': 'non-dominant pole',
+  zero: 'zero',
+} as const;
+
 function handLines(analysis: DesignAnalysis): string[] {
   if (!analysis.hand?.length) return [];
   return [
@@ -53,7 +63,7 @@ function handLines(analysis: DesignAnalysis): string[] {
     ...analysis.hand.map((h) => {
       const hand = Number.isFinite(h.hand) ? formatSi(h.hand / (2 * Math.PI), 'Hz') : '∞';
       const pct = Number.isFinite(h.relativeError) ? ` (${(h.relativeError * 100).toFixed(1)} % off)` : '';
-      return `- ${h.quantity}: \`${h.formula}\` = ${hand}, exact ${formatSi(h.exact / (2 * Math.PI), 'Hz')}${pct}`;
+      return `- ${HAND_LABEL[h.quantity]}: \`${h.formula}\` = ${hand}, exact ${formatSi(h.exact / (2 * Math.PI), 'Hz')}${pct}`;
     }),
   ];
 }
