@@ -125,6 +125,10 @@ describe('CSV export and colours', () => {
     expect(chartCsv('splane', data).split('\n')[1]).toBe(
       'pole,-10,0,1.5915494309189535,1,first,first:1.0000',
     );
+    const closed = chartCsv('splane', { ...data, closedLoopPoles: [{ re: 3, im: -4 }] })
+      .trim()
+      .split('\n');
+    expect(closed[closed.length - 1]).toBe(`closed-loop pole,3,-4,${5 / (2 * Math.PI)},,,`);
   });
   it('turns theme colours into rgba with the alpha asked for', () => {
     expect(withAlpha('#3794ff', 0.5)).toBe('rgba(55, 148, 255, 0.5)');

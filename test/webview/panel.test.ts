@@ -190,16 +190,23 @@ describe.each(cases.map((c) => [c.label, c] as const))('engine data for %s', (_l
     // (d) s-plane: one × per pole of the analysis at its symmetric-log position, one ○ per zero.
     const poles = byRole(drawn, 'splane', 'pole')[0]!;
     expect(poles.data.map((p) => [p.re, p.im])).toEqual(analysis.poles.map((p) => [p.s.re, p.s.im]));
+    const roots = [
+      ...analysis.poles.map((p) => p.s),
+      ...analysis.zeros.map((z) => z.s),
+      ...(analysis.closedLoopPoles ?? []),
+    ];
     const knee =
-      Math.min(
-        ...[...analysis.poles, ...analysis.zeros]
-          .flatMap((r) => [Math.abs(r.s.re), Math.abs(r.s.im)])
-          .filter((v) => v > 0),
-      ) / 10;
+      Math.min(...roots.flatMap((s) => [Math.abs(s.re), Math.abs(s.im)]).filter((v) => v > 0)) / 10;
     poles.data.forEach((p) => {
       expect(p.x).toBeCloseTo(symlog(p.re!, knee), 9);
       expect(p.y).toBeCloseTo(symlog(p.im!, knee), 9);
     });
+    // The closed loop's poles beside them (◇): the engine's, one for one.
+    const closed = byRole(drawn, 'splane', 'closed-pole')[0]!;
+    expect(closed.data.map((p) => [p.re, p.im])).toEqual(
+      (analysis.closedLoopPoles ?? []).map((s) => [s.re, s.im]),
+    );
+    expect(closed.data.length).toBe(analysis.poles.length);
     expect(byRole(drawn, 'splane', 'zero')[0]!.data.length).toBe(
       analysis.zeros.filter((z) => Number.isFinite(z.s.re)).length,
     );
@@ -451,6 +458,43 @@ end
     expect(byRole(drawn, 'splane', 'pole')[0]!.data).toEqual([]);
     expect(byRole(drawn, 'locus', 'pole-branch')).toEqual([]);
     await panel.page.screenshot({ path: join(OUTPUT, 'problems.png') });
+    expect(panel.problems).toEqual([]);
+  });
+
+  it('draws an unstable loop’s growing step without a settling band', async () => {
+    const nested = cases.find((k) => k.model.millers.length > 1);
+    if (!nested) return;
+    // A far too small outer capacitor: the engine finds a closed-loop pole in the right half-plane.
+    const data = panelData(nested, { cc: nested.model.millers[0]!.cc / 200 });
+    expect(data.step.stable).toBe(false);
+    await panel.showData(data);
+    const drawn = await readCharts(panel.page);
+    expect(byRole(drawn, 'step', 'step')[0]!.data.map((p) => p.y)).toEqual(data.step.y);
+    expect(byRole(drawn, 'step', 'band-low')).toEqual([]);
+    expect(byRole(drawn, 'step', 'settling')).toEqual([]);
+    expect(await panel.page.textContent('#note-step')).toMatch(/unstable/);
+    const closed = byRole(drawn, 'splane', 'closed-pole')[0]!.data;
+    expect(closed.some((p) => p.re! > 0 && p.x > 0)).toBe(true);
+    await panel.page.screenshot({ path: join(OUTPUT, 'unstable.png'), fullPage: true });
+    expect(panel.problems).toEqual([]);
+  });
+
+  it('survives numbers that crossed JSON as null (NaN, infinities)', async () => {
+    const base = panelData(c);
+    const data = JSON.parse(
+      JSON.stringify({
+        ...base,
+        summary: { ...base.summary, phaseMarginDeg: Number.NaN, gainMarginDb: Infinity },
+        bode: { ...base.bode, ugfHz: Number.NaN, phaseMarginDeg: Number.NaN },
+        step: { ...base.step, overshootPct: Number.NaN },
+      }),
+    ) as PanelData;
+    await panel.showData(data);
+    const summary = await panel.page.locator('#summary dd').allTextContents();
+    expect(summary[1]).toBe('—');
+    expect(summary[2]).toBe('—');
+    const drawn = await readCharts(panel.page);
+    expect(byRole(drawn, 'bode', 'ugf')).toEqual([]);
     expect(panel.problems).toEqual([]);
   });
 

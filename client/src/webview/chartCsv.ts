@@ -56,6 +56,15 @@ export function chartCsv(chart: ChartId, data: PanelData): string {
             p.participation.map((q) => `${q.node}:${q.share.toFixed(4)}`).join(' '),
           ]),
           ...data.zeros.map((z) => [z.rhp ? 'zero (RHP)' : 'zero', z.s.re, z.s.im, z.hz, '', '', '']),
+          ...(data.closedLoopPoles ?? []).map((s) => [
+            'closed-loop pole',
+            s.re,
+            s.im,
+            Math.hypot(s.re, s.im) / (2 * Math.PI),
+            '',
+            '',
+            '',
+          ]),
         ],
       );
   }

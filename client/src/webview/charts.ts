@@ -56,7 +56,8 @@ export type DatasetRole =
   | 'band-high'
   | 'settling'
   | 'pole'
-  | 'zero';
+  | 'zero'
+  | 'closed-pole';
 
 /** A data point keeps the value it stands for beside its plotted position (which may be transformed). */
 export interface PlotPoint {
@@ -68,6 +69,8 @@ export interface PlotPoint {
   im?: number;
   pole?: PanelPole;
   rhp?: boolean;
+  /** A pole of the closed loop (s-plane map). */
+  closed?: boolean;
 }
 
 export type RoleDataset = ChartDataset<'scatter', PlotPoint[]> & { role: DatasetRole };
@@ -95,7 +98,8 @@ const backgroundPlugin: Plugin<'scatter'> = {
   },
 };
 
-const finite = (v: number) => Number.isFinite(v);
+/** Also a type guard: the data crossed JSON, where NaN and ±Infinity arrive as null. */
+const finite = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
 
 function extent(values: readonly number[]): [number, number] | undefined {
   const v = values.filter((x) => finite(x) && x > 0);
@@ -254,7 +258,7 @@ function locusConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'
   const allHz = [...data.locus.poles, ...data.locus.zeros].flatMap((s) => s.hz);
   const yr = extent(allHz);
   const cc = data.cc;
-  if (cc !== undefined && cc > 0 && yr) {
+  if (finite(cc) && cc > 0 && yr) {
     const [lo, hi] = [yr[0] / 3, yr[1] * 3];
     datasets.push(
       line(
@@ -387,7 +391,7 @@ function bodeConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'s
       ),
     );
   }
-  if (b.ugfHz !== undefined && dbs.length > 0) {
+  if (finite(b.ugfHz) && dbs.length > 0) {
     datasets.push(
       line(
         'ugf',
@@ -404,7 +408,7 @@ function bodeConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'s
         },
       ),
     );
-    if (b.phaseMarginDeg !== undefined) {
+    if (finite(b.phaseMarginDeg)) {
       datasets.push(
         line(
           'phase-margin',
@@ -498,7 +502,8 @@ function stepConfig(
       colors.series[0]!,
     ),
   ];
-  if (st.t.length > 0 && finite(st.final)) {
+  // An unstable loop has no final value to settle to: no band, no settling mark.
+  if (st.t.length > 0 && finite(st.final) && st.stable !== false) {
     const band = Math.abs(st.final) * st.tolerance;
     const bandColor = withAlpha(colors.band, 0.8);
     datasets.push(
@@ -532,7 +537,7 @@ function stepConfig(
       ),
     );
   }
-  if (st.settlingTime !== undefined && st.y.length > 0) {
+  if (typeof st.settlingTime === 'number' && st.y.length > 0) {
     const ys = st.y.filter(finite);
     datasets.push(
       line(
@@ -599,7 +604,11 @@ function stepConfig(
 
 /** The knee of the symmetric log axes of the s-plane map (rad/s), shared by both axes. */
 export function splaneKnee(data: PanelData): number {
-  return symlogKnee([...data.poles, ...data.zeros].flatMap((r) => [r.s.re, r.s.im]));
+  return symlogKnee(
+    [...data.poles.map((p) => p.s), ...data.zeros.map((z) => z.s), ...(data.closedLoopPoles ?? [])].flatMap(
+      (s) => [s.re, s.im],
+    ),
+  );
 }
 
 function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'scatter', PlotPoint[]> {
@@ -609,7 +618,7 @@ function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<
   const datasets: RoleDataset[] = [
     {
       role: 'pole',
-      label: 'poles ×',
+      label: 'open-loop poles ×',
       data: data.poles.map((p) => ({ ...pt(p.s.re, p.s.im), pole: p })),
       showLine: false,
       pointStyle: 'crossRot',
@@ -631,6 +640,21 @@ function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<
       pointHitRadius: 8,
       borderWidth: 2,
       borderColor: colors.zero,
+      backgroundColor: 'transparent',
+    } as RoleDataset,
+    {
+      role: 'closed-pole',
+      label: 'closed-loop poles ◇',
+      data: (data.closedLoopPoles ?? [])
+        .filter((s) => finite(s.re) && finite(s.im))
+        .map((s) => ({ ...pt(s.re, s.im), closed: true })),
+      showLine: false,
+      pointStyle: 'rectRot',
+      pointRadius: 6,
+      pointHoverRadius: 8,
+      pointHitRadius: 8,
+      borderWidth: 2,
+      borderColor: colors.band,
       backgroundColor: 'transparent',
     } as RoleDataset,
   ];
@@ -679,6 +703,12 @@ function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<
               const p = item.raw as PlotPoint;
               if (p.pole) return describePole(p.pole, item.dataIndex);
               const hz = Math.hypot(p.re ?? 0, p.im ?? 0) / (2 * Math.PI);
+              if (p.closed) {
+                return [
+                  `closed-loop pole: ${formatSi(p.re ?? 0, '')} ${(p.im ?? 0) >= 0 ? '+' : '−'} j${formatSi(Math.abs(p.im ?? 0), '')} rad/s`,
+                  `|p| = ${formatHz(hz)}${(p.re ?? 0) > 0 ? ', right half-plane: the loop is unstable' : ''}`,
+                ];
+              }
               return [
                 `zero: ${formatSi(p.re ?? 0, '')} ${(p.im ?? 0) >= 0 ? '+' : '−'} j${formatSi(Math.abs(p.im ?? 0), '')} rad/s`,
                 `|z| = ${formatHz(hz)}${p.rhp ? ', right half-plane' : ''}`,

@@ -72,18 +72,31 @@ function post(message: WebviewToHost): void {
 
 // ---- rendering ---------------------------------------------------------------------------------------
 
+/** A usable number: the data crossed JSON, where NaN and ±Infinity arrive as null. */
+const isNum = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
+
 function setText(el: HTMLElement, text: string): void {
   el.textContent = text;
+}
+
+/** The last path segment of a URI, decoded when it is well-formed. */
+function fileName(uri: string): string {
+  const last = uri.replace(/[?#].*$/, '').replace(/^.*\//, '');
+  try {
+    return decodeURIComponent(last);
+  } catch {
+    return last;
+  }
 }
 
 function renderSummary(d: PanelData): void {
   ui.summary.replaceChildren();
   const items: [string, string][] = [
-    ['UGF', d.summary.ugfHz !== undefined ? formatHz(d.summary.ugfHz) : '—'],
-    ['PM', d.summary.phaseMarginDeg !== undefined ? formatDeg(d.summary.phaseMarginDeg) : '—'],
-    ['GM', d.summary.gainMarginDb !== undefined ? formatDb(d.summary.gainMarginDb) : '—'],
+    ['UGF', isNum(d.summary.ugfHz) ? formatHz(d.summary.ugfHz) : '—'],
+    ['PM', isNum(d.summary.phaseMarginDeg) ? formatDeg(d.summary.phaseMarginDeg) : '—'],
+    ['GM', isNum(d.summary.gainMarginDb) ? formatDb(d.summary.gainMarginDb) : '—'],
     ['DC gain', Number.isFinite(d.summary.dcGainDb) ? formatDb(d.summary.dcGainDb) : '—'],
-    ['slew', d.summary.slewVperUs !== undefined ? `${d.summary.slewVperUs.toPrecision(3)} V/µs` : '—'],
+    ['slew', isNum(d.summary.slewVperUs) ? `${d.summary.slewVperUs.toPrecision(3)} V/µs` : '—'],
   ];
   for (const [k, v] of items) {
     const box = document.createElement('div');
@@ -115,16 +128,17 @@ function renderNotes(d: PanelData): void {
     locus: d.compensation
       ? `Cc from 0 (left edge) to ${formatSi(d.locus.poles[0]?.cc.at(-1) ?? 0, 'F')}; × marks the poles at the Cc shown, ○ the zeros. Hover a pole for its node participation.`
       : 'This design has no compensation capacitor to sweep.',
-    bode:
-      d.bode.ugfHz !== undefined
-        ? `Unity crossing at ${formatHz(d.bode.ugfHz)}${d.bode.crossings.length > 1 ? ` (the last of ${d.bode.crossings.length} crossings)` : ''}.`
-        : 'The loop gain never reaches unity.',
+    bode: isNum(d.bode.ugfHz)
+      ? `Unity crossing at ${formatHz(d.bode.ugfHz)}${d.bode.crossings.length > 1 ? ` (the last of ${d.bode.crossings.length} crossings)` : ''}.`
+      : 'The loop gain never reaches unity.',
     step:
       d.step.t.length === 0
         ? 'No step response for this design.'
-        : d.step.settlingTime !== undefined
-          ? `Settles into ±${(100 * d.step.tolerance).toPrecision(2)} % in ${formatSi(d.step.settlingTime, 's')}; overshoot ${d.step.overshootPct.toFixed(1)} %.`
-          : `Does not settle into ±${(100 * d.step.tolerance).toPrecision(2)} % within the time shown.`,
+        : d.step.stable === false
+          ? 'The closed loop is unstable (a closed-loop pole in the right half-plane): the step grows without bound.'
+          : typeof d.step.settlingTime === 'number'
+            ? `Settles into ±${(100 * d.step.tolerance).toPrecision(2)} % in ${formatSi(d.step.settlingTime, 's')}; overshoot ${isNum(d.step.overshootPct) ? d.step.overshootPct.toFixed(1) : '—'} %.`
+            : `Does not settle into ±${(100 * d.step.tolerance).toPrecision(2)} % within the time shown.`,
     splane:
       'Axes are symmetric-logarithmic: sign(v)·log10(1 + |v|/v0), with v0 a decade below the smallest root.',
   };
@@ -189,7 +203,7 @@ function render(d: PanelData | null): void {
     if (state.cc !== undefined || state.rz !== undefined) saveState({ cc: undefined, rz: undefined });
   }
   setText(ui.name, d.design);
-  setText(ui.uri, decodeURIComponent(d.uri.replace(/^.*\//, '')));
+  setText(ui.uri, fileName(d.uri));
   setText(ui.caution, d.caution);
   renderSummary(d);
   renderProblems(d);

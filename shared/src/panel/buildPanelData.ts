@@ -195,6 +195,7 @@ export function buildPanelData(
   if (token?.isCancellationRequested) return undefined;
 
   const step = analysis.step;
+  const stable = analysis.closedLoopPoles?.every((p) => p.re < 0);
   return {
     ...base,
     poles: analysis.poles.map((p) => ({
@@ -205,6 +206,9 @@ export function buildPanelData(
       participation: p.participation,
     })),
     zeros: analysis.zeros.map((z) => ({ s: z.s, hz: z.hz, rhp: z.rhp })),
+    ...(analysis.closedLoopPoles
+      ? { closedLoopPoles: analysis.closedLoopPoles.map((s) => ({ re: s.re, im: s.im })) }
+      : {}),
     locus,
     bode: {
       hz,
@@ -222,6 +226,7 @@ export function buildPanelData(
           tolerance: step.tolerance,
           settlingTime: step.settlingTime,
           overshootPct: step.overshootPct,
+          ...(stable !== undefined ? { stable } : {}),
         }
       : { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
     summary: {

@@ -54,6 +54,8 @@ export interface PanelData {
   readonly sliders?: { readonly cc: SliderRange; readonly rz: SliderRange };
   readonly poles: readonly PanelPole[];
   readonly zeros: readonly PanelZero[];
+  /** Poles of the closed loop (rad/s): where stability is decided; `poles` above are the open loop's. */
+  readonly closedLoopPoles?: readonly Complex[];
   readonly locus: {
     readonly poles: readonly LocusSeries[];
     readonly zeros: readonly LocusSeries[];
@@ -73,6 +75,8 @@ export interface PanelData {
     readonly tolerance: number;
     readonly settlingTime?: number;
     readonly overshootPct: number;
+    /** False when a closed-loop pole lies in the right half-plane: the response grows, no band applies. */
+    readonly stable?: boolean;
   };
   readonly summary: {
     readonly ugfHz?: number;
