@@ -489,6 +489,10 @@ class ModelBuilder {
     // mistakes are reported.
     if (outStmt) {
       if (outStmt.node && live(outStmt)) output = this.resolveNodeName(outStmt.node, 'The output');
+      if (output === 'in') {
+        sink.error('reference', 'The output cannot be the driven input `in`.', tokenRange(outStmt.node!));
+        output = undefined;
+      }
     } else if (scope.stages.length) output = node(scope.stages[scope.stages.length - 1]!.name!.text);
     else if (scope.mentionsOut() || scope.decls.get('out')?.kind === 'node') output = node('out');
     else {

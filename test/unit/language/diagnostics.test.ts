@@ -315,6 +315,13 @@ const cases: Case[] = [
   ['self reference', d('  param ⟦a⟧ = a + 1'), 'reference', 'error', 'Parameter `a` refers to itself.'],
   ['output at ground', d('  output ⟦gnd⟧'), 'reference', 'error', 'The output cannot be ground.'],
   [
+    'output at the input',
+    d('  output ⟦in⟧'),
+    'reference',
+    'error',
+    'The output cannot be the driven input `in`.',
+  ],
+  [
     'miller to itself',
     d('  miller ⟦s -> s⟧ cc = 1 pF'),
     'reference',
