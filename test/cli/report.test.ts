@@ -157,6 +157,16 @@ describe('ampnote report', () => {
       const text = await page.textContent('body');
       expect(text).toContain(CAUTION);
       expect(await page.locator('.roots tbody tr').count()).toBe(nominal.poles.length + nominal.zeros.length);
+      // Each other corner's roots, folded under its name.
+      const others = report.designs[0]!.runs.slice(1);
+      expect(
+        await page.$$eval('.corner-roots summary strong', (els) => els.map((e) => e.textContent)),
+      ).toEqual(others.map((r) => r.corner));
+      for (const [k, run] of others.entries()) {
+        expect(await page.locator('.corner-roots').nth(k).locator('tbody tr').count()).toBe(
+          run.analysis.poles.length + run.analysis.zeros.length,
+        );
+      }
     } finally {
       await page.close();
     }

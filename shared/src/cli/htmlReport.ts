@@ -188,7 +188,8 @@ function designSection(d: ReportDesign, index: number): string {
     `<h3>Findings</h3>`,
     d.findings.length > 0 ? findingsList(d.findings) : `<p class="none">No findings.</p>`,
   );
-  if (solved.length > 0) parts.push(rootsTable(nominal), handTable(nominal.analysis));
+  if (solved.length > 0)
+    parts.push(rootsTable(nominal), cornerRoots(r.runs.slice(1)), handTable(nominal.analysis));
   parts.push(`<h3>Charts <span class="sub">nominal</span></h3>`);
   if (!d.panel) parts.push(`<p class="problem">No chart data for this design.</p>`);
   else if (d.panel.problems.length > 0) {
@@ -196,10 +197,15 @@ function designSection(d: ReportDesign, index: number): string {
   } else {
     parts.push(
       `<div class="charts">`,
-      ...CHARTS.map(
-        (c) =>
-          `<figure class="chart"><figcaption><strong>${c.title}</strong> ${c.note}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}" role="img" aria-label="${c.title} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`,
-      ),
+      ...CHARTS.map((c) => {
+        // Without a compensation capacitor there is nothing to sweep: say so instead of showing empty axes.
+        // (The drawing code still draws into the hidden canvas; it draws all four charts together.)
+        const noSweep = c.id === 'locus' && !d.panel?.compensation;
+        const note = noSweep
+          ? 'This design has no compensation capacitor, so there is no pole split to show.'
+          : c.note;
+        return `<figure class="chart${noSweep ? ' no-sweep' : ''}"><figcaption><strong>${c.title}</strong> ${note}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}" role="img" aria-label="${c.title} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`;
+      }),
       `</div>`,
       `<noscript><p class="problem">The charts need JavaScript; the tables above hold the same values.</p></noscript>`,
     );
@@ -274,6 +280,21 @@ function cornerTable(runs: readonly CornerRun[]): string {
 }
 
 function rootsTable(run: CornerRun): string {
+  if (run.analysis.problems.length > 0) return rootsBody(run, 'roots');
+  return `<h3>Poles and zeros <span class="sub">nominal</span></h3>${rootsBody(run, 'roots')}`;
+}
+
+/** The other corners' roots, folded: the nominal table above is what most readers want first. */
+function cornerRoots(runs: readonly CornerRun[]): string {
+  return runs
+    .map(
+      (run) =>
+        `<details class="corner-roots"><summary>Poles and zeros in corner <strong>${escapeHtml(run.corner)}</strong></summary>${rootsBody(run, 'roots-corner')}</details>`,
+    )
+    .join('');
+}
+
+function rootsBody(run: CornerRun, className: string): string {
   const a = run.analysis;
   if (a.problems.length > 0) {
     return `<p class="problem">Not solved: ${a.problems.map((p) => escapeHtml(p.message + (p.node ? ` (node ${p.node})` : ''))).join('; ')}</p>`;
@@ -294,7 +315,7 @@ function rootsTable(run: CornerRun): string {
     (z, i) =>
       `<tr><td>z${i + 1}</td><td>${escapeHtml(rootText(z.s.re, z.s.im))}</td><td>${escapeHtml(formatHz(z.hz))}</td><td></td><td>${z.rhp ? '<span class="chip error">right half-plane</span>' : 'left half-plane'}</td><td></td></tr>`,
   );
-  return `<h3>Poles and zeros <span class="sub">nominal</span></h3><div class="scroll"><table class="roots"><thead><tr><th></th><th>s / 2π</th><th>|s| / 2π</th><th>ζ</th><th>named after</th><th>node participation</th></tr></thead><tbody>${[...poleRows, ...zeroRows].join('')}</tbody></table></div>`;
+  return `<div class="scroll"><table class="${className}"><thead><tr><th></th><th>s / 2π</th><th>|s| / 2π</th><th>ζ</th><th>named after</th><th>node participation</th></tr></thead><tbody>${[...poleRows, ...zeroRows].join('')}</tbody></table></div>`;
 }
 
 function handTable(a: DesignAnalysis): string {
@@ -386,6 +407,8 @@ ${BAR_WIDTHS}
 .chart figcaption{font-size:.85rem;color:var(--soft);margin-bottom:6px}
 .chart figcaption strong{color:var(--ink);margin-right:6px}
 .canvas-box{position:relative;height:300px}
+.corner-roots{margin:6px 0}.corner-roots summary{cursor:pointer;color:var(--soft);font-size:.9rem}
+.no-sweep{order:9;grid-column:1/-1}.no-sweep .canvas-box{display:none}
 .chart-error{color:var(--error);font-size:.85rem}
 footer{margin-top:48px;border-top:1px solid var(--rule);color:var(--soft);font-size:.85rem}
 code{font-family:ui-monospace,"SF Mono",Menlo,Consolas,monospace;font-size:.9em}
