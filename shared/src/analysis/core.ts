@@ -45,14 +45,20 @@ export function closeLoop(sys: StateSpace, beta: number, sign: number): StateSpa
   return { order: n, A, b, c, d: (sign * sys.d) / den };
 }
 
-export function analyzeCore(network: Network, beta: number): CoreOutcome {
+/**
+ * `light`: only what the synthesis and sweeps read (roots, DC gain, crossings, phase margin); the closed
+ * loop, gain margin, peaking and the open-loop UGF are left out.
+ */
+export function analyzeCore(network: Network, beta: number, light = false): CoreOutcome {
   const real = realize(network);
   if (!real.ok) return real;
   const system = real.system;
   const pz = poleZeroGain(system);
   const scale = Math.max(rootScale(pz.poles), rootScale(pz.zeros));
-  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale).sort(byMagnitude);
-  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale).sort(byMagnitude);
+  // The light path (synthesis) skips Newton polishing: it only matters for poles set by a
+  // near-cancellation in G, and the full analysis of the result polishes them.
+  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale, !light).sort(byMagnitude);
+  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, !light).sort(byMagnitude);
   const open = { poles, zeros, k: pz.k, relativeDegree: pz.relativeDegree };
   const sign = lowFrequencySign(open);
   const atOrigin = (r: Complex) => r.re === 0 && r.im === 0;
@@ -64,8 +70,11 @@ export function analyzeCore(network: Network, beta: number): CoreOutcome {
   const polesAt0 = poles.filter(atOrigin).length;
   if (open.k === 0 || zerosAt0 > polesAt0) dcGain = 0;
   const closed = closeLoop(system, beta, sign);
-  const ce = eigenvalues(closed.A, closed.order);
-  const closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);
+  let closedPoles: Complex[] = [];
+  if (!light) {
+    const ce = eigenvalues(closed.A, closed.order);
+    closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);
+  }
   const span = frequencySpan(open, Math.max(1, Math.abs(beta)));
   const grid = logGrid(span.lo, span.hi);
   const samples = sample(open, grid);
@@ -79,9 +88,10 @@ export function analyzeCore(network: Network, beta: number): CoreOutcome {
     grid,
     tiny: span.tiny,
     d: system.d,
+    light,
   });
   let lastDown: { omega: number } | undefined;
-  for (const c of crossingsOf(samples)) if (c.down) lastDown = c;
+  if (!light) for (const c of crossingsOf(samples)) if (c.down) lastDown = c;
   return {
     ok: true,
     result: {

@@ -182,6 +182,8 @@ export interface LoopInput {
   readonly tiny: number;
   /** d of the open-loop realisation (0 unless the output has a capacitive feedthrough). */
   readonly d: number;
+  /** Crossings and phase margin only (no gain margin or peaking). */
+  readonly light?: boolean;
 }
 
 export function loopMetrics(input: LoopInput): LoopMetrics {
@@ -195,7 +197,7 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
   }));
   let lastDown: Crossing | undefined;
   for (const c of crossings) if (c.direction === 'down') lastDown = c;
-  const wpc = phaseCrossover(loop, grid, tiny);
+  const wpc = input.light ? undefined : phaseCrossover(loop, grid, tiny);
   const gainMarginDb =
     wpc === undefined
       ? undefined
@@ -207,7 +209,7 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
     phaseMarginDeg: lastDown ? 180 + lastDown.phaseDeg : undefined,
     gainMarginDb,
     phaseCrossoverHz: wpc === undefined ? undefined : wpc / (2 * Math.PI),
-    peakingDb: closedLoopPeakingDb(input),
+    peakingDb: input.light ? 0 : closedLoopPeakingDb(input),
   };
 }
 

@@ -194,7 +194,13 @@ function polish(s0: Complex, pencilAt: (s: Complex) => Pencil, D: Float64Array, 
 const POLISH_ABOVE = 1e-13;
 const ORIGIN: Complex = { re: 0, im: 0 };
 
-function refineAll(roots: Complex[], pencilAt: (s: Complex) => Pencil, D: () => Float64Array): Complex[] {
+function refineAll(
+  roots: Complex[],
+  pencilAt: (s: Complex) => Pencil,
+  D: () => Float64Array,
+  doPolish: boolean,
+): Complex[] {
+  if (!doPolish) return roots;
   const residual = (s: Complex) => {
     const p = pencilAt(s);
     return lastPivot(complexLuFactor(p.re, p.im, p.m));
@@ -270,11 +276,18 @@ export function conductanceSingular(net: Network): boolean {
 export const rootScale = (roots: readonly Complex[]) =>
   roots.reduce((m, r) => Math.max(m, Math.hypot(r.re, r.im)), 0);
 
-export function refinePoles(net: Network, poles: Complex[], scaleMag = rootScale(poles)): Complex[] {
+/** Polish (unless `doPolish` is false) and put roots that belong at the origin there. */
+export function refinePoles(
+  net: Network,
+  poles: Complex[],
+  scaleMag = rootScale(poles),
+  doPolish = true,
+): Complex[] {
   const out = refineAll(
     poles,
     (s) => polePencil(net, s),
     () => poleDerivative(net),
+    doPolish,
   );
   // Poles at the origin only with a singular G (a node with charge but no DC path).
   if (!out.some((p) => Math.hypot(p.re, p.im) < 1e-8 * scaleMag) || !conductanceSingular(net)) return out;
@@ -282,12 +295,13 @@ export function refinePoles(net: Network, poles: Complex[], scaleMag = rootScale
   return snapToOrigin(out, Math.max(1, count), 1e-8 * scaleMag);
 }
 
-export function refineZeros(net: Network, zeros: Complex[], scaleMag: number): Complex[] {
+export function refineZeros(net: Network, zeros: Complex[], scaleMag: number, doPolish = true): Complex[] {
   let D: Float64Array | undefined;
   const out = refineAll(
     zeros,
     (s) => zeroPencil(net, s),
     () => (D ??= zeroDerivative(net)),
+    doPolish,
   );
   const window = 1e-3 * scaleMag;
   if (!out.some((z) => Math.hypot(z.re, z.im) <= window)) return out;

@@ -16,7 +16,7 @@ function core(model: DesignModel): CoreResult | undefined {
   try {
     const built = buildNetwork(model);
     if (!built.ok) return undefined;
-    const r = analyzeCore(built.network, model.beta);
+    const r = analyzeCore(built.network, model.beta, true);
     return r.ok ? r.result : undefined;
   } catch {
     return undefined;
