@@ -14,6 +14,7 @@ import type { CheckEngine } from './checks/context';
 import { setOrInsertField, setValueEdit } from './checks/fixes';
 import { withLazyFixes } from './checks/acrossRuns';
 import { languageFindings, rangeContains, runChecks } from './checks/index';
+import { plausibilityCheck } from './checks/plausibility';
 import { resolveCheckSettings, type CheckSettings } from './checks/settings';
 import type { Finding, TextEditSpec } from './checks/types';
 import { formatSi } from './format/si';
@@ -51,7 +52,13 @@ export interface AnalysisCacheOptions {
 export interface AnalysisCache {
   readonly options: AnalysisCacheOptions;
   parse(text: string): ParsedDocument;
-  design(source: DesignSource, settings: CheckSettings, token?: CancelToken): DesignReport;
+  /** `incomplete`: the design has language errors, so its model lacks what they dropped (see analyzeDesignSource). */
+  design(
+    source: DesignSource,
+    settings: CheckSettings,
+    token?: CancelToken,
+    incomplete?: boolean,
+  ): DesignReport;
   /** Forget entries not used since the previous sweep (called after each complete document pass). */
   sweep(): void;
   clear(): void;
@@ -69,14 +76,15 @@ export function createAnalysisCache(options: AnalysisCacheOptions = {}): Analysi
   return {
     options,
     parse: (text) => parser.parse(text),
-    design(source, settings, token) {
+    design(source, settings, token, incomplete = false) {
+      // `incomplete` follows from the text, so the text and settings are the whole key.
       const key = `${JSON.stringify(settings)}\u0000${source.text}`;
       const hit = entries.get(key);
       if (hit) {
         hit.used = true;
         return relocate(hit.report, source);
       }
-      const report = analyzeDesignSource(source, settings, token, options);
+      const report = analyzeDesignSource(source, settings, token, options, incomplete);
       if (!token?.isCancellationRequested) entries.set(key, { report, used: true });
       return report;
     },
@@ -96,12 +104,17 @@ export function createAnalysisCache(options: AnalysisCacheOptions = {}): Analysi
   };
 }
 
-/** Analyse one design: every corner on the exact model, then every check. */
+/**
+ * Analyse one design: every corner on the exact model, then every check. When the design has language
+ * errors (`incomplete`), the statements they dropped are missing from its model: it is still analysed (for
+ * hovers and the panel) but not judged, since a rule's verdict on a model missing a stage would mislead.
+ */
 export function analyzeDesignSource(
   source: DesignSource,
   settings: CheckSettings,
   token?: CancelToken,
   options: AnalysisCacheOptions = {},
+  incomplete = false,
 ): DesignReport {
   if (!source.nominal) return { source, runs: [], worst: {}, findings: [] };
   // The settling tolerance setting applies only where a design states none of its own.
@@ -115,10 +128,12 @@ export function analyzeDesignSource(
     },
     token,
   );
-  const findings = [
-    ...problemFindings(source, runs),
-    ...runChecks({ source, runs, settings, engine: ENGINE, token }),
-  ];
+  const input = { source, runs, settings, engine: ENGINE, token };
+  // A zero or negative R, C or gm makes every other rule's verdict meaningless: report only that.
+  const invalid = plausibilityCheck(input).filter((f) => f.severity === 'error');
+  const findings = incomplete
+    ? []
+    : [...problemFindings(source, runs), ...(invalid.length ? invalid : runChecks(input))];
   return { source, runs, worst, findings };
 }
 
@@ -163,7 +178,10 @@ export function* analyzeDocumentSteps(
   const designs: DesignReport[] = [];
   for (const source of parsed.designs) {
     if (token?.isCancellationRequested) return assemble(parsed, designs, true);
-    designs.push(cache.design(source, resolved, token));
+    const incomplete = parsed.diagnostics.some(
+      (d) => d.severity === 'error' && rangeContains(source.range, d.range),
+    );
+    designs.push(cache.design(source, resolved, token, incomplete));
     yield designs.length;
   }
   if (token?.isCancellationRequested) return assemble(parsed, designs, true);

@@ -6,6 +6,7 @@ import { formatSi } from '../../../shared/src/format/si';
 import type { SourcePosition } from '../../../shared/src/language/source';
 import { CAUTION } from '../../../shared/src/protocol/panelData';
 import type { DocumentReport, DesignReport } from '../../../shared/src/report';
+import { rangeContains } from '../../../shared/src/checks/index';
 import { designAt } from '../../../shared/src/service';
 import { toRange } from '../convert';
 import { nominal, poleText, polesOf, requirementAcrossRuns, sortedByHz, zeroText } from './describe';
@@ -200,6 +201,14 @@ export function hover(report: DocumentReport, position: SourcePosition): Hover |
   if (!target) return null;
   const lines = body(design, target);
   if (!lines) return null;
+  const errors = report.parsed.diagnostics.filter(
+    (d) => d.severity === 'error' && rangeContains(design.source.range, d.range),
+  ).length;
+  if (errors)
+    lines.push(
+      '',
+      `This design has ${errors} error${errors === 1 ? '' : 's'}: the analysis leaves out what they affect, and the checks wait until they are fixed.`,
+    );
   const problems = design.runs.flatMap((r) => r.analysis.problems.map((p) => p.message));
   if (problems.length) lines.push('', `Not analysed: ${problems[0]}`);
   lines.push('', `_${CAUTION}_`);

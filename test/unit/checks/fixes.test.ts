@@ -137,6 +137,17 @@ describe('analysis cache', () => {
     expect(second.parsed).toEqual(fresh.parsed);
   });
 
+  it('does not judge a design with a language error, and still judges the others', () => {
+    const broken = two.replace(
+      'stage first   gm = gm1  rout = 2 Mohm',
+      'stage first   gm = gm1  rout = 0 ohm',
+    );
+    const report = analyzeDocument(broken);
+    expect(report.parsed.diagnostics.length).toBeGreaterThan(0);
+    expect(designNamed(report, 'bridge_readout')!.findings).toEqual([]);
+    expect(designNamed(report, 'bridge_readout_b')!.findings.map((f) => f.code)).toContain('rhp-zero');
+  });
+
   it('a cancelled analysis says so and caches nothing', () => {
     const cache = createAnalysisCache();
     const report = analyzeDocument(two, undefined, { isCancellationRequested: true }, cache);
