@@ -57,6 +57,8 @@ export class PanelHost implements vscode.Disposable {
   private timer: NodeJS.Timeout | undefined;
   /** Set while a refresh is pending: true when only cursor moves asked for it. */
   private onlyCursorMoved: boolean | undefined;
+  /** Something changed while the panel was hidden. */
+  private staleWhileHidden = false;
   /** The document version the shown data was computed for. */
   private lastVersion: number | undefined;
   private readonly subscriptions: vscode.Disposable[] = [];
@@ -152,8 +154,15 @@ export class PanelHost implements vscode.Disposable {
       styleUri: webview.asWebviewUri(vscode.Uri.joinPath(this.mediaRoot(), 'panel.css')).toString(),
     });
     const messages = webview.onDidReceiveMessage((raw) => void this.onMessage(raw));
+    const shown = panel.onDidChangeViewState((e) => {
+      if (e.webviewPanel.visible && this.staleWhileHidden) {
+        this.staleWhileHidden = false;
+        this.schedule(0);
+      }
+    });
     panel.onDidDispose(() => {
       messages.dispose();
+      shown.dispose();
       this.inFlight?.cancel();
       this.panel = undefined;
     });
@@ -180,6 +189,11 @@ export class PanelHost implements vscode.Disposable {
   /** `cursorOnly`: nothing but the cursor moved, so the panel may be current already (see refresh). */
   private schedule(delay: number, cursorOnly = false): void {
     if (!this.panel) return;
+    if (!this.panel.visible) {
+      // A hidden panel keeps its page (and state); it catches up once it is shown again.
+      this.staleWhileHidden = true;
+      return;
+    }
     if (this.timer) clearTimeout(this.timer);
     this.onlyCursorMoved = cursorOnly && this.onlyCursorMoved !== false;
     this.timer = setTimeout(() => {
