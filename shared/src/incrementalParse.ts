@@ -63,11 +63,21 @@ function shift(value: unknown, delta: number, memo: Map<object, unknown>): unkno
   }
   const src = value as Record<string, unknown>;
   // Positions and ranges are the bulk of the data and never shared in a way that matters: copy directly.
-  if (typeof src['line'] === 'number' && typeof src['character'] === 'number' && Object.keys(src).length === 2)
+  if (
+    typeof src['line'] === 'number' &&
+    typeof src['character'] === 'number' &&
+    Object.keys(src).length === 2
+  )
     return { line: (src['line'] as number) + delta, character: src['character'] };
   const start = src['start'] as Record<string, unknown> | undefined;
   const end = src['end'] as Record<string, unknown> | undefined;
-  if (start && end && typeof start['line'] === 'number' && typeof end['line'] === 'number' && Object.keys(src).length === 2)
+  if (
+    start &&
+    end &&
+    typeof start['line'] === 'number' &&
+    typeof end['line'] === 'number' &&
+    Object.keys(src).length === 2
+  )
     return {
       start: { line: (start['line'] as number) + delta, character: start['character'] },
       end: { line: (end['line'] as number) + delta, character: end['character'] },
