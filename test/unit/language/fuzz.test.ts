@@ -252,3 +252,140 @@ describe('fuzzing', () => {
     expect(problems('design d\n  stage s gm = 1 mS rout = 1 Mohm\nend', shifted)).not.toEqual([]);
   });
 });
+
+/** The text between two positions of a document (LSP positions: line, UTF-16 column). */
+function slice(
+  text: string,
+  r: { start: { line: number; character: number }; end: { line: number; character: number } },
+): string {
+  const starts = [0];
+  for (let i = 0; i < text.length; i++) {
+    const c = text[i];
+    if (c === '\r' && text[i + 1] === '\n') continue;
+    if (c === '\n' || c === '\r') starts.push(i + 1);
+  }
+  return text.slice(starts[r.start.line]! + r.start.character, starts[r.end.line]! + r.end.character);
+}
+
+/** A model without its text positions, to compare models of texts that differ in layout. */
+function shape(value: unknown): unknown {
+  return JSON.parse(
+    JSON.stringify(value, (k, v) =>
+      [
+        'range',
+        'keywordRange',
+        'insertAt',
+        'origin',
+        'betaOrigin',
+        'nameRange',
+        'declaration',
+        'references',
+        'text',
+      ].includes(k)
+        ? undefined
+        : v,
+    ),
+  );
+}
+
+describe('properties of valid designs', () => {
+  it('a design’s text is exactly the document between its range’s ends, for any input', () => {
+    fc.assert(
+      fc.property(
+        fc.oneof(
+          framed,
+          fc.nat({ max: examples.length - 1 }).map((i) => examples[i]!),
+        ),
+        (text) => {
+          for (const d of parseDocument(text).designs) expect(d.text).toBe(slice(text, d.range));
+        },
+      ),
+      { numRuns: 300 },
+    );
+  });
+
+  it('every field origin’s text is the text at its range', () => {
+    for (const text of examples)
+      for (const d of parseDocument(text).designs)
+        for (const m of [d.nominal!, ...d.corners.map((c) => c.model!)])
+          for (const item of [
+            ...m.stages,
+            ...m.loads,
+            ...m.millers,
+            ...m.elements,
+            ...m.requirements,
+            ...m.params,
+          ])
+            for (const f of Object.values(item.origin.fields)) expect(slice(text, f.range)).toBe(f.text);
+  });
+
+  it('comments and blank lines change no model', () => {
+    fc.assert(
+      fc.property(
+        fc.nat({ max: examples.length - 1 }),
+        fc.array(fc.tuple(fc.nat(), fc.constantFrom('   # a remark', '', '# design x', '  #end')), {
+          maxLength: 8,
+        }),
+        (i, edits) => {
+          const lines = examples[i]!.split('\n');
+          for (const [at, extra] of edits) {
+            const k = at % lines.length;
+            if (extra.startsWith('   #')) lines[k] = `${lines[k]}${extra}`;
+            else lines.splice(k, 0, extra);
+          }
+          const edited = parseDocument(lines.join('\n'));
+          expect(edited.diagnostics).toEqual([]);
+          expect(shape(edited.designs)).toEqual(shape(parseDocument(examples[i]!).designs));
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+
+  it('a design means the same alone and among others', () => {
+    fc.assert(
+      fc.property(fc.array(fc.nat({ max: examples.length - 1 }), { minLength: 2, maxLength: 4 }), (picks) => {
+        const texts = picks.map((p, k) => examples[p]!.replace(/^design (\w+)/m, `design $1_${k}`));
+        const together = parseDocument(texts.join('\n'));
+        expect(together.diagnostics).toEqual([]);
+        expect(shape(together.designs)).toEqual(shape(texts.flatMap((t) => parseDocument(t).designs)));
+      }),
+      { numRuns: 50 },
+    );
+  });
+
+  it('the order of statements does not matter, apart from stages (their order sets the default inputs)', () => {
+    const base = examples.find((t) => t.includes('design headphone_driver'))!;
+    const lines = base.split('\n');
+    const first = lines.findIndex((l) => l.startsWith('design'));
+    const last = lines.findIndex((l) => l.startsWith('end'));
+    const body = lines.slice(first + 1, last).filter((l) => l.trim() && !l.trim().startsWith('#'));
+    const stages = body.filter((l) => l.trim().startsWith('stage'));
+    const others = body.filter((l) => !l.trim().startsWith('stage'));
+    const sortModel = (m: unknown): unknown => {
+      const o = shape(m) as Record<string, unknown>;
+      for (const k of Object.keys(o))
+        if (Array.isArray(o[k])) o[k] = (o[k] as unknown[]).map((x) => JSON.stringify(x)).sort();
+      return o;
+    };
+    const reference = parseDocument(base).designs[0]!;
+    fc.assert(
+      fc.property(
+        fc.shuffledSubarray(others, { minLength: others.length }),
+        fc.nat({ max: others.length }),
+        (shuffled, at) => {
+          const mixed = [...shuffled.slice(0, at), ...stages, ...shuffled.slice(at)];
+          const doc = parseDocument([lines[first], ...mixed, 'end'].join('\n'));
+          expect(doc.diagnostics).toEqual([]);
+          const d = doc.designs[0]!;
+          expect(sortModel(d.nominal)).toEqual(sortModel(reference.nominal));
+          // corners are listed in the order written
+          const byName = (cs: typeof d.corners): unknown[] =>
+            [...cs].sort((a, b) => a.name.localeCompare(b.name)).map((c) => sortModel(c.model));
+          expect(byName(d.corners)).toEqual(byName(reference.corners));
+        },
+      ),
+      { numRuns: 100 },
+    );
+  });
+});
