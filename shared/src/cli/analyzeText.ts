@@ -1,6 +1,6 @@
 // `analyze` without --json: readable tables of the exact results, one block per design.
 import type { DesignAnalysis, Pole, Zero } from '../analysis/types';
-import { formatDb, formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
+import { formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
 import { CAUTION } from '../protocol/panelData';
 import type { Finding } from '../checks/types';
 import type { CornerRun, DesignReport, DocumentReport, Worst } from '../report';
@@ -58,13 +58,13 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
     row('loop DC gain', (a) => dbText(dbOf(a.loop.dcGain))),
     row('loop UGF', (a) => opt(a.loop.ugfHz, formatHz)),
     row('phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)),
-    row('gain margin', (a) => opt(a.loop.gainMarginDb, formatDb)),
+    row('gain margin', (a) => opt(a.loop.gainMarginDb, dbText)),
     row('unity crossings', (a) =>
       a.loop.crossings.length === 0
         ? DASH
         : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'}${formatHz(c.hz)}`).join(' '),
     ),
-    row('closed-loop peaking', (a) => formatDb(a.loop.peakingDb)),
+    row('closed-loop peaking', (a) => dbText(a.loop.peakingDb)),
     row('slew rate', (a) => opt(a.slew?.rate, slewText)),
     row(`settling${tol !== undefined ? ` (±${roundSignificant(tol * 100)} %)` : ''}`, (a) =>
       a.step
@@ -143,10 +143,10 @@ function worstLine(d: DesignReport): string {
   };
   add('phase margin', w.phaseMarginDeg, formatDeg);
   add('UGF', w.ugfHz, formatHz);
-  add('gain margin', w.gainMarginDb, formatDb);
+  add('gain margin', w.gainMarginDb, dbText);
   add('slew', w.slew, slewText);
   add('settling', w.settlingTime, (t) => formatSi(t, 's'));
-  add('DC gain', w.dcGainDb, formatDb);
+  add('DC gain', w.dcGainDb, dbText);
   return parts.join(', ');
 }
 

@@ -3,7 +3,7 @@
 // network load, so the page opens the same offline, from an archive or attached to a review.
 import { createHash } from 'node:crypto';
 import type { Finding, Severity } from '../checks/types';
-import { formatDb, formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
+import { formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
 import { CAUTION, type PanelData } from '../protocol/panelData';
 import type { DesignAnalysis } from '../analysis/types';
 import type { CornerRun, DesignReport, Worst } from '../report';
@@ -235,7 +235,7 @@ function keyValues(a: DesignAnalysis, r: DesignReport): string {
   const tiles: [string, string, string][] = [
     ['Unity-gain frequency', opt(a.loop.ugfHz, formatHz), worst(r.worst.ugfHz, formatHz)],
     ['Phase margin', opt(a.loop.phaseMarginDeg, formatDeg), worst(r.worst.phaseMarginDeg, formatDeg)],
-    ['Gain margin', opt(a.loop.gainMarginDb, formatDb), worst(r.worst.gainMarginDb, formatDb)],
+    ['Gain margin', opt(a.loop.gainMarginDb, dbText), worst(r.worst.gainMarginDb, dbText)],
     ['Open-loop DC gain', dbText(dbOf(a.dcGain)), worst(r.worst.dcGainDb, dbText)],
     ['Slew rate', opt(a.slew?.rate, slewText), worst(r.worst.slew, slewText)],
     [
@@ -253,7 +253,7 @@ function cornerTable(runs: readonly CornerRun[]): string {
   const rows: [string, (a: DesignAnalysis) => string][] = [
     ['loop UGF', (a) => opt(a.loop.ugfHz, formatHz)],
     ['phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)],
-    ['gain margin', (a) => opt(a.loop.gainMarginDb, formatDb)],
+    ['gain margin', (a) => opt(a.loop.gainMarginDb, dbText)],
     [
       'unity crossings',
       (a) =>
@@ -261,7 +261,7 @@ function cornerTable(runs: readonly CornerRun[]): string {
           ? '—'
           : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'} ${formatHz(c.hz)}`).join(', '),
     ],
-    ['closed-loop peaking', (a) => formatDb(a.loop.peakingDb)],
+    ['closed-loop peaking', (a) => dbText(a.loop.peakingDb)],
     ['open-loop DC gain', (a) => dbText(dbOf(a.dcGain))],
     ['open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)],
     ['slew rate', (a) => opt(a.slew?.rate, slewText)],
