@@ -198,6 +198,10 @@ export function* analyzeDocumentSteps(
  *
  * Returns every design's runs (nominal first, then corners), worst case and findings, and the whole
  * document's findings (language diagnostics first). Never throws on bad input: errors are findings.
+ * A design with language errors is analysed but not judged (its findings are the language's). Each
+ * finding's `fixes` are solved on first read (and then kept): reading them runs the exact analysis again,
+ * so read them only where they are shown or exported. When `token` is cancelled part-way, the report
+ * holds the designs finished before and is marked `cancelled`.
  */
 export function analyzeDocument(
   text: string,

@@ -16,35 +16,47 @@ import { rhpZeroCheck } from './rhpZero';
 import { secondStageBandwidthCheck } from './secondStageBandwidth';
 import { settlingCheck } from './settling';
 import { slewRateCheck } from './slewRate';
-import type { Finding } from './types';
+import type { CheckCode, Finding } from './types';
 import { unityGainCheck } from './unityGain';
 
 export type { Check, CheckEngine, CheckInput, CompensationTarget } from './context';
 
-/** Every design rule, in the order findings are listed. */
-export const ALL_CHECKS: readonly Check[] = [
-  plausibilityCheck,
-  phaseMarginCheck,
-  gainMarginCheck,
-  unityGainCheck,
-  rhpZeroCheck,
-  gmRatioCheck,
-  nondominantPoleCheck,
-  secondStageBandwidthCheck,
-  complexPolesCheck,
-  doubletCheck,
-  slewRateCheck,
-  settlingCheck,
-  dcGainCheck,
-  approximationCheck,
+/** Every design rule with its code, in the order findings are listed. */
+export const ALL_CHECKS: readonly (readonly [CheckCode, Check])[] = [
+  ['plausibility', plausibilityCheck],
+  ['phase-margin', phaseMarginCheck],
+  ['gain-margin', gainMarginCheck],
+  ['ugf', unityGainCheck],
+  ['rhp-zero', rhpZeroCheck],
+  ['gm-ratio', gmRatioCheck],
+  ['nondominant-pole', nondominantPoleCheck],
+  ['second-stage-bandwidth', secondStageBandwidthCheck],
+  ['complex-poles', complexPolesCheck],
+  ['doublet', doubletCheck],
+  ['slew-rate', slewRateCheck],
+  ['settling', settlingCheck],
+  ['dc-gain', dcGainCheck],
+  ['approximation', approximationCheck],
 ];
 
 /** Run every rule on one analysed design. A rule that throws is reported, never allowed to stop the rest. */
 export function runChecks(input: CheckInput): Finding[] {
   const findings: Finding[] = [];
-  for (const check of ALL_CHECKS) {
+  for (const [code, check] of ALL_CHECKS) {
     if (input.token?.isCancellationRequested) break;
-    findings.push(...check(input));
+    try {
+      findings.push(...check(input));
+    } catch (error) {
+      findings.push({
+        code,
+        severity: 'info',
+        message: `The ${code} rule could not be evaluated for this design: ${error instanceof Error ? error.message : String(error)}`,
+        design: input.source.name,
+        range: input.source.nameRange,
+        related: [],
+        fixes: [],
+      });
+    }
   }
   return findings;
 }
