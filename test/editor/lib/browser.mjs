@@ -72,8 +72,9 @@ export async function quickOpen(page, fileName) {
 /** Puts keyboard focus in the first editor group and waits until its active editor is `fileName`. */
 export async function focusFirstGroup(page, fileName) {
   await page.keyboard.press('Escape');
-  // Focus may sit inside a webview's frame; a click on the editor's text area brings it back.
-  await page.locator('.editor-group-container').first().locator('.monaco-editor .view-lines').first().click();
+  // Focus may sit inside a webview's frame; a click on the group's active tab brings it back without
+  // moving the cursor.
+  await page.locator('.editor-group-container').first().locator('.tab.active').first().click();
   await page.keyboard.press('Control+1');
   await poll(`the editor of ${fileName} to be in front`, async () =>
     (await page.title()).includes(fileName) ? true : undefined,
@@ -145,6 +146,42 @@ export async function squiggleLines(page) {
       visible: numbers.map((n) => n.line).filter((l) => Number.isFinite(l)),
     };
   });
+}
+
+/** The document text of a one-based line of the first group's editor as drawn, without inlay hints
+ * (undefined when the line is not on screen). */
+export async function lineText(page, line) {
+  return page.evaluate((line) => {
+    const editor = document.querySelector('.editor-instance .monaco-editor');
+    if (!editor) return undefined;
+    const number = [...editor.querySelectorAll('.margin-view-overlays .line-numbers')].find(
+      (el) => Number(el.textContent?.trim()) === line,
+    );
+    if (!number) return undefined;
+    const r = number.getBoundingClientRect();
+    const mid = (r.top + r.bottom) / 2;
+    const view = [...editor.querySelectorAll('.view-lines .view-line')].find((el) => {
+      const b = el.getBoundingClientRect();
+      return mid >= b.top && mid <= b.bottom;
+    });
+    if (!view) return undefined;
+    // Inlay hints are drawn as spans with a generated rule class beside the token class; only the
+    // token spans hold the document's own text.
+    const own = [...view.querySelectorAll('span[class]')].filter(
+      (el) => /\bmtk\d+\b/.test(el.className) && !/dyn-rule|ced-/.test(el.className),
+    );
+    return own
+      .map((el) => el.textContent)
+      .join('')
+      .replace(/\u00a0/g, ' ');
+  }, line);
+}
+
+/** The phase margin in the status bar's design summary, in degrees (undefined when not shown). */
+export async function statusBarPm(page) {
+  const items = await page.locator('#workbench\\.parts\\.statusbar .statusbar-item').allInnerTexts();
+  const m = items.map((t) => t.match(/PM\s*([-−]?\d+(?:\.\d+)?)\s*°/)).find(Boolean);
+  return m ? Number(m[1].replace('−', '-')) : undefined;
 }
 
 /** Errors, warnings and infos as the status bar's problems item reads them out. */

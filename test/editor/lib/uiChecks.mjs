@@ -5,6 +5,8 @@ import { join } from 'node:path';
 import {
   focusFirstGroup,
   goToLine,
+  lineText,
+  statusBarPm,
   poll,
   problemCounts,
   quickOpen,
@@ -264,6 +266,34 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     await screenshot(page, output, 'panel-slider');
   });
 
+  await check(
+    'UI: Apply to file writes the slider value into the Miller line; one undo takes it back',
+    async () => {
+      if (!frame) throw new Error('the panel did not open');
+      const line = millerLine + 1;
+      const before = await lineText(page, line);
+      if (before === undefined) throw new Error(`line ${line} is not on screen`);
+      const shown = await frame.locator('#cc-value').innerText();
+      await frame.locator('#apply').click();
+      const after = await poll('the Miller line to take the value', async () => {
+        const t = await lineText(page, line);
+        return t !== undefined && t !== before ? t : undefined;
+      });
+      console.log(`        slider ${shown.trim()}: "${before.trim()}" → "${after.trim()}"`);
+      const want = faradsIn(shown);
+      const got = faradsIn(after.slice(after.indexOf('cc')));
+      if (want === undefined || got === undefined || Math.abs(got - want) > 0.01 * want) {
+        throw new Error(`the slider shows ${shown} but the line reads "${after.trim()}"`);
+      }
+      await focusFirstGroup(page, show.file);
+      await page.keyboard.press('Control+Z');
+      await goToLine(page, line, 1);
+      await poll('one undo to restore the line as written', async () =>
+        (await lineText(page, line)) === before ? true : undefined,
+      );
+    },
+  );
+
   await check('UI: Analyze File lists the designs with their phase margin', async () => {
     // The command is offered for .ampnote editors: bring the file back in front of the panel.
     await focusFirstGroup(page, show.file);
@@ -296,6 +326,71 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     await screenshot(page, output, 'analyze-file');
     await page.keyboard.press('Escape');
   });
+
+  const fixTarget = preferredPmFix(expected);
+  await check(
+    'UI: the quick-fix menu (Ctrl+.) applies the preferred phase-margin fix; undo restores',
+    async () => {
+      if (!fixTarget)
+        throw new Error('no example has a phase-margin finding with a preferred fix that sets a value');
+      const { file, finding, title, pm, design } = fixTarget;
+      const line = finding.range.start.line + 1;
+      await quickOpen(page, file);
+      await goToLine(page, line, finding.range.start.character + 2);
+      const before = await lineText(page, line);
+      const pmBefore = await poll('the status bar PM', () => statusBarPm(page));
+      await page.keyboard.press('Control+.');
+      // The preferred fix is the one the menu puts the focus on; Enter applies it, as a person would.
+      const item = page.locator('.action-widget .monaco-list-row.focused', { hasText: title }).first();
+      await item.waitFor({ state: 'visible', timeout: 15_000 });
+      await screenshot(page, output, 'quick-fix-menu');
+      await page.keyboard.press('Enter');
+      const after = await poll('the fix to edit the line', async () => {
+        const t = await lineText(page, line);
+        return t !== undefined && t !== before ? t : undefined;
+      });
+      // Without corners the status bar's PM is the nominal one the fix solved for.
+      const single = design && design.phaseMarginDeg.nominal === design.phaseMarginDeg.worst;
+      const pmAfter = await poll(`the status bar PM to reach ${pm}°`, async () => {
+        const v = await statusBarPm(page);
+        if (v === undefined || v === pmBefore) return undefined;
+        return !single || v >= pm - 0.051 ? v : undefined;
+      });
+      console.log(
+        `        "${title}": "${before.trim()}" → "${after.trim()}", PM ${pmBefore}° → ${pmAfter}°`,
+      );
+      await screenshot(page, output, 'quick-fix-applied');
+      await page.keyboard.press('Control+Z');
+      await poll('undo to restore the line and the PM', async () =>
+        (await lineText(page, line)) === before && (await statusBarPm(page)) === pmBefore ? true : undefined,
+      );
+    },
+  );
+}
+
+/** A phase-margin finding whose preferred fix sets a value for a stated margin, examples first. */
+function preferredPmFix(expected) {
+  const ordered = [...expected].sort((a, b) => Number(a.file.includes('/')) - Number(b.file.includes('/')));
+  for (const e of ordered) {
+    for (const f of e.findings.filter((x) => x.code === 'phase-margin')) {
+      const fix = f.fixes?.find((x) => x.preferred && /for\s+([\d.]+)\s*°\s*phase margin/.test(x.title));
+      if (!fix) continue;
+      const pm = Number(fix.title.match(/for\s+([\d.]+)\s*°/)[1]);
+      const design = e.designs.find(
+        (d) => d.range.start.line <= f.range.start.line && f.range.start.line <= d.range.end.line,
+      );
+      return { file: e.file, finding: f, title: fix.title, pm, design };
+    }
+  }
+  return undefined;
+}
+
+/** A capacitance written with an SI prefix (`1.6 pF`, `820 fF`) in farads; undefined when none. */
+function faradsIn(text) {
+  const m = text.match(/(\d+(?:\.\d+)?(?:[eE][-+]?\d+)?)\s*([afpnuµm]?)F\b/);
+  if (!m) return undefined;
+  const scale = { a: 1e-18, f: 1e-15, p: 1e-12, n: 1e-9, u: 1e-6, µ: 1e-6, m: 1e-3, '': 1 }[m[2]];
+  return Number(m[1]) * scale;
 }
 
 /** Diagnostics of the packaged extension on one example, seen in the UI. */
