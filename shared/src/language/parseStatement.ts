@@ -77,11 +77,13 @@ class StatementParser {
 
   name(what: string | (() => string)): Token {
     const t = this.c.peek();
-    const w = (): string => (typeof what === 'string' ? what : what());
-    if (!t) this.fail(`Missing ${w()} after ${quote(this.c.last()!.text)}.`, this.lastRange());
-    if (t.kind !== 'ident') this.fail(`Expected ${w()}, found ${quote(t.text)}.`, tokenRange(t));
-    this.c.next();
-    return t;
+    if (t?.kind === 'ident') {
+      this.c.next();
+      return t;
+    }
+    const w = typeof what === 'string' ? what : what();
+    if (!t) this.fail(`Missing ${w} after ${quote(this.c.last()!.text)}.`, this.lastRange());
+    this.fail(`Expected ${w}, found ${quote(t.text)}.`, tokenRange(t));
   }
 
   // Messages are thunks: they are only built when something is wrong, which keeps parsing cheap.
@@ -313,14 +315,12 @@ export function parseStatement(line: LexedLine, text: string, sink: DiagnosticSi
   parts.overrides ??= kind === 'corner' ? [] : undefined;
   if (kind === 'node') parts.names ??= [];
   if (p.polarity) parts.polarity = p.polarity;
-  return {
-    ...parts,
-    keyword,
-    range: spanRange(keyword, lastToken),
-    insertAt: tokenEnd(lastToken),
-    fields: p.fields,
-    broken: p.broken,
-  } as unknown as Statement;
+  parts.keyword = keyword;
+  parts.range = spanRange(keyword, lastToken);
+  parts.insertAt = tokenEnd(lastToken);
+  parts.fields = p.fields;
+  parts.broken = p.broken;
+  return parts as unknown as Statement;
 }
 
 function parseRequirement(p: StatementParser, parts: Record<string, unknown>): void {
