@@ -168,6 +168,9 @@ describe.each(cases.map((c) => [c.label, c] as const))('engine data for %s', (_l
       const i = mag.data.findIndex((p) => p.x > analysis.loop.ugfHz!);
       expect(i).toBeGreaterThan(0);
       expect(Math.sign(mag.data[i - 1]!.y)).not.toBe(Math.sign(mag.data[i]!.y));
+      const crossings = byRole(drawn, 'bode', 'crossing')[0]!;
+      expect(crossings.data.map((p) => p.x)).toEqual(analysis.loop.crossings.map((k) => k.hz));
+      expect(crossings.data.every((p) => p.y === 0)).toBe(true);
       const pm = byRole(drawn, 'bode', 'phase-margin')[0]!;
       expect(pm.data[0]!.y).toBe(-180);
       expect(pm.data[1]!.y).toBeCloseTo(analysis.loop.phaseMarginDeg! - 180, 9);

@@ -51,6 +51,7 @@ export type DatasetRole =
   | 'ugf'
   | 'phase-margin'
   | 'phase-reference'
+  | 'crossing'
   | 'step'
   | 'band-low'
   | 'band-high'
@@ -390,6 +391,24 @@ function bodeConfig(data: PanelData, colors: ChartColors): ChartConfiguration<'s
         },
       ),
     );
+  }
+  // Every unity crossing, not only the last: a loop that crosses three times can look healthy at the first.
+  const crossings = b.crossings.filter((c) => finite(c.hz));
+  if (crossings.length > 0) {
+    datasets.push({
+      role: 'crossing',
+      label: crossings.length === 1 ? 'unity crossing' : `unity crossings (${crossings.length})`,
+      data: crossings.map((c) => ({ x: c.hz, y: 0 })),
+      yAxisID: 'y',
+      showLine: false,
+      pointStyle: 'circle',
+      pointRadius: 4,
+      pointHoverRadius: 4,
+      pointHitRadius: 0,
+      borderWidth: 2,
+      borderColor: colors.marker,
+      backgroundColor: colors.background,
+    } as RoleDataset);
   }
   if (finite(b.ugfHz) && dbs.length > 0) {
     datasets.push(
