@@ -12,6 +12,7 @@ import { hover } from '../../server/src/features/hover';
 import { inlayHints } from '../../server/src/features/inlayHints';
 import { prepareRename, rename } from '../../server/src/features/rename';
 import { documentSymbols } from '../../server/src/features/symbols';
+import { applyEdits } from './lspClient';
 
 /** Split `text` at its `|` marker: the text without it and the marker's position. */
 function cursor(marked: string) {
@@ -116,6 +117,20 @@ describe('names', () => {
     expect(() => rename(c.report, 'u', c.position, '2x')).toThrow(/not a name/);
     expect(() => rename(c.report, 'u', c.position, 'stage')).toThrow(/word of the language/);
   });
+  it('renames a stage everywhere its node is named, and the design reads the same', () => {
+    const c = cursor(DESIGN('  corner slow second.gm = 1.2 mS\n').replace('stage second', 'stage sec|ond'));
+    const edit = rename(c.report, 'u', c.position, 'driver')!;
+    const lines = new Set(edit.changes!['u']!.map((e) => e.range.start.line));
+    expect([...lines].sort()).toEqual([3, 5, 8]); // the stage, the Miller line, the corner override
+    const renamed = applyEdits(c.text, edit.changes!['u']!);
+    expect(renamed).not.toMatch(/\bsecond\b/);
+    const after = analyzeDocument(renamed);
+    expect(after.parsed.diagnostics).toEqual([]);
+    expect(after.designs[0]!.runs.map((r) => r.analysis.loop.phaseMarginDeg)).toEqual(
+      c.report.designs[0]!.runs.map((r) => r.analysis.loop.phaseMarginDeg),
+    );
+  });
+
   it('refuses to rename a keyword', () => {
     const c = cursor(DESIGN('').replace('miller first', 'mil|ler first'));
     expect(prepareRename(c.report, c.position)).toBeNull();
