@@ -299,7 +299,7 @@ class ModelBuilder {
     if (q && !Number.isFinite(q.value)) {
       this.sink.error(
         'plausibility',
-        `Parameter ${quote(name)} is not a finite number (a division by zero?).`,
+        `Parameter ${quote(name)} is not a finite number (a division by zero, or a number too large?).`,
         expr.range,
       );
       q = undefined;
@@ -989,7 +989,7 @@ function checkConnections(scope: DesignScope): void {
     }
   }
   for (const [name, d] of scope.decls) {
-    if (d.kind !== 'node' || attached.has(name)) continue;
+    if (d.kind !== 'node' || attached.has(name) || scope.design.brokenMentions.has(name)) continue;
     scope.sink.warning(
       'reference',
       sensed.has(name)

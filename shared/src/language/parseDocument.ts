@@ -33,6 +33,7 @@ interface OpenDesign {
   readonly name: string;
   readonly statements: Statement[];
   readonly tentative: Token[];
+  readonly brokenMentions: Set<string>;
   lastToken: Token;
 }
 
@@ -65,6 +66,7 @@ export function parseDocument(text: string): ParsedDocument {
       range,
       statements: d.statements,
       tentativeNames: d.tentative,
+      brokenMentions: d.brokenMentions,
       closed: endToken !== undefined,
     };
     if (d.nameToken) {
@@ -110,6 +112,7 @@ export function parseDocument(text: string): ParsedDocument {
       name: name?.text ?? '',
       statements: [],
       tentative: [],
+      brokenMentions: new Set(),
       lastToken: name ?? keyword!,
     };
   };
@@ -143,6 +146,8 @@ export function parseDocument(text: string): ParsedDocument {
     const statement = parseStatement(lexed, lines[i]!, sink);
     if (statement) open.statements.push(statement);
     else if (lexed.tokens[1]?.kind === 'ident') open.tentative.push(lexed.tokens[1]);
+    if (!statement || statement.broken)
+      for (const t of lexed.tokens) if (t.kind === 'ident') open.brokenMentions.add(t.text);
   }
   if (open) close(undefined);
   const diagnostics = [...sink.items].sort(

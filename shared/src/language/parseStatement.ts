@@ -363,7 +363,12 @@ function parseRequirement(p: StatementParser, parts: Record<string, unknown>): v
   const op =
     opToken?.kind === 'op' && (opToken.text === '>=' || opToken.text === '<=') ? opToken.text : undefined;
   if (!op) {
-    p.fail(`Expected \`>=\` or \`<=\` after ${quote(req)}.`, opToken ? tokenRange(opToken) : tokenRange(k));
+    const strict = opToken?.text === '>' || opToken?.text === '<';
+    p.fail(
+      `Expected \`>=\` or \`<=\` after ${quote(req)}.` +
+        (strict ? ` A requirement includes its bound: write \`${opToken!.text}=\`.` : ''),
+      opToken ? tokenRange(opToken) : tokenRange(k),
+    );
   }
   if (req === 'zero' && op === '<=')
     p.fail('A zero requirement is a lower bound: write `require zero >= 10 * ugf`.', tokenRange(opToken!));

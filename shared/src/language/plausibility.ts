@@ -105,7 +105,11 @@ export function checkValue(
   const rule = RULES[role];
   const name = quote(field);
   if (!Number.isFinite(value)) {
-    sink.error('plausibility', `The value of ${name} is not a finite number (a division by zero?).`, range);
+    sink.error(
+      'plausibility',
+      `The value of ${name} is not a finite number (a division by zero, or a number too large?).`,
+      range,
+    );
     return false;
   }
   const impossible = (message: string): false => {

@@ -89,6 +89,8 @@ export interface DesignSyntax {
    * name that line meant to declare. Uses of it stay silent, since the line is already reported.
    */
   readonly tentativeNames: readonly Token[];
+  /** Every word on a line with a syntax error: such a line may connect a node, so no node it names is called unconnected. */
+  readonly brokenMentions: ReadonlySet<string>;
   /** False when the file ended (or another design began) before `end`. */
   readonly closed: boolean;
 }
