@@ -355,9 +355,10 @@ describe('--format sarif', () => {
   );
   const files = ['clean.ampnote', 'marginal.ampnote', 'broken.ampnote'];
   let log: Sarif.Log;
-  const dir = tempDir('sarif');
-  afterAll(() => dir.remove());
+  let dir: ReturnType<typeof tempDir>;
+  afterAll(() => dir?.remove());
   beforeAll(() => {
+    dir = tempDir('sarif');
     const r = cli(
       ['check', ...files.map((f) => join(FIXTURES, f)), 'missing.ampnote', '--format', 'sarif'],
       dir.path,

@@ -10,11 +10,12 @@ import { analyzeDocument } from '../../shared/src/service';
 import { cli, ensureBuilt, FIXTURES, ROOT, tempDir } from './helpers';
 
 const CHARTS = ['locus', 'bode', 'step', 'splane'] as const;
-const dir = tempDir('report');
+let dir: ReturnType<typeof tempDir>;
 let browser: Browser;
 
 beforeAll(async () => {
   ensureBuilt();
+  dir = tempDir('report');
   browser = await chromium.launch({
     executablePath: '/usr/bin/chromium',
     args: [
@@ -32,7 +33,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
-  dir.remove();
+  dir?.remove();
 });
 
 /** Writes the report of `file` into a fresh folder and returns the page opened from it, with every request seen. */
