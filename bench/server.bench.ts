@@ -103,6 +103,23 @@ async function main() {
   const { client, readyMs } = await LspClient.start();
   try {
     console.log(`server ready (spawn → initialize answered) ${ms(readyMs)} (target ≤ 300 ms)`);
+    for (const file of readdirSync(resolve(ROOT, 'examples')).filter((f) => f.endsWith('.ampnote'))) {
+      const text = readFileSync(resolve(ROOT, 'examples', file), 'utf8');
+      const euri = `file:///bench/${file}`;
+      client.open(euri, text);
+      await client.diagnosticsFor(euri, 1, 60_000);
+      const lags: number[] = [];
+      for (let i = 1; i <= 10; i++) {
+        const t = performance.now();
+        const v = client.change(euri, editValue(text, i));
+        await client.diagnosticsFor(euri, v, 60_000);
+        lags.push(performance.now() - t - 200);
+      }
+      console.log(
+        `  server: ${file.padEnd(32)} edit → diagnostics minus the 200 ms debounce ${ms(median(lags))}`,
+      );
+      client.close(euri);
+    }
     const uri = 'file:///bench/big.ampnote';
     const tOpen = performance.now();
     client.open(uri, big);
