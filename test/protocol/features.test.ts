@@ -180,6 +180,18 @@ describe('inline values, lenses and actions', () => {
     });
     expect(at.length).toBeGreaterThan(0);
     expect(at.every((a) => a.kind === 'quickfix' && a.edit?.changes?.['u']?.length)).toBe(true);
+    const refactor = codeActions(c.report, {
+      textDocument: { uri: 'u' },
+      range: finding.range,
+      context: { diagnostics: [], only: ['refactor'] },
+    });
+    expect(refactor).toEqual([]);
+    const asked = codeActions(c.report, {
+      textDocument: { uri: 'u' },
+      range: finding.range,
+      context: { diagnostics: [], only: ['quickfix'] },
+    });
+    expect(asked).toHaveLength(at.length);
     const none = codeActions(c.report, {
       textDocument: { uri: 'u' },
       range: { start: { line: 4, character: 0 }, end: { line: 4, character: 1 } },

@@ -8,7 +8,10 @@ export function codeActions(report: DocumentReport, params: CodeActionParams): C
   const only = params.context.only;
   if (
     only &&
-    !only.some((k) => CodeActionKind.QuickFix.startsWith(k) || k.startsWith(CodeActionKind.QuickFix))
+    // A quick fix answers a request for `quickfix` or for a kind it belongs to (`` is every kind).
+    !only.some(
+      (k) => k === '' || k === CodeActionKind.QuickFix || CodeActionKind.QuickFix.startsWith(`${k}.`),
+    )
   )
     return [];
   const actions: CodeAction[] = [];
