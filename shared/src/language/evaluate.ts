@@ -22,7 +22,7 @@ import type {
   Stage,
   SymbolInfo,
 } from './model';
-import { checkValue, type ValueRole } from './plausibility';
+import { checkValue, type ValueRole, type ViaParam } from './plausibility';
 import type { SourceRange } from './source';
 import { RESERVED_NAMES } from './parseStatement';
 import type { DesignSyntax, OverrideSyntax, Statement } from './syntax';
@@ -409,9 +409,17 @@ class ModelBuilder {
       );
       return fail();
     }
-    if (!checkValue(role, displayName, q.value, expr, expr.range, this.sink)) return fail();
+    if (!checkValue(role, displayName, q.value, expr, expr.range, this.sink, this.viaParam(expr)))
+      return fail();
     const param = expr.kind === 'ref' && this.scope.params.has(expr.name) ? expr.name : undefined;
     return { status: 'ok', value: q.value, origin: { range: expr.range, text, ...(param ? { param } : {}) } };
+  }
+
+  /** For `gm = gm1` where `param gm1 = 150` (a literal, not overridden here): that literal. */
+  private viaParam(expr: Expr): ViaParam | undefined {
+    if (expr.kind !== 'ref' || this.overrides.params.has(expr.name)) return undefined;
+    const literal = this.scope.params.get(expr.name)?.fields[0]?.expr;
+    return literal?.kind === 'number' ? { name: expr.name, literal } : undefined;
   }
 
   // ---- nodes ----
@@ -787,6 +795,15 @@ class ModelBuilder {
       const tol = this.field(s, 'tolerance', 'one', 'tolerance');
       const within = this.field(s, 'within', 's', 'within');
       if (tol.status !== 'ok' || within.status !== 'ok') return undefined;
+      const written =
+        this.overrides.fields.get(s)?.get('tolerance')?.expr ??
+        s.fields.find((f) => f.name === 'tolerance')?.expr;
+      if (written?.kind === 'number' && written.unitText === undefined && tol.value >= 0.01)
+        this.sink.warning(
+          'plausibility',
+          `A plain tolerance is a fraction: ${written.numberText} is ${Number((tol.value * 100).toPrecision(6))} %. Write ${quote(`${written.numberText} %`)} if you meant percent.`,
+          written.range,
+        );
       return {
         kind: 'settle',
         tolerance: si(tol.value),

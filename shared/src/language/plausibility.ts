@@ -67,6 +67,8 @@ const SLEW_SPELLINGS: readonly [string, number][] = [
 /** `1.2 pF` for a literal that was probably meant with another prefix. */
 function suggestPrefix(expr: Expr, rule: Rule): string | undefined {
   if (expr.kind !== 'number' || !rule.unit || rule.unit === 'deg' || rule.unit === 'dB') return undefined;
+  // A literal in exponent form was written deliberately; a prefix would only obscure it.
+  if (/[eE]/.test(expr.numberText)) return undefined;
   const n = Number(expr.numberText);
   if (!(n > 0)) return undefined;
   const options: [string, number][] =
@@ -94,6 +96,12 @@ const show = (v: number, unit: string): string =>
  * Checks one evaluated value; returns false when it is physically impossible (reported as an error), in which
  * case the statement is left out of the model.
  */
+/** The parameter a field names, when the field is exactly that parameter and it is set by a literal. */
+export interface ViaParam {
+  readonly name: string;
+  readonly literal: Expr;
+}
+
 export function checkValue(
   role: ValueRole,
   field: string,
@@ -101,6 +109,7 @@ export function checkValue(
   expr: Expr,
   range: SourceRange,
   sink: Reporter,
+  via?: ViaParam,
 ): boolean {
   const rule = RULES[role];
   const name = quote(field);
@@ -184,13 +193,15 @@ export function checkValue(
   }
   const mag = role === 'gainmargin' || role === 'dcgain' ? value : Math.abs(value);
   if (mag < rule.low || mag > rule.high) {
-    const suggestion = suggestPrefix(expr, rule);
+    const suggestion = suggestPrefix(via?.literal ?? expr, rule);
     const usual = `${show(rule.low, rule.unit)} to ${show(rule.high, rule.unit)}`;
+    const meant = suggestion && (via ? `${via.name} = ${suggestion}` : suggestion);
     sink.warning(
       'plausibility',
       `${show(value, rule.unit)} is far outside the usual range for ${rule.what} (${usual}).` +
-        (suggestion ? ` A missing prefix? Did you mean ${quote(suggestion)}?` : ''),
+        (meant ? ` A missing prefix? Did you mean ${quote(meant)}?` : ''),
       range,
+      via ? [{ range: via.literal.range, message: `${quote(via.name)} is set here` }] : undefined,
     );
   }
   return true;

@@ -535,6 +535,20 @@ const cases: Case[] = [
     '6 V/s is far outside the usual range for a slew rate (1 kV/s to 10 TV/s). A missing prefix? Did you mean `6 V/us`?',
   ],
   [
+    'no prefix suggested for a literal in exponent form',
+    d('  load cap = ⟦1e20⟧'),
+    'plausibility',
+    'warning',
+    '100000000 TF is far outside the usual range for a capacitance (1 aF to 10 mF).',
+  ],
+  [
+    'a plain tolerance above 1 %',
+    d('  require settle ⟦0.1⟧ within 200 ns'),
+    'plausibility',
+    'warning',
+    'A plain tolerance is a fraction: 0.1 is 10 %. Write `0.1 %` if you meant percent.',
+  ],
+  [
     'huge expression',
     d('  param c = 2 F\n  load cap = ⟦c * 10⟧'),
     'plausibility',
@@ -561,6 +575,21 @@ describe('every diagnostic, with its exact range', () => {
 });
 
 describe('related information', () => {
+  it('suggests the prefix at the parameter a field names', () => {
+    const { text, ranges } = marked(d('  param gm1 = ⟦150⟧\n  stage t gm = ⟦gm1⟧ rout = 1 Mohm'));
+    const diags = parseDocument(text).diagnostics;
+    expect(diags).toEqual([
+      {
+        code: 'plausibility',
+        severity: 'warning',
+        message:
+          '150 S is far outside the usual range for a transconductance (1 nS to 1 S). A missing prefix? Did you mean `gm1 = 150 uS`?',
+        range: ranges[1],
+        related: [{ range: ranges[0], message: '`gm1` is set here' }],
+      },
+    ]);
+  });
+
   it('points a duplicate at the first declaration', () => {
     const { text, ranges } = marked(d('  param ⟦g⟧ = 1\n  node ⟦g⟧'));
     const [diag] = parseDocument(text).diagnostics;
