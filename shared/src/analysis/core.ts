@@ -55,10 +55,12 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
   const system = real.system;
   const pz = poleZeroGain(system);
   const scale = Math.max(rootScale(pz.poles), rootScale(pz.zeros));
-  // The light path (synthesis) skips Newton polishing: it only matters for poles set by a
-  // near-cancellation in G, and the full analysis of the result polishes them.
-  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale, !light).sort(byMagnitude);
-  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, !light).sort(byMagnitude);
+  // Newton polishing recovers digits the rotated realisation loses (near-cancellations in G, capacitances
+  // many decades apart); the light path (synthesis) skips it, and the full analysis of the result
+  // polishes them.
+  const polish = !light;
+  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale, polish).sort(byMagnitude);
+  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, polish).sort(byMagnitude);
   const open = { poles, zeros, k: pz.k, relativeDegree: pz.relativeDegree };
   const sign = lowFrequencySign(open);
   const atOrigin = (r: Complex) => r.re === 0 && r.im === 0;

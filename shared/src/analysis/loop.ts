@@ -79,31 +79,49 @@ export function logMagnitudeFunction(pz: PoleZeroForm): (u: number) => number {
   };
 }
 
-/** ln|H|² sampled on a grid of u = ln ω. */
+/** |H|² sampled on a grid of ω, with ln|H|² at ω = e^u for refinement. */
 export interface Samples {
   readonly us: Float64Array;
-  readonly fs: Float64Array;
+  /** |H(jω)|² at ω = e^us[i]. */
+  readonly ms: Float64Array;
   readonly f: (u: number) => number;
 }
 
 export function sample(pz: PoleZeroForm, grid: readonly number[]): Samples {
   const f = logMagnitudeFunction(pz);
-  const us = new Float64Array(grid.length);
-  const fs = new Float64Array(grid.length);
-  for (let i = 0; i < grid.length; i++) {
-    us[i] = Math.log(grid[i]);
-    fs[i] = f(us[i]);
+  const n = grid.length;
+  const us = new Float64Array(n);
+  const ms = new Float64Array(n);
+  const nz = pz.zeros.length;
+  const np = pz.poles.length;
+  const k2 = pz.k * pz.k;
+  for (let i = 0; i < n; i++) {
+    const w = grid[i];
+    us[i] = Math.log(w);
+    let m = k2;
+    for (let j = 0; j < nz; j++) {
+      const z = pz.zeros[j];
+      const di = w - z.im;
+      m *= z.re * z.re + di * di;
+    }
+    for (let j = 0; j < np; j++) {
+      const p = pz.poles[j];
+      const di = w - p.im;
+      m /= p.re * p.re + di * di;
+    }
+    ms[i] = m;
   }
-  return { us, fs, f };
+  return { us, ms, f };
 }
 
 /**
- * All ω where |gain·H(jω)| = 1 (offset = ln gain²), lowest first, with direction. Sign changes on the grid
- * are refined by Brent; a grid extremum close to unity is refined by golden search so that a narrow
- * excursion through unity between two grid points is not missed.
+ * All ω where |gain·H(jω)| = 1 (gain2 = gain²), lowest first, with direction. Sign changes of
+ * gain²·|H|² − 1 on the grid are refined by Brent on ln|gain·H|²; a grid extremum close to unity is refined
+ * by golden search so that a narrow excursion through unity between two grid points is not missed.
  */
-export function crossingsOf(s: Samples, offset = 0): { omega: number; down: boolean }[] {
-  const { us, fs } = s;
+export function crossingsOf(s: Samples, gain2 = 1): { omega: number; down: boolean }[] {
+  const { us, ms } = s;
+  const offset = Math.log(gain2);
   const f = (u: number) => s.f(u) + offset;
   const out: { omega: number; down: boolean }[] = [];
   const bracket = (a: number, b: number, fa: number, fb: number) => {
@@ -112,25 +130,28 @@ export function crossingsOf(s: Samples, offset = 0): { omega: number; down: bool
   };
   const n = us.length;
   for (let i = 0; i + 1 < n; i++) {
-    const fa = fs[i] + offset;
-    const fb = fs[i + 1] + offset;
-    if (!Number.isFinite(fa) || !Number.isFinite(fb)) continue;
-    if (fa > 0 !== fb > 0) bracket(us[i], us[i + 1], fa, fb);
+    const a = ms[i] * gain2;
+    const b = ms[i + 1] * gain2;
+    if (!(a > 0 && b > 0 && a < Infinity && b < Infinity)) continue;
+    if (a > 1 !== b > 1) bracket(us[i], us[i + 1], Math.log(a), Math.log(b));
   }
+  // e^±0.7: extrema this close to unity are searched for a hidden pair of crossings.
+  const lo = 0.4966;
+  const hi = 2.0138;
   for (let i = 1; i + 1 < n; i++) {
-    const fm = fs[i] + offset;
-    if (Math.abs(fm) > 0.7 || !Number.isFinite(fm)) continue;
-    const fl = fs[i - 1] + offset;
-    const fr = fs[i + 1] + offset;
-    const isPeak = fm >= fl && fm >= fr && fm < 0;
-    const isDip = fm <= fl && fm <= fr && fm > 0;
+    const m = ms[i] * gain2;
+    if (!(m > lo && m < hi)) continue;
+    const l = ms[i - 1] * gain2;
+    const r = ms[i + 1] * gain2;
+    const isPeak = m >= l && m >= r && m < 1;
+    const isDip = m <= l && m <= r && m > 1;
     if (!isPeak && !isDip) continue;
     const sign = isPeak ? 1 : -1;
     const ext = goldenMax((u) => sign * f(u), us[i - 1], us[i + 1], 1e-12);
     const fe = sign * ext.value;
-    if (fe > 0 === fm > 0) continue;
-    bracket(us[i - 1], ext.x, fl, fe);
-    bracket(ext.x, us[i + 1], fe, fr);
+    if (fe > 0 === m > 1) continue;
+    bracket(us[i - 1], ext.x, Math.log(l), fe);
+    bracket(ext.x, us[i + 1], fe, Math.log(r));
   }
   out.sort((a, b) => a.omega - b.omega);
   return out;
@@ -190,7 +211,7 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
   const { open, beta, sign, grid, tiny } = input;
   const loop: PoleZeroForm = { ...open, k: open.k * beta * sign };
   const dcLoop = Math.abs(beta * input.dcGain);
-  const crossings: Crossing[] = crossingsOf(input.samples, Math.log(beta * beta)).map((c) => ({
+  const crossings: Crossing[] = crossingsOf(input.samples, beta * beta).map((c) => ({
     hz: c.omega / (2 * Math.PI),
     direction: c.down ? 'down' : 'up',
     phaseDeg: unwrappedPhaseDeg(loop, c.omega, tiny),

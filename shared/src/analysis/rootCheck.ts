@@ -200,7 +200,7 @@ function refineAll(
   D: () => Float64Array,
   doPolish: boolean,
 ): Complex[] {
-  if (!doPolish) return roots;
+  if (!doPolish || roots.length === 0) return roots;
   const residual = (s: Complex) => {
     const p = pencilAt(s);
     return lastPivot(complexLuFactor(p.re, p.im, p.m));
