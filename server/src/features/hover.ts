@@ -10,7 +10,7 @@ import { rangeContains } from '../../../shared/src/checks/index';
 import { designAt } from '../../../shared/src/service';
 import { toRange } from '../convert';
 import { nominal, poleText, polesOf, requirementAcrossRuns, sortedByHz, zeroText } from './describe';
-import { targetAt, type Target } from './target';
+import { statementAt, targetAt, type Target } from './target';
 
 const UNIT_OF_DIMENSION: Record<string, string> = {
   ohm: 'ohm',
@@ -67,6 +67,27 @@ function handLines(analysis: DesignAnalysis): string[] {
       return `- ${HAND_LABEL[h.quantity]}: \`${h.formula}\` = ${hand}, exact ${formatSi(h.exact / (2 * Math.PI), 'Hz')}${pct}`;
     }),
   ];
+}
+
+/** The nodes a statement connects (where a parameter it uses acts). */
+function nodesOf(t: Target): string[] {
+  switch (t.kind) {
+    case 'stage':
+      return [t.stage.name];
+    case 'miller':
+    case 'buffered':
+      return [t.item.from, t.item.to];
+    case 'load':
+      return [t.item.node];
+    case 'element': {
+      const e = t.item;
+      return (e.kind === 'gm' ? [e.control, e.output] : [e.a, e.b]).flatMap((n) =>
+        n.kind === 'node' ? [n.name] : [],
+      );
+    }
+    default:
+      return [];
+  }
 }
 
 function body(design: DesignReport, target: Target): string[] | undefined {
@@ -131,11 +152,20 @@ function body(design: DesignReport, target: Target): string[] | undefined {
         .map((c) => ({ name: c.name, v: c.model?.params.find((x) => x.name === p.name)?.value }))
         .filter((c) => c.v !== undefined && c.v !== p.value)
         .map((c) => `${c.name}: ${valueText(c.v!, p.dimension)}`);
-      return [
+      const head = [
         `**param ${p.name}** = ${valueText(p.value, p.dimension)}`,
         `Used ${uses} time${uses === 1 ? '' : 's'}.` +
           (corners.length ? ` Corners: ${corners.join(', ')}.` : ''),
       ];
+      const model = design.source.nominal;
+      const refs =
+        design.source.symbols.find((x) => x.kind === 'param' && x.name === p.name)?.references ?? [];
+      const nodes = new Set<string>();
+      for (const ref of refs) {
+        const at = model ? statementAt(model, ref.start) : undefined;
+        for (const n of at ? nodesOf(at) : []) nodes.add(n);
+      }
+      return a && nodes.size ? [...head, '', ...poleLines(a, [...nodes])] : head;
     }
     case 'requirement': {
       const r = requirementAcrossRuns(design, target.item);
