@@ -1,0 +1,65 @@
+// Property: every solved fix, applied to the text, clears the finding it was offered for (in every corner).
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import type { TextEditSpec } from '../../../shared/src/checks/types';
+import { analyzeDocument } from '../../../shared/src/service';
+
+function apply(text: string, edits: readonly TextEditSpec[]): string {
+  const lines = text.split('\n');
+  const offset = (p: { line: number; character: number }) =>
+    lines.slice(0, p.line).reduce((n, l) => n + l.length + 1, 0) + p.character;
+  let out = text;
+  for (const e of [...edits].sort((a, b) => offset(b.range.start) - offset(a.range.start)))
+    out = out.slice(0, offset(e.range.start)) + e.newText + out.slice(offset(e.range.end));
+  return out;
+}
+
+// Invented two-stage variants spanning weak and strong second stages, light and heavy loads.
+const design = fc
+  .record({
+    gm1: fc.integer({ min: 50, max: 300 }),
+    ratio: fc.double({ min: 2, max: 20, noNaN: true }),
+    cc: fc.double({ min: 0.3, max: 4, noNaN: true }),
+    cl: fc.double({ min: 0.5, max: 10, noNaN: true }),
+    rz: fc.option(fc.integer({ min: 200, max: 20000 }), { nil: undefined }),
+    pm: fc.constantFrom(45, 55, 60, 65),
+    corner: fc.boolean(),
+    viaParam: fc.boolean(),
+  })
+  .map(
+    (p) => `design prop
+  param gm1 = ${p.gm1} uS
+  param gm2 = ${p.ratio.toPrecision(3)} * gm1
+  stage first   gm = gm1  rout = 2 Mohm    cap = 150 fF
+  stage second  gm = ${p.viaParam ? 'gm2' : `${(p.gm1 * p.ratio).toPrecision(3)} uS`}  rout = 200 kohm  cap = 200 fF  inverting
+  load cap = ${p.cl.toPrecision(3)} pF
+  miller first -> second  cc = ${p.cc.toPrecision(3)} pF${p.rz ? `  rz = ${p.rz} ohm` : ''}
+  require pm >= ${p.pm} deg
+${p.corner ? `  corner slow gm1 = ${Math.round(p.gm1 * 0.8)} uS\n` : ''}end
+`,
+  );
+
+describe('solved fixes clear their finding', () => {
+  it('for random two-stage designs', () => {
+    let tried = 0;
+    fc.assert(
+      fc.property(design, (text) => {
+        const report = analyzeDocument(text);
+        for (const finding of report.findings) {
+          for (const fix of finding.fixes) {
+            if (fix.title.startsWith('Add `require')) continue; // states a default; it does not change the design
+            tried++;
+            const after = analyzeDocument(apply(text, fix.edits));
+            expect(after.parsed.diagnostics.filter((d) => d.severity === 'error')).toEqual([]);
+            expect(
+              after.findings.filter((f) => f.code === finding.code).map((f) => f.message),
+              `${fix.title} for ${finding.code}`,
+            ).toEqual([]);
+          }
+        }
+      }),
+      { numRuns: 40 },
+    );
+    expect(tried).toBeGreaterThan(5);
+  });
+});
