@@ -86,11 +86,22 @@ export class PanelHost implements vscode.Disposable {
       vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, {
         deserializeWebviewPanel: async (panel, state: unknown) => {
           this.adopt(panel);
-          const editor = vscode.window.activeTextEditor;
-          if (editor && editor.document.languageId === 'ampnote') this.follow(editor, 0);
-          if (state && typeof state === 'object' && isChartId((state as PanelState).selected)) {
-            this.post({ type: 'restore', state: state as PanelState });
+          const saved = state && typeof state === 'object' ? (state as Partial<PanelState>) : undefined;
+          // After a reload the restored panel often has the focus (no active text editor): show the design
+          // it showed before, and let the cursor take over from there.
+          const editor =
+            vscode.window.activeTextEditor ??
+            vscode.window.visibleTextEditors.find((e) => e.document.languageId === 'ampnote');
+          if (typeof saved?.uri === 'string') {
+            this.setTarget({
+              uri: saved.uri,
+              design: typeof saved.design === 'string' ? saved.design : undefined,
+            });
+            this.schedule(0);
+          } else if (editor && editor.document.languageId === 'ampnote') {
+            this.follow(editor, 0);
           }
+          if (saved && isChartId(saved.selected)) this.post({ type: 'restore', state: saved as PanelState });
         },
       }),
     );

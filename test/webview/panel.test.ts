@@ -412,6 +412,11 @@ describe('interaction', () => {
     await panel.showData(data);
     await panel.page.click('#card-bode .card-title');
     expect(await panel.page.evaluate(() => (window.__state as { selected: string }).selected)).toBe('bode');
+    // The design shown is kept too, so a panel restored after a reload can ask for it again.
+    expect(await panel.page.evaluate(() => window.__state)).toMatchObject({
+      uri: data.uri,
+      design: data.design,
+    });
     expect(await panel.page.locator('#card-bode.selected').count()).toBe(1);
     const tickColor = () =>
       panel.page.evaluate(() => {

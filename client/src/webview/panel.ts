@@ -202,6 +202,7 @@ function render(d: PanelData | null): void {
     designKey = key;
     if (state.cc !== undefined || state.rz !== undefined) saveState({ cc: undefined, rz: undefined });
   }
+  if (state.uri !== d.uri || state.design !== d.design) saveState({ uri: d.uri, design: d.design });
   setText(ui.name, d.design);
   setText(ui.uri, fileName(d.uri));
   setText(ui.caution, d.caution);

@@ -24,4 +24,7 @@ export interface PanelState {
   readonly rz?: number;
   /** The step chart is zoomed to its settling band. */
   readonly stepBandZoom?: boolean;
+  /** The document and design shown, so that a panel restored after a reload shows them again. */
+  readonly uri?: string;
+  readonly design?: string;
 }
