@@ -59,40 +59,36 @@ export interface AnalysisCache {
     token?: CancelToken,
     incomplete?: boolean,
   ): DesignReport;
-  /** Forget entries not used since the previous sweep (called after each complete document pass). */
-  sweep(): void;
+  /**
+   * Forget every design that is not among `sources` (called after each complete document pass). Keyed by
+   * what the document holds, not by use, so two passes over the same text can interleave safely.
+   */
+  retain(sources: readonly DesignSource[], settings: CheckSettings): void;
   clear(): void;
   readonly size: number;
 }
 
-interface Entry {
-  report: DesignReport;
-  used: boolean;
-}
+const cacheKey = (source: DesignSource, settings: CheckSettings) =>
+  `${JSON.stringify(settings)}\u0000${source.text}`;
 
 export function createAnalysisCache(options: AnalysisCacheOptions = {}): AnalysisCache {
-  const entries = new Map<string, Entry>();
+  const entries = new Map<string, DesignReport>();
   const parser = createParseCache();
   return {
     options,
     parse: (text) => parser.parse(text),
     design(source, settings, token, incomplete = false) {
       // `incomplete` follows from the text, so the text and settings are the whole key.
-      const key = `${JSON.stringify(settings)}\u0000${source.text}`;
+      const key = cacheKey(source, settings);
       const hit = entries.get(key);
-      if (hit) {
-        hit.used = true;
-        return relocate(hit.report, source);
-      }
+      if (hit) return relocate(hit, source);
       const report = analyzeDesignSource(source, settings, token, options, incomplete);
-      if (!token?.isCancellationRequested) entries.set(key, { report, used: true });
+      if (!token?.isCancellationRequested) entries.set(key, report);
       return report;
     },
-    sweep() {
-      for (const [key, entry] of entries) {
-        if (!entry.used) entries.delete(key);
-        else entry.used = false;
-      }
+    retain(sources, settings) {
+      const keep = new Set(sources.map((source) => cacheKey(source, settings)));
+      for (const key of entries.keys()) if (!keep.has(key)) entries.delete(key);
     },
     clear: () => {
       entries.clear();
@@ -185,7 +181,7 @@ export function* analyzeDocumentSteps(
     yield designs.length;
   }
   if (token?.isCancellationRequested) return assemble(parsed, designs, true);
-  cache.sweep();
+  cache.retain(parsed.designs, resolved);
   return assemble(parsed, designs, false);
 }
 
