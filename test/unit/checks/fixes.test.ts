@@ -148,6 +148,15 @@ describe('analysis cache', () => {
     expect(designNamed(report, 'bridge_readout_b')!.findings.map((f) => f.code)).toContain('rhp-zero');
   });
 
+  it('keeps every live design when two passes over the same text interleave', () => {
+    const cache = createAnalysisCache();
+    const steps = analyzeDocumentSteps(two, undefined, undefined, cache);
+    steps.next(); // the first design is done
+    analyzeDocument(two, undefined, undefined, cache); // a whole pass in between (a hover)
+    while (!steps.next().done);
+    expect(cache.size).toBe(2);
+  });
+
   it('a cancelled analysis says so and caches nothing', () => {
     const cache = createAnalysisCache();
     const report = analyzeDocument(two, undefined, { isCancellationRequested: true }, cache);
