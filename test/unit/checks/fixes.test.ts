@@ -8,6 +8,7 @@ import type { Finding, TextEditSpec } from '../../../shared/src/checks/types';
 import { parseDocument } from '../../../shared/src/language';
 import {
   analyzeDocument,
+  analyzeDocumentSteps,
   compensationEdits,
   createAnalysisCache,
   designNamed,
