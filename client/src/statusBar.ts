@@ -64,7 +64,9 @@ export function registerStatusBar(server: ServerRequests, output: vscode.OutputC
   };
   const schedule = (editor: vscode.TextEditor | undefined) => {
     if (timer) clearTimeout(timer);
-    if (!editor || editor.document.languageId !== 'ampnote') {
+    // No text editor in front (the panel or another view has the focus): keep what is shown.
+    if (!editor) return;
+    if (editor.document.languageId !== 'ampnote') {
       pending?.cancel();
       item.hide();
       return;
