@@ -80,8 +80,10 @@ export function missingPrerequisites({
   return missing;
 }
 
-export function installedVersion() {
-  if (!existsSync(codeServerBin) || !existsSync(codeServerPkg)) return undefined;
+/** Written only after an install finished, so an interrupted one is never taken for a working editor. */
+const installedMarker = join(editorDir, 'installed.json');
+
+function packageVersion() {
   try {
     return JSON.parse(readFileSync(codeServerPkg, 'utf8')).version;
   } catch {
@@ -89,12 +91,77 @@ export function installedVersion() {
   }
 }
 
+export function installedVersion() {
+  if (!existsSync(codeServerBin) || !existsSync(codeServerPkg) || !existsSync(installedMarker))
+    return undefined;
+  try {
+    return JSON.parse(readFileSync(installedMarker, 'utf8')).version;
+  } catch {
+    return undefined;
+  }
+}
+
+/**
+ * Runs `fn` holding the cache's install lock, so that runs started at the same time (several people in
+ * one tree, say) never install over each other. A lock whose owner has exited is taken over.
+ */
+async function withInstallLock(fn, log) {
+  const lock = join(cacheDir, 'editor-install.lock');
+  mkdirSync(cacheDir, { recursive: true });
+  const deadline = Date.now() + 20 * 60_000;
+  let told = false;
+  for (;;) {
+    try {
+      mkdirSync(lock);
+      break;
+    } catch (err) {
+      if (err.code !== 'EEXIST') throw err;
+    }
+    let owner;
+    try {
+      owner = Number(readFileSync(join(lock, 'pid'), 'utf8'));
+    } catch {
+      // just created, its owner has not written its pid yet
+    }
+    if (owner && !isAlive(owner)) {
+      rmSync(lock, { recursive: true, force: true });
+      continue;
+    }
+    if (Date.now() > deadline) throw new Error(`Another install still holds ${lock}.`);
+    if (!told) log(`Waiting for another install of the editor to finish (${lock})…`);
+    told = true;
+    await delay(1000);
+  }
+  writeFileSync(join(lock, 'pid'), String(process.pid));
+  try {
+    return await fn();
+  } finally {
+    rmSync(lock, { recursive: true, force: true });
+  }
+}
+
+export function isAlive(pid) {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (err) {
+    return err.code === 'EPERM';
+  }
+}
+
 /**
  * Installs code-server into .cache/editor unless the right version is already there.
  * Throws an Error whose message lists what is missing when the install cannot work here.
  */
-export function installEditor({ log = (s) => console.log(s) } = {}) {
+export async function installEditor({ log = (s) => console.log(s) } = {}) {
   if (installedVersion() === CODE_SERVER_VERSION) return { reused: true };
+  return withInstallLock(async () => {
+    if (installedVersion() === CODE_SERVER_VERSION) return { reused: true };
+    return installNow(log);
+  }, log);
+}
+
+function installNow(log) {
   const missing = missingPrerequisites({ install: true, browser: false });
   if (missing.length > 0) {
     throw new Error(
@@ -134,12 +201,20 @@ export function installEditor({ log = (s) => console.log(s) } = {}) {
     env,
     stdio: ['ignore', 'inherit', 'inherit'],
   });
-  if (npm.status !== 0 || installedVersion() !== CODE_SERVER_VERSION) {
+  if (npm.status !== 0 || packageVersion() !== CODE_SERVER_VERSION || !existsSync(codeServerBin)) {
     throw new Error(
       `npm install of code-server ${CODE_SERVER_VERSION} failed (exit ${npm.status}). ` +
         `It needs the npm registry, Node.js 20 headers for native modules, and the Debian packages ${APT_PACKAGES.join(' ')}.`,
     );
   }
+  writeFileSync(
+    installedMarker,
+    JSON.stringify({
+      version: CODE_SERVER_VERSION,
+      node: process.versions.node,
+      at: new Date().toISOString(),
+    }) + '\n',
+  );
   log(`code-server installed in ${Math.round((Date.now() - started) / 1000)} s.`);
   return { reused: false };
 }
@@ -189,7 +264,7 @@ export async function startEditor({
   log = () => {},
   timeoutMs = 60_000,
 } = {}) {
-  installEditor({ log });
+  await installEditor({ log });
   const base = join(editorDir, 'profiles', profile);
   if (fresh) rmSync(base, { recursive: true, force: true });
   const userData = join(base, 'user-data');
@@ -347,7 +422,7 @@ async function main() {
   const [cmd = 'start'] = process.argv.slice(2);
   try {
     if (cmd === 'install') {
-      const { reused } = installEditor();
+      const { reused } = await installEditor();
       console.log(reused ? `code-server ${CODE_SERVER_VERSION} already installed in ${editorDir}.` : 'Done.');
       return;
     }

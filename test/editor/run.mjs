@@ -8,6 +8,7 @@ import {
   editorDir,
   installEditor,
   installVsix,
+  isAlive,
   missingPrerequisites,
   root,
   startEditor,
@@ -21,7 +22,10 @@ const OUTPUT = join(root, 'test-output', 'editor');
 // `--only host,ui,packaged` runs some of the three parts (for working on one); the default is all.
 const onlyArg = process.argv.find((a) => a.startsWith('--only='))?.slice('--only='.length);
 const parts = new Set((onlyArg ?? 'host,ui,packaged').split(','));
-const WORK = join(editorDir, 'work');
+// Each run keeps its files apart (runs started at the same time in one tree must not share them) and
+// removes them when it ends; a run that was killed leaves its folder to the next run to clear.
+const RUN_DIR = join(editorDir, 'runs', String(process.pid));
+const WORK = join(RUN_DIR, 'work');
 const started = Date.now();
 const tally = new Tally();
 /** Everything started here, stopped in reverse order on any exit. */
@@ -59,7 +63,22 @@ function step(what) {
   console.log(`\n== ${what} (${((Date.now() - started) / 1000).toFixed(1)} s)`);
 }
 
+/** Removes this run's folders, and those of earlier runs whose process is gone. */
+function clearRunFolders({ mine }) {
+  const runs = join(editorDir, 'runs');
+  const profiles = join(editorDir, 'profiles');
+  const gone = (pid) => (pid === process.pid ? mine : !isAlive(pid));
+  for (const name of existsSync(runs) ? readdirSync(runs) : []) {
+    if (gone(Number(name))) rmSync(join(runs, name), { recursive: true, force: true });
+  }
+  for (const name of existsSync(profiles) ? readdirSync(profiles) : []) {
+    const m = name.match(/^run-(\d+)-/);
+    if (m && gone(Number(m[1]))) rmSync(join(profiles, name), { recursive: true, force: true });
+  }
+}
+
 async function main() {
+  clearRunFolders({ mine: false });
   rmSync(OUTPUT, { recursive: true, force: true });
   mkdirSync(OUTPUT, { recursive: true });
 
@@ -96,11 +115,11 @@ async function main() {
     const counts = countBy(e.findings.map((f) => `${f.code}/${f.severity}`));
     console.log(`  ${e.file}: ${e.findings.length} finding(s) ${JSON.stringify(counts)}`);
   }
-  const suite = await suiteFiles(root, join(editorDir, 'suite'), workspace, expected);
+  const suite = await suiteFiles(root, join(RUN_DIR, 'suite'), workspace, expected);
 
   step('editor start');
   const editor = await startEditor({
-    profile: 'dev',
+    profile: `run-${process.pid}-dev`,
     fresh: true,
     env: { AMPNOTE_EDITOR_SUITE: suite.config },
   });
@@ -126,7 +145,7 @@ async function main() {
     try {
       await uiChecks({ page, tally, expected, workspace, output: OUTPUT, root });
     } finally {
-      writeFileSync(join(OUTPUT, 'ui-console.log'), consoleLines.join('\n'));
+      writeOutput('ui-console.log', consoleLines.join('\n'));
       await page.context().close();
     }
   }
@@ -148,7 +167,7 @@ async function main() {
     5 * 60_000,
   );
   if (!vsix) return;
-  const packagedDir = join(editorDir, 'profiles', 'packaged-extensions');
+  const packagedDir = join(RUN_DIR, 'packaged-extensions');
   rmSync(packagedDir, { recursive: true, force: true });
   const ok = await tally.check(
     'code-server --install-extension installs the .vsix into a fresh folder',
@@ -160,7 +179,7 @@ async function main() {
   );
   if (!ok) return;
   const packaged = await startEditor({
-    profile: 'packaged',
+    profile: `run-${process.pid}-packaged`,
     fresh: true,
     extensionsDir: packagedDir,
     env: { AMPNOTE_EDITOR_SUITE: suite.config },
@@ -184,7 +203,7 @@ async function main() {
     try {
       await smokeChecks({ page, tally, expected, output: OUTPUT, label: 'packaged' });
     } finally {
-      writeFileSync(join(OUTPUT, 'packaged-console.log'), consoleLines.join('\n'));
+      writeOutput('packaged-console.log', consoleLines.join('\n'));
       await page.context().close();
     }
   }
@@ -209,7 +228,7 @@ async function hostSuite(browser, editor, workspace, suiteEntry, resultsFile, ex
     );
     await screenshot(page, OUTPUT, `${label}-end`).catch(() => {});
   } finally {
-    writeFileSync(join(OUTPUT, `${label}-console.log`), consoleLines.join('\n'));
+    writeOutput(`${label}-console.log`, consoleLines.join('\n'));
     await page.context().close();
   }
   const results = existsSync(resultsFile) ? JSON.parse(readFileSync(resultsFile, 'utf8')) : [];
@@ -233,7 +252,7 @@ async function hostSuite(browser, editor, workspace, suiteEntry, resultsFile, ex
 
 /** An extension with only a manifest: no code, no contributions. */
 function testHostExtension() {
-  const dir = join(editorDir, 'test-host-extension');
+  const dir = join(RUN_DIR, 'test-host-extension');
   mkdirSync(dir, { recursive: true });
   const manifest = {
     name: 'ampnote-editor-tests-host',
@@ -260,6 +279,12 @@ function buildIsStale() {
   });
 }
 
+/** Writes a file into test-output/editor, which a run started meanwhile may have cleared. */
+function writeOutput(name, text) {
+  mkdirSync(OUTPUT, { recursive: true });
+  writeFileSync(join(OUTPUT, name), text);
+}
+
 function countBy(items) {
   const out = {};
   for (const i of items) out[i] = (out[i] ?? 0) + 1;
@@ -272,6 +297,7 @@ try {
   tally.fail('editor tests ran to the end', err);
 } finally {
   await stopAll();
+  clearRunFolders({ mine: true });
   clearTimeout(watchdog);
   console.log(
     `\neditor tests took ${((Date.now() - started) / 1000).toFixed(1)} s; screenshots in test-output/editor/`,
