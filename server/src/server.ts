@@ -6,7 +6,16 @@ import {
   ProposedFeatures,
   TextDocuments,
   TextDocumentSyncKind,
+  type CancellationToken,
+  type CodeActionParams,
+  type CodeLensParams,
+  type CompletionParams,
+  type DefinitionParams,
+  type HoverParams,
   type InitializeResult,
+  type InlayHintParams,
+  type PrepareRenameParams,
+  type RenameParams,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import {
@@ -17,7 +26,7 @@ import {
   type DesignSummaryParams,
   type PanelDataParams,
 } from '../../shared/src/protocol/requests';
-import { DocumentStore } from './documentStore';
+import { DocumentStore, type Analysed } from './documentStore';
 import { codeActions } from './features/codeActions';
 import { codeLenses } from './features/codeLens';
 import { completion } from './features/completion';
@@ -45,12 +54,20 @@ const store = new DocumentStore(
 const diagnostics = createDiagnosticsScheduler(connection, store, settings, log);
 
 /** The analysed current version of a document named by a request, if it is open. */
-const analysed = (params: unknown) => {
+const analysed = (params: unknown): Analysed | undefined => {
   const uri =
     (params as { textDocument?: { uri?: unknown }; uri?: unknown } | undefined)?.textDocument?.uri ??
     (params as { uri?: unknown })?.uri;
   return typeof uri === 'string' ? store.current(uri) : undefined;
 };
+/** A feature run on the document its request names (guarded; `fallback` when the document is not open). */
+const on =
+  <P, R>(feature: string, fallback: R, run: (a: Analysed, p: P, token: CancellationToken) => R) =>
+  (p: P, token: CancellationToken) =>
+    guarded(log, feature, fallback, () => {
+      const a = analysed(p);
+      return a ? run(a, p, token) : fallback;
+    })();
 const position = (params: unknown) => {
   const p = (params as { position?: { line?: unknown; character?: unknown } }).position;
   if (!p || !Number.isInteger(p.line) || !Number.isInteger(p.character))
@@ -93,84 +110,22 @@ connection.onDidChangeConfiguration(() => {
   for (const doc of documents.all()) diagnostics.schedule(doc.uri, 0);
 });
 
-// Editor features: one line per LSP method.
-connection.onHover(
-  guarded(log, 'hover', null, (p) => {
-    const a = analysed(p);
-    return a ? hover(a.report, position(p)) : null;
-  }),
-);
-connection.languages.inlayHint.on(
-  guarded(log, 'inlayHints', [], (p) => {
-    const a = analysed(p);
-    return a ? inlayHints(a.report, a.document, p.range) : [];
-  }),
-);
-connection.onCodeAction(
-  guarded(log, 'codeActions', [], (p) => {
-    const a = analysed(p);
-    return a ? codeActions(a.report, p) : [];
-  }),
-);
-connection.onCodeLens(
-  guarded(log, 'codeLens', [], (p) => {
-    const a = analysed(p);
-    return a ? codeLenses(a.report, p.textDocument.uri) : [];
-  }),
-);
-connection.onCompletion(
-  guarded(log, 'completion', [], (p) => {
-    const a = analysed(p);
-    return a ? completion(a.report, a.document, position(p)) : [];
-  }),
-);
-connection.onDocumentSymbol(
-  guarded(log, 'documentSymbols', [], (p) => {
-    const a = analysed(p);
-    return a ? documentSymbols(a.report) : [];
-  }),
-);
-connection.onDefinition(
-  guarded(log, 'definition', null, (p) => {
-    const a = analysed(p);
-    return a ? definition(a.report, p.textDocument.uri, position(p)) : null;
-  }),
-);
-connection.onPrepareRename(
-  guarded(log, 'prepareRename', null, (p) => {
-    const a = analysed(p);
-    return a ? prepareRename(a.report, position(p)) : null;
-  }),
-);
-connection.onRenameRequest(
-  guarded(log, 'rename', null, (p) => {
-    const a = analysed(p);
-    return a ? rename(a.report, p.textDocument.uri, position(p), p.newName) : null;
-  }),
-);
-
-// The extension's own requests.
-connection.onRequest(
-  PanelDataRequest.method,
-  guarded(log, 'panelData', null, (p: PanelDataParams, token) => {
-    const a = analysed(p);
-    return a ? panelData(a.report, p, settings.known(p.uri), token) : null;
-  }),
-);
-connection.onRequest(
-  DesignSummaryRequest.method,
-  guarded(log, 'designSummary', null, (p: DesignSummaryParams) => {
-    const a = analysed(p);
-    return a ? designSummary(a.report, p) : null;
-  }),
-);
-connection.onRequest(
-  CompensationEditRequest.method,
-  guarded(log, 'compensationEdit', null, (p: CompensationEditParams) => {
-    const a = analysed(p);
-    return a ? compensationEdit(a.report, p) : null;
-  }),
-);
+// Editor features and the extension's own requests: one line per method.
+// prettier-ignore
+{
+connection.onHover(on('hover', null, (a, p: HoverParams) => hover(a.report, position(p))));
+connection.languages.inlayHint.on(on('inlayHints', [], (a, p: InlayHintParams) => inlayHints(a.report, a.document, p.range)));
+connection.onCodeAction(on('codeActions', [], (a, p: CodeActionParams) => codeActions(a.report, p)));
+connection.onCodeLens(on('codeLens', [], (a, p: CodeLensParams) => codeLenses(a.report, p.textDocument.uri)));
+connection.onCompletion(on('completion', [], (a, p: CompletionParams) => completion(a.report, a.document, position(p))));
+connection.onDocumentSymbol(on('documentSymbols', [], (a) => documentSymbols(a.report)));
+connection.onDefinition(on('definition', null, (a, p: DefinitionParams) => definition(a.report, p.textDocument.uri, position(p))));
+connection.onPrepareRename(on('prepareRename', null, (a, p: PrepareRenameParams) => prepareRename(a.report, position(p))));
+connection.onRenameRequest(on('rename', null, (a, p: RenameParams) => rename(a.report, p.textDocument.uri, position(p), p.newName)));
+connection.onRequest(PanelDataRequest.method, on('panelData', null, (a, p: PanelDataParams, token) => panelData(a.report, p, settings.known(p.uri), token)));
+connection.onRequest(DesignSummaryRequest.method, on('designSummary', null, (a, p: DesignSummaryParams) => designSummary(a.report, p)));
+connection.onRequest(CompensationEditRequest.method, on('compensationEdit', null, (a, p: CompensationEditParams) => compensationEdit(a.report, p)));
+}
 
 connection.onShutdown(() => diagnostics.dispose());
 documents.listen(connection);
