@@ -5,8 +5,14 @@ import { evaluateDesign } from './evaluate';
 import { lexLine, spanRange, tokenRange, type LexedLine, type Token } from './lexer';
 import type { DesignSource, ParsedDocument } from './model';
 import { parseStatement } from './parseStatement';
+import { editDistance, STATEMENT_KEYWORDS } from './vocabulary';
 import type { SourceRange } from './source';
 import type { DesignSyntax, Statement } from './syntax';
+
+/** `ed`, `edn`, `ned`: one edit away from `end`, or its letters swapped. */
+const nearEnd = (w: string): boolean => editDistance(w, 'end') <= 1 || [...w].sort().join('') === 'den';
+
+const isKeyword = (w: string): boolean => (STATEMENT_KEYWORDS as readonly string[]).includes(w);
 
 /** Splits on \n, \r\n and \r, as the editor does. */
 function splitLines(text: string): { lines: string[]; offsets: number[] } {
@@ -134,6 +140,19 @@ export function parseDocument(text: string): ParsedDocument {
       if (open) close(first);
       else if (skipping) skipping = false;
       else sink.error('syntax', '`end` without a `design` to close.', tokenRange(first));
+      continue;
+    }
+    if (!open && word && editDistance(word, 'design') <= 2 && lexed.tokens[1]?.kind === 'ident') {
+      // `desgin amp`: read the block as the design it was meant to be, so nothing inside is lost.
+      sink.error('syntax', `Unknown word ${quote(word)}. Did you mean \`design\`?`, tokenRange(first));
+      skipping = false;
+      openDesign(lexed);
+      continue;
+    }
+    if (open && lexed.tokens.length === 1 && word && word !== 'end' && nearEnd(word) && !isKeyword(word)) {
+      // `ned` alone on a line: close the design as `end` would, rather than run on into the next one.
+      sink.error('syntax', `Unknown statement ${quote(word)}. Did you mean \`end\`?`, tokenRange(first));
+      close(first);
       continue;
     }
     if (!open) {

@@ -68,7 +68,7 @@ end`);
   });
 
   it('keeps reading after an unknown top-level line up to the next end or design', () => {
-    const doc = parseDocument(`desgin broken
+    const doc = parseDocument(`amplifier broken
   stage a gm = 1 mS rout = 1 Mohm
   nonsense here
 end
@@ -76,7 +76,7 @@ design ok
   stage a gm = 1 mS rout = 1 Mohm
 end`);
     expect(doc.diagnostics.map((d) => [d.message, d.range.start.line])).toEqual([
-      ['Expected `design NAME`, found `desgin`.', 0],
+      ['Expected `design NAME`, found `amplifier`.', 0],
     ]);
     expect(doc.designs.map((d) => d.name)).toEqual(['ok']);
   });
@@ -145,5 +145,32 @@ end`);
     expect(m.millers).toEqual([]);
     expect(m.loads).toEqual([]);
     expect(m.output).toBe('second');
+  });
+});
+
+describe('misspelt block words', () => {
+  it('reads a block opened by a misspelt `design` as the design it was meant to be', () => {
+    const doc = parseDocument('desgin amp\n  stage a gm = 1 mS rout = 1 Mohm\nend\n');
+    expect(doc.diagnostics.map((d) => [d.message, d.range])).toEqual([
+      [
+        'Unknown word `desgin`. Did you mean `design`?',
+        { start: { line: 0, character: 0 }, end: { line: 0, character: 6 } },
+      ],
+    ]);
+    expect(doc.designs[0]!.name).toBe('amp');
+    expect(doc.designs[0]!.nominal!.stages[0]!.gm).toBe(1e-3);
+  });
+
+  it('closes a design at a misspelt `end` instead of running on', () => {
+    const doc = parseDocument(
+      'design one\n  stage a gm = 1 mS rout = 1 Mohm\nned\ndesign two\n  stage b gm = 1 mS rout = 1 Mohm\nend',
+    );
+    expect(doc.diagnostics.map((d) => [d.message, d.range.start.line])).toEqual([
+      ['Unknown statement `ned`. Did you mean `end`?', 2],
+    ]);
+    expect(doc.designs.map((d) => d.text)).toEqual([
+      'design one\n  stage a gm = 1 mS rout = 1 Mohm\nned',
+      'design two\n  stage b gm = 1 mS rout = 1 Mohm\nend',
+    ]);
   });
 });
