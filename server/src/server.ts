@@ -104,8 +104,9 @@ documents.onDidChangeContent((e) => diagnostics.schedule(e.document.uri));
 documents.onDidClose(
   (e) => (diagnostics.close(e.document.uri), store.evict(e.document.uri), settings.forget(e.document.uri)),
 );
-connection.onDidChangeConfiguration(() => {
+connection.onDidChangeConfiguration((change) => {
   settings.clear();
+  if (!canAskConfiguration) settings.setPushed(change.settings);
   store.invalidateAll();
   for (const doc of documents.all()) diagnostics.schedule(doc.uri, 0);
 });

@@ -14,15 +14,22 @@ export interface SettingsSource {
   fetch(uri: string): Promise<CheckSettings>;
   forget(uri: string): void;
   clear(): void;
+  /** Settings pushed with didChangeConfiguration, used by clients that cannot be asked per document. */
+  setPushed(value: unknown): void;
 }
 
 export function createSettingsSource(connection: Connection, canAsk: () => boolean): SettingsSource {
   const read = new Map<string, CheckSettings>();
   const pending = new Map<string, Promise<CheckSettings>>();
+  let pushed = DEFAULT_CHECK_SETTINGS;
   return {
-    known: (uri) => read.get(uri) ?? DEFAULT_CHECK_SETTINGS,
+    known: (uri) => read.get(uri) ?? pushed,
+    setPushed(value) {
+      const checks = (value as { ampnote?: { checks?: unknown } } | null | undefined)?.ampnote?.checks;
+      pushed = resolveCheckSettings(checks);
+    },
     fetch(uri) {
-      if (!canAsk()) return Promise.resolve(DEFAULT_CHECK_SETTINGS);
+      if (!canAsk()) return Promise.resolve(pushed);
       const have = read.get(uri);
       if (have) return Promise.resolve(have);
       const inFlight = pending.get(uri);
@@ -31,7 +38,7 @@ export function createSettingsSource(connection: Connection, canAsk: () => boole
         .getConfiguration({ scopeUri: uri, section: 'ampnote.checks' })
         .then(
           (value: unknown) => resolveCheckSettings(value),
-          () => DEFAULT_CHECK_SETTINGS,
+          () => pushed,
         )
         .then((s) => {
           if (pending.get(uri) === p) {

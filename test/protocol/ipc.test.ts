@@ -38,7 +38,15 @@ describe('language server over --node-ipc', () => {
         20_000,
         'diagnostics',
       );
-      expect(got.diagnostics.map((d) => d.code)).toContain('rhp-zero');
+      expect(got.diagnostics.map((d) => d.code)).toEqual(expect.arrayContaining(['rhp-zero', 'gm-ratio']));
+      // A client that cannot be asked per document pushes its settings with the notification.
+      const count = published.length;
+      await connection.sendNotification('workspace/didChangeConfiguration', {
+        settings: { ampnote: { checks: { gmRatio: 3 } } },
+      });
+      const relaxed = await waitFor(() => published.slice(count).at(-1), 20_000, 'new diagnostics');
+      expect(relaxed.diagnostics.map((d) => d.code)).not.toContain('gm-ratio');
+      expect(relaxed.diagnostics.map((d) => d.code)).toContain('rhp-zero');
       await connection.sendRequest('shutdown');
       await connection.sendNotification('exit');
       await waitFor(() => (child.exitCode !== null ? true : undefined), 5000, 'exit');
