@@ -174,3 +174,24 @@ describe('misspelt block words', () => {
     ]);
   });
 });
+
+describe('positions', () => {
+  it('counts columns in UTF-16 code units, as the editor does', () => {
+    // U+1F600 takes two UTF-16 code units; U+00B5 and U+2126 one each
+    const doc = parseDocument('design d\n  stage s gm = 1 mS rout = 1 kΩ cap = 2 µF 😀 x\nend');
+    expect(doc.diagnostics.map((d) => [d.message, d.range])).toEqual([
+      [
+        'Unexpected `😀` (stage takes gm, rout, cap, bias, inverting, noninverting).',
+        { start: { line: 1, character: 43 }, end: { line: 1, character: 45 } },
+      ],
+    ]);
+    const stage = parseDocument('design d\n  stage s gm = 1 mS rout = 1 kΩ cap = 2 µF # 😀\nend').designs[0]!
+      .nominal!.stages[0]!;
+    expect(stage.origin.fields.cap!.range).toEqual({
+      start: { line: 1, character: 38 },
+      end: { line: 1, character: 42 },
+    });
+    expect(stage.origin.insertAt).toEqual({ line: 1, character: 42 });
+    expect([stage.rout, stage.cap]).toEqual([1e3, 2e-6]);
+  });
+});
