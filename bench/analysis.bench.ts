@@ -6,16 +6,37 @@ import { buildModel, twoStage } from '../test/unit/analysis/buildModel';
 
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 
-/** Median time per call (µs) over `batches` batches of `perBatch` calls, after a warm-up batch. */
-function perCall(f: () => unknown, perBatch: number, batches = 15): number {
+/**
+ * Median wall time per call (µs) over `batches` batches of `perBatch` calls, after a warm-up batch, and
+ * the median CPU time per call of the same batches (the machine is shared, so both are shown).
+ */
+function perCall(f: () => unknown, perBatch: number, batches = 15): string {
   for (let i = 0; i < perBatch; i++) f();
-  const times: number[] = [];
+  const wall: number[] = [];
+  const cpu: number[] = [];
   for (let b = 0; b < batches; b++) {
+    const c = process.cpuUsage();
     const t = performance.now();
     for (let i = 0; i < perBatch; i++) f();
-    times.push(((performance.now() - t) * 1000) / perBatch);
+    wall.push(((performance.now() - t) * 1000) / perBatch);
+    const u = process.cpuUsage(c);
+    cpu.push((u.user + u.system) / perBatch);
   }
-  return median(times);
+  return `${us(median(wall))} wall, ${us(median(cpu))} CPU`;
+}
+
+/** A fixed pure-arithmetic workload, to scale the figures to another machine or load. */
+function reference(): string {
+  const a = new Float64Array(64).map((_, i) => Math.sin(i));
+  const out = new Float64Array(64);
+  return perCall(() => {
+    for (let i = 0; i < 8; i++)
+      for (let j = 0; j < 8; j++) {
+        let s = 0;
+        for (let k = 0; k < 8; k++) s += a[i * 8 + k] * a[k * 8 + j];
+        out[i * 8 + j] = s;
+      }
+  }, 20000);
 }
 
 const us = (x: number) => (x >= 1000 ? `${(x / 1000).toFixed(2)} ms` : `${x.toFixed(1)} µs`);
@@ -58,24 +79,26 @@ function main() {
     const checked = perCall(() => analyzeDesign(model, { step: false }), 2000);
     const full = perCall(() => analyzeDesign(model), 500);
     console.log(`  ${name}`);
-    console.log(`    poles, zeros, DC gain, UGF, loop metrics (no step)   ${us(core)}`);
-    console.log(`    + root checks and participation                      ${us(checked)}`);
-    console.log(`    + closed-loop step response and settling (full)      ${us(full)}`);
+    console.log(`    poles, zeros, DC gain, UGF, loop metrics, root polishing (no step)   ${core}`);
+    console.log(`    + root checks and participation                                      ${checked}`);
+    console.log(`    + closed-loop step response and settling (full)                      ${full}`);
   }
   const target = { kind: 'miller' as const, index: 0, field: 'cc' as const };
   const values = [0, ...Array.from({ length: 199 }, (_, i) => 1e-15 * 10 ** (i / 50))];
   console.log(
-    `200-point Cc sweep (poles and zeros), two-stage   ${us(perCall(() => sweepCompensation(two, target, values), 20))}`,
+    `200-point Cc sweep (poles and zeros), two-stage   ${perCall(() => sweepCompensation(two, target, values), 20)}`,
   );
   console.log(
-    `200-point Cc sweep, eight-node three-stage        ${us(perCall(() => sweepCompensation(eight, target, values), 10))}`,
+    `200-point Cc sweep, eight-node three-stage        ${perCall(() => sweepCompensation(eight, target, values), 10)}`,
   );
   console.log(
-    `Cc synthesis for 60° phase margin, two-stage      ${us(perCall(() => solveCcForPhaseMargin(two, 0, 60), 20))}`,
+    `Cc synthesis for 60° phase margin, two-stage      ${perCall(() => solveCcForPhaseMargin(two, 0, 60), 20)}`,
   );
   console.log(
-    `Cc synthesis for 60° phase margin, eight-node     ${us(perCall(() => solveCcForPhaseMargin(eight, 0, 60), 5, 7))}`,
+    `Cc synthesis for 60° phase margin, eight-node     ${perCall(() => solveCcForPhaseMargin(eight, 0, 60), 5, 7)}`,
   );
+
+  console.log(`reference: one 8×8 matrix product (512 multiply-adds)   ${reference()}`);
 
   const gc = (globalThis as { gc?: () => void }).gc;
   gc?.();

@@ -25,13 +25,20 @@ export function complexLuFactor(reIn: Float64Array, imIn: Float64Array, n: numbe
   }
   let first = 0;
   let last = 0;
+  let real = true;
+  for (let i = 0; i < im.length; i++) {
+    if (im[i] !== 0) {
+      real = false;
+      break;
+    }
+  }
   for (let k = 0; k < n; k++) {
     let bi = k;
     let bj = k;
     let best = -1;
     for (let i = k; i < n; i++) {
       for (let j = k; j < n; j++) {
-        const m = Math.abs(re[i * n + j]) + Math.abs(im[i * n + j]);
+        const m = real ? Math.abs(re[i * n + j]) : Math.abs(re[i * n + j]) + Math.abs(im[i * n + j]);
         if (m > best) {
           best = m;
           bi = i;
@@ -42,7 +49,7 @@ export function complexLuFactor(reIn: Float64Array, imIn: Float64Array, n: numbe
     if (bi !== k) {
       for (let j = 0; j < n; j++) {
         swap(re, k * n + j, bi * n + j);
-        swap(im, k * n + j, bi * n + j);
+        if (!real) swap(im, k * n + j, bi * n + j);
       }
       const t = rowPerm[k];
       rowPerm[k] = rowPerm[bi];
@@ -51,7 +58,7 @@ export function complexLuFactor(reIn: Float64Array, imIn: Float64Array, n: numbe
     if (bj !== k) {
       for (let i = 0; i < n; i++) {
         swap(re, i * n + k, i * n + bj);
-        swap(im, i * n + k, i * n + bj);
+        if (!real) swap(im, i * n + k, i * n + bj);
       }
       const t = colPerm[k];
       colPerm[k] = colPerm[bj];
@@ -63,6 +70,17 @@ export function complexLuFactor(reIn: Float64Array, imIn: Float64Array, n: numbe
     if (k === 0) first = mag;
     last = mag;
     if (mag === 0) continue;
+    if (real) {
+      // A real matrix (a real root): the same elimination without the imaginary arithmetic.
+      for (let i = k + 1; i < n; i++) {
+        const a = re[i * n + k];
+        if (a === 0) continue;
+        const f = a / pr;
+        re[i * n + k] = f;
+        for (let j = k + 1; j < n; j++) re[i * n + j] -= f * re[k * n + j];
+      }
+      continue;
+    }
     const den = pr * pr + pi * pi;
     for (let i = k + 1; i < n; i++) {
       const ar = re[i * n + k];
