@@ -101,6 +101,13 @@ export class DesignScope {
   }
   private cachedRefs?: Token[];
 
+  /** The output's name as written (`output NODE`, else the last stage, else `out`), before any checking. */
+  outputName(): string {
+    const written = this.design.statements.find((s) => s.kind === 'output');
+    if (written?.kind === 'output' && written.node) return written.node.text;
+    return this.stages.length ? this.stages[this.stages.length - 1]!.name!.text : 'out';
+  }
+
   /** True when the text mentions `out` as a node anywhere (it is then a node of the design). */
   mentionsOut(): boolean {
     if (this.decls.has('out')) return false;

@@ -26,7 +26,8 @@ export function collectOverrides(
   const unique = (kind: Statement['kind'], o: OverrideSyntax): Statement | undefined => {
     const all = scope.design.statements.filter((s) => s.kind === kind && !scope.skipped.has(s));
     if (kind === 'load') {
-      const atOutput = all.filter((s) => s.kind === 'load' && (!s.at || s.at.text === 'out'));
+      const output = scope.outputName();
+      const atOutput = all.filter((s) => s.kind === 'load' && (!s.at || s.at.text === output));
       if (atOutput.length >= 1) return atOutput[0];
     }
     if (all.length === 1) return all[0];

@@ -418,3 +418,18 @@ describe('a corner that breaks a value', () => {
     expect(ok!.model!.beta).toBe(0.25);
   });
 });
+
+describe('`load.field` in a corner', () => {
+  it('means the load at the output, however it is written', () => {
+    const doc = parseDocument(
+      wrap(
+        '  stage a gm = 1 mS rout = 1 Mohm\n  stage b gm = 1 mS rout = 1 Mohm\n  load at a cap = 1 pF\n  load at b cap = 2 pF\n  corner c load.cap = 5 pF',
+      ),
+    );
+    expect(doc.diagnostics).toEqual([]);
+    expect(doc.designs[0]!.corners[0]!.model!.loads.map((l) => [l.node, l.cap])).toEqual([
+      ['a', 1e-12],
+      ['b', 5e-12],
+    ]);
+  });
+});
