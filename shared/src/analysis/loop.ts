@@ -162,9 +162,33 @@ export function unityCrossings(pz: PoleZeroForm, grid: readonly number[]) {
   return crossingsOf(sample(pz, grid));
 }
 
+/**
+ * Bounds of the unwrapped phase over all ω > 0 (degrees): from its DC value each left-half-plane pole or
+ * right-half-plane zero can lag by at most 90°, each left-half-plane zero or right-half-plane pole lead by
+ * at most 90°; roots at the origin add a constant.
+ */
+function phaseBounds(pz: PoleZeroForm, tiny: number, dc: number): { min: number; max: number } {
+  let lag = 0;
+  let lead = 0;
+  for (const z of pz.zeros) {
+    if (Math.hypot(z.re, z.im) <= tiny) continue;
+    if (z.re > 0) lag += 90;
+    else lead += 90;
+  }
+  for (const p of pz.poles) {
+    if (Math.hypot(p.re, p.im) <= tiny) continue;
+    if (p.re < 0) lag += 90;
+    else lead += 90;
+  }
+  return { min: dc - lag, max: dc + lead };
+}
+
 /** Lowest ω where the unwrapped phase passes an odd multiple of 180°, or undefined. */
 export function phaseCrossover(pz: PoleZeroForm, grid: readonly number[], tiny: number): number | undefined {
   const phase = phaseFunction(pz, tiny);
+  // Skip the scan when the phase cannot reach ±180° at all (a one- or two-pole loop without RHP roots).
+  const bounds = phaseBounds(pz, tiny, phase(grid[0] * 1e-6));
+  if (bounds.min > -180 && bounds.max < 180) return undefined;
   const ph = (u: number) => phase(Math.exp(u));
   const level = (p: number) => Math.floor((p + 180) / 360);
   let pu = Math.log(grid[0]);
