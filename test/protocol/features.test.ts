@@ -13,6 +13,8 @@ import { inlayHints } from '../../server/src/features/inlayHints';
 import { prepareRename, rename } from '../../server/src/features/rename';
 import { documentSymbols } from '../../server/src/features/symbols';
 import { applyEdits } from './lspClient';
+import { withLazyFixes } from '../../shared/src/checks/acrossRuns';
+import { rangesMeet } from '../../server/src/convert';
 
 /** Split `text` at its `|` marker: the text without it and the marker's position. */
 function cursor(marked: string) {
@@ -192,6 +194,20 @@ describe('inline values, lenses and actions', () => {
       context: { diagnostics: [], only: ['quickfix'] },
     });
     expect(asked).toHaveLength(at.length);
+    // Fixes are solved only for the findings the range touches.
+    let solved = 0;
+    const counted = {
+      ...c.report,
+      findings: c.report.findings.map((f) =>
+        withLazyFixes({ ...f, fixes: undefined } as never, () => {
+          solved++;
+          return [];
+        }),
+      ),
+    };
+    codeActions(counted, { textDocument: { uri: 'u' }, range: finding.range, context: { diagnostics: [] } });
+    expect(solved).toBe(c.report.findings.filter((f) => rangesMeet(f.range, finding.range)).length);
+    expect(solved).toBeLessThan(c.report.findings.length);
     const none = codeActions(c.report, {
       textDocument: { uri: 'u' },
       range: { start: { line: 4, character: 0 }, end: { line: 4, character: 1 } },

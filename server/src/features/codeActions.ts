@@ -16,7 +16,8 @@ export function codeActions(report: DocumentReport, params: CodeActionParams): C
     return [];
   const actions: CodeAction[] = [];
   report.findings.forEach((finding, index) => {
-    if (!finding.fixes.length || !rangesMeet(finding.range, params.range)) return;
+    // The range test first: reading `fixes` solves them.
+    if (!rangesMeet(finding.range, params.range) || !finding.fixes.length) return;
     const diagnostic =
       params.context.diagnostics.find(
         (d) =>
