@@ -100,6 +100,10 @@ describe('completion', () => {
       expect.arrayContaining(['pF', 'fF', 'nF']),
     );
   });
+  it('no units after a name that ends in a digit', () => {
+    expect(labels(DESIGN('').replace('gm = gm1 ', 'gm = gm1 |'))).not.toContain('pF');
+    expect(labels(DESIGN('').replace('cc = 1.2 pF', 'cc = 2.5e-1|'))).toContain('pF');
+  });
   it('fields not yet written and names in scope inside a statement', () => {
     const got = labels(DESIGN('').replace('cc = 1.2 pF', 'cc = 1.2 pF |'));
     expect(got).toContain('rz');

@@ -15,6 +15,8 @@ import type { SourcePosition } from '../../../shared/src/language/source';
 import type { DocumentReport } from '../../../shared/src/report';
 import { designAt } from '../../../shared/src/service';
 
+const AFTER_NUMBER = /(?<![A-Za-z_µΩ\d.])(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?\s*[A-Za-zµΩ%/]*$/;
+
 const keyword = (label: string, detail?: string): CompletionItem => ({
   label,
   kind: CompletionItemKind.Keyword,
@@ -33,8 +35,8 @@ export function completion(
   const typing = /\S$/.test(before) ? (words.pop() ?? '') : '';
   const design = designAt(report, position);
 
-  // After a number (`1.1 `, `1.1p`): units.
-  if (/\d\s*$/.test(before) || /\d\s*[a-zA-Zµ%/]+$/.test(before)) {
+  // After a number (`1.1 `, `1.1p`), not after a name that ends in a digit (`gm1 `): units.
+  if (AFTER_NUMBER.test(before)) {
     return UNIT_SPELLINGS.map((u) => ({ label: u, kind: CompletionItemKind.Unit }));
   }
   if (!words.length) {
