@@ -2,6 +2,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDocument } from '../../../shared/src/language';
+import { analyzeDocument } from '../../../shared/src/service';
 
 const dir = join(__dirname, '../../../examples');
 const files = readdirSync(dir).filter((f) => f.endsWith('.ampnote'));
@@ -40,5 +41,30 @@ describe('examples', () => {
       .nominal!;
     const rz = m.millers[0]!.rz!;
     expect(rz).toBeGreaterThan(1 / m.stages[1]!.gm);
+  });
+});
+
+describe('the examples behave as their comments say, on the exact analysis', () => {
+  const findings = (file: string): string[] =>
+    analyzeDocument(readFileSync(join(dir, file), 'utf8'))
+      .findings.filter((f) => f.severity !== 'info')
+      .map((f) => f.code);
+
+  it('the first attempt misses its phase margin and has its RHP zero too close', () => {
+    const codes = findings('twoStageRhpZero.ampnote');
+    expect(codes).toContain('phase-margin');
+    expect(codes).toContain('rhp-zero');
+  });
+
+  it('the nulling resistor fixes it: no error or warning is left', () => {
+    expect(findings('twoStageNullingResistor.ampnote')).toEqual([]);
+  });
+
+  it('the nested-Miller design meets its requirements in every corner, warning only about its RHP zero', () => {
+    expect(findings('threeStageNestedMiller.ampnote')).toEqual(['rhp-zero']);
+  });
+
+  it('the element-only ladder meets its DC gain requirement', () => {
+    expect(findings('gmDrivenRcLadder.ampnote')).toEqual([]);
   });
 });
