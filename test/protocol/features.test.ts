@@ -100,6 +100,14 @@ describe('completion', () => {
       expect.arrayContaining(['pF', 'fF', 'nF']),
     );
   });
+  it("lists the field's own units first", () => {
+    const c = cursor(DESIGN('').replace('cc = 1.2 pF', 'cc = 1.2 |'));
+    const items = completion(c.report, c.document, c.position).sort((a, b) =>
+      a.sortText! < b.sortText! ? -1 : 1,
+    );
+    expect(items[0]!.label).toMatch(/F$/);
+    expect(items.findIndex((i) => i.label === 'pF')).toBeLessThan(items.findIndex((i) => i.label === 'kohm'));
+  });
   it('no units after a name that ends in a digit', () => {
     expect(labels(DESIGN('').replace('gm = gm1 ', 'gm = gm1 |'))).not.toContain('pF');
     expect(labels(DESIGN('').replace('cc = 1.2 pF', 'cc = 2.5e-1|'))).toContain('pF');

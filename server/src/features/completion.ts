@@ -5,6 +5,7 @@ import type { TextDocument } from 'vscode-languageserver-textdocument';
 import {
   BUILTIN_NODES,
   ELEMENT_KINDS,
+  FIELD_DIMENSIONS,
   FIELDS_BY_STATEMENT,
   FLAGS_BY_STATEMENT,
   REQUIREMENT_KINDS,
@@ -12,6 +13,7 @@ import {
   UNIT_SPELLINGS,
 } from '../../../shared/src/language';
 import type { SourcePosition } from '../../../shared/src/language/source';
+import { DIM, lookupUnit, sameDimension } from '../../../shared/src/language/unitTable';
 import type { DocumentReport } from '../../../shared/src/report';
 import { designAt } from '../../../shared/src/service';
 
@@ -37,7 +39,14 @@ export function completion(
 
   // After a number (`1.1 `, `1.1p`), not after a name that ends in a digit (`gm1 `): units.
   if (AFTER_NUMBER.test(before)) {
-    return UNIT_SPELLINGS.map((u) => ({ label: u, kind: CompletionItemKind.Unit }));
+    // Units of the field's own dimension first (`cc = 1.2 ` → farads), then the rest.
+    const field = /\b([A-Za-z_]\w*)\s*=\s*[^=]*$/.exec(before)?.[1];
+    const dim = field ? FIELD_DIMENSIONS[field] : undefined;
+    return UNIT_SPELLINGS.map((u) => {
+      const info = lookupUnit(u);
+      const fits = !!dim && !!info && sameDimension(info.dim, DIM[dim]);
+      return { label: u, kind: CompletionItemKind.Unit, sortText: `${fits ? 0 : 1}${u}` };
+    });
   }
   if (!words.length) {
     const items = STATEMENT_KEYWORDS.map((k) => keyword(k));
