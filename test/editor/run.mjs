@@ -45,6 +45,7 @@ async function stopAll() {
 for (const sig of ['SIGINT', 'SIGTERM']) {
   process.once(sig, async () => {
     await stopAll();
+    clearRunFolders({ mine: true });
     process.exit(130);
   });
 }
@@ -54,6 +55,7 @@ const WATCHDOG_MS = Number(process.env.AMPNOTE_EDITOR_TIMEOUT_MS ?? 15 * 60_000)
 const watchdog = setTimeout(async () => {
   console.error(`editor tests: over ${WATCHDOG_MS / 1000} s, stopping everything`);
   await stopAll();
+  clearRunFolders({ mine: true });
   console.log(`${tally.passed} passed, ${tally.failed + 1} failed`);
   process.exit(1);
 }, WATCHDOG_MS);

@@ -24,7 +24,17 @@ export async function launchBrowser(xdgDir) {
     }
   }
   // launch() gives every run a fresh, throw-away profile.
-  return chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS, env, timeout: 60_000 });
+  // The runner's own signal handlers stop the browser along with the editor, in order.
+  return chromium.launch({
+    executablePath: CHROMIUM,
+    headless: true,
+    args: FLAGS,
+    env,
+    timeout: 60_000,
+    handleSIGINT: false,
+    handleSIGTERM: false,
+    handleSIGHUP: false,
+  });
 }
 
 /** A page of the workbench, loaded and ready for keyboard input. */
