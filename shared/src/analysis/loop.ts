@@ -18,7 +18,7 @@ export function frequencySpan(pz: PoleZeroForm, gain = 1): { lo: number; hi: num
   let max = 0;
   for (const list of [pz.poles, pz.zeros]) {
     for (const r of list) {
-      const m = Math.hypot(r.re, r.im);
+      const m = Math.sqrt(r.re * r.re + r.im * r.im);
       if (m > 0 && Number.isFinite(m)) {
         if (m < min) min = m;
         if (m > max) max = m;
@@ -171,12 +171,12 @@ function phaseBounds(pz: PoleZeroForm, tiny: number, dc: number): { min: number;
   let lag = 0;
   let lead = 0;
   for (const z of pz.zeros) {
-    if (Math.hypot(z.re, z.im) <= tiny) continue;
+    if (Math.sqrt(z.re * z.re + z.im * z.im) <= tiny) continue;
     if (z.re > 0) lag += 90;
     else lead += 90;
   }
   for (const p of pz.poles) {
-    if (Math.hypot(p.re, p.im) <= tiny) continue;
+    if (Math.sqrt(p.re * p.re + p.im * p.im) <= tiny) continue;
     if (p.re < 0) lag += 90;
     else lead += 90;
   }

@@ -45,7 +45,7 @@ function scale(re: Float64Array, im: Float64Array, mag: Float64Array, m: number)
 function polePencil(net: Network, s: Complex): Pencil {
   const { n, G, C } = net;
   const gAbs = net.gAbs ?? G;
-  const w = Math.hypot(s.re, s.im);
+  const w = Math.sqrt(s.re * s.re + s.im * s.im);
   const re = new Float64Array(n * n);
   const im = new Float64Array(n * n);
   const mag = new Float64Array(n * n);
@@ -62,7 +62,7 @@ function zeroPencil(net: Network, s: Complex): Pencil {
   const { n, G, C, gIn, cIn, output } = net;
   const gAbs = net.gAbs ?? G;
   const gInAbs = net.gInAbs ?? gIn;
-  const w = Math.hypot(s.re, s.im);
+  const w = Math.sqrt(s.re * s.re + s.im * s.im);
   const m = n + 1;
   const re = new Float64Array(m * m);
   const im = new Float64Array(m * m);
@@ -85,7 +85,7 @@ function zeroPencil(net: Network, s: Complex): Pencil {
 /** |last pivot| of the scaled matrix (entries of magnitude ≤ 1): near zero at a true root. */
 const lastPivot = (f: ComplexLu) => {
   const k = f.n - 1;
-  return k < 0 ? 1 : Math.hypot(f.re[k * f.n + k], f.im[k * f.n + k]);
+  return k < 0 ? 1 : Math.sqrt(f.re[k * f.n + k] ** 2 + f.im[k * f.n + k] ** 2);
 };
 
 export interface PoleCheck {
@@ -113,7 +113,7 @@ export function checkPole(net: Network, s: Complex): PoleCheck {
     }
     const pr = v.leftRe[i] * p.rows[i];
     const pi = v.leftIm[i] * p.rows[i];
-    const m = Math.hypot(pr * cr - pi * ci, pr * ci + pi * cr);
+    const m = Math.hypot(pr * cr - pi * ci, pr * ci + pi * cr); // scale unknown: keep hypot
     shares[i] = m;
     total += m;
   }
@@ -228,7 +228,7 @@ function refineAll(
 function snapToOrigin(roots: Complex[], count: number, window: number): Complex[] {
   if (count <= 0) return roots;
   const order = roots
-    .map((r, i) => ({ i, m: Math.hypot(r.re, r.im) }))
+    .map((r, i) => ({ i, m: Math.sqrt(r.re * r.re + r.im * r.im) }))
     .sort((a, b) => a.m - b.m)
     .slice(0, count);
   const out = [...roots];
@@ -274,7 +274,7 @@ export function conductanceSingular(net: Network): boolean {
 
 /** Largest root magnitude: the scale below which a root may sit at the origin. */
 export const rootScale = (roots: readonly Complex[]) =>
-  roots.reduce((m, r) => Math.max(m, Math.hypot(r.re, r.im)), 0);
+  roots.reduce((m, r) => Math.max(m, Math.sqrt(r.re * r.re + r.im * r.im)), 0);
 
 /** Polish (unless `doPolish` is false) and put roots that belong at the origin there. */
 export function refinePoles(
@@ -290,7 +290,8 @@ export function refinePoles(
     doPolish,
   );
   // Poles at the origin only with a singular G (a node with charge but no DC path).
-  if (!out.some((p) => Math.hypot(p.re, p.im) < 1e-8 * scaleMag) || !conductanceSingular(net)) return out;
+  if (!out.some((p) => Math.sqrt(p.re * p.re + p.im * p.im) < 1e-8 * scaleMag) || !conductanceSingular(net))
+    return out;
   const count = out.filter((p) => poleResidual(net, p) >= poleResidual(net, ORIGIN)).length;
   return snapToOrigin(out, Math.max(1, count), 1e-8 * scaleMag);
 }
@@ -304,6 +305,6 @@ export function refineZeros(net: Network, zeros: Complex[], scaleMag: number, do
     doPolish,
   );
   const window = 1e-3 * scaleMag;
-  if (!out.some((z) => Math.hypot(z.re, z.im) <= window)) return out;
+  if (!out.some((z) => Math.sqrt(z.re * z.re + z.im * z.im) <= window)) return out;
   return snapToOrigin(out, originZeroCount(net) ?? 0, window);
 }

@@ -66,7 +66,7 @@ export function complexLuFactor(reIn: Float64Array, imIn: Float64Array, n: numbe
     }
     const pr = re[k * n + k];
     const pi = im[k * n + k];
-    const mag = Math.hypot(pr, pi);
+    const mag = Math.sqrt(pr * pr + pi * pi);
     if (k === 0) first = mag;
     last = mag;
     if (mag === 0) continue;
