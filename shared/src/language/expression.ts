@@ -91,7 +91,38 @@ export function startsExpression(c: Cursor): boolean {
  */
 export function parseExpression(c: Cursor, ctx: ExpressionContext): Expr | undefined {
   if (!startsExpression(c)) return undefined;
-  return parseSum(c, ctx);
+  const first = c.peek()!;
+  budget = MAX_OPERATORS;
+  try {
+    return parseSum(c, ctx);
+  } catch (e) {
+    if (!(e instanceof TooComplex)) throw e;
+    // Reported once; the rest of the line belongs to the same runaway expression.
+    ctx.sink.error(
+      'syntax',
+      `This expression is too long or nested too deeply (at most ${MAX_OPERATORS} operators and parentheses).`,
+      tokenRange(e.token),
+    );
+    c.pos = c.tokens.length;
+    return { kind: 'invalid', range: spanRange(first, c.tokens[c.tokens.length - 1]!) };
+  }
+}
+
+/**
+ * Every operator and parenthesis spends one unit, so an expression tree is never deeper than this and
+ * neither parsing nor evaluating it can exhaust the stack, whatever the text.
+ */
+const MAX_OPERATORS = 400;
+let budget = MAX_OPERATORS;
+
+class TooComplex extends Error {
+  constructor(readonly token: Token) {
+    super('expression too complex');
+  }
+}
+
+function spend(t: Token): void {
+  if (--budget < 0) throw new TooComplex(t);
 }
 
 function operand(c: Cursor, ctx: ExpressionContext, after: Token, parse: () => Expr): Expr {
@@ -104,6 +135,7 @@ function parseSum(c: Cursor, ctx: ExpressionContext): Expr {
   let left = parseProduct(c, ctx);
   while (c.isOp('+') || c.isOp('-')) {
     const op = c.next()!;
+    spend(op);
     const right = operand(c, ctx, op, () => parseProduct(c, ctx));
     left = { kind: 'binary', op: op.text as '+' | '-', left, right, range: join(left.range, right.range) };
   }
@@ -114,6 +146,7 @@ function parseProduct(c: Cursor, ctx: ExpressionContext): Expr {
   let left = parseUnary(c, ctx);
   while (c.isOp('*') || c.isOp('/')) {
     const op = c.next()!;
+    spend(op);
     const right = operand(c, ctx, op, () => parseUnary(c, ctx));
     left = { kind: 'binary', op: op.text as '*' | '/', left, right, range: join(left.range, right.range) };
   }
@@ -123,6 +156,7 @@ function parseProduct(c: Cursor, ctx: ExpressionContext): Expr {
 function parseUnary(c: Cursor, ctx: ExpressionContext): Expr {
   if (c.isOp('-') || c.isOp('+')) {
     const op = c.next()!;
+    spend(op);
     const inner = operand(c, ctx, op, () => parseUnary(c, ctx));
     const range = join(tokenRange(op), inner.range);
     return op.text === '-' ? { kind: 'neg', operand: inner, range } : { kind: 'group', inner, range };
@@ -134,6 +168,7 @@ function parsePower(c: Cursor, ctx: ExpressionContext): Expr {
   const base = parsePrimary(c, ctx);
   if (!c.isOp('^')) return base;
   const op = c.next()!;
+  spend(op);
   // Right-associative, and binds tighter than unary minus on its left: -2^2 = -(2^2).
   const exponent = operand(c, ctx, op, () => parseUnary(c, ctx));
   return { kind: 'binary', op: '^', left: base, right: exponent, range: join(base.range, exponent.range) };
@@ -149,6 +184,7 @@ function parsePrimary(c: Cursor, ctx: ExpressionContext): Expr {
   if (t.kind === 'number') return parseUnit(c, ctx, t);
   if (t.kind === 'ident') return { kind: 'ref', name: t.text, range: tokenRange(t) };
   // `(`
+  spend(t);
   const inner = operand(c, ctx, t, () => parseSum(c, ctx));
   if (c.isOp(')')) {
     const close = c.next()!;

@@ -195,3 +195,37 @@ describe('positions', () => {
     expect([stage.rout, stage.cap]).toEqual([1e3, 2e-6]);
   });
 });
+
+describe('runaway expressions', () => {
+  const doc = (expr: string): ReturnType<typeof parseDocument> =>
+    parseDocument(`design d\n  stage s gm = 1 mS rout = 1 Mohm\n  param x = ${expr}\n  param y = 2\nend`);
+
+  for (const [name, expr] of [
+    ['deep parentheses', '('.repeat(100_000) + '1' + ')'.repeat(100_000)],
+    ['a long chain of minus signs', '- '.repeat(100_000) + '1'],
+    ['a long power tower', Array(50_000).fill('2').join('^')],
+    ['a long sum', Array(100_000).fill('1').join('+')],
+  ] as const) {
+    it(`${name}: one error, no crash, and the rest of the design still evaluates`, () => {
+      const d = doc(expr);
+      expect(d.diagnostics.map((x) => [x.code, x.message])).toEqual([
+        [
+          'syntax',
+          'This expression is too long or nested too deeply (at most 400 operators and parentheses).',
+        ],
+      ]);
+      expect(d.designs[0]!.nominal!.params.map((p) => p.name)).toEqual(['y']);
+    });
+  }
+
+  it('reports at the first operator over the limit, and accepts 400', () => {
+    expect(doc(Array(401).fill('1').join('+')).diagnostics).toEqual([]);
+    const d = doc(Array(402).fill('1').join('+'));
+    const line = `  param x = ${Array(402).fill('1').join('+')}`;
+    const at = line.lastIndexOf('+');
+    expect(d.diagnostics[0]!.range).toEqual({
+      start: { line: 2, character: at },
+      end: { line: 2, character: at + 1 },
+    });
+  });
+});
