@@ -193,8 +193,8 @@ export function phaseCrossover(pz: PoleZeroForm, grid: readonly number[], tiny: 
   const level = (p: number) => Math.floor((p + 180) / 360);
   let pu = Math.log(grid[0]);
   let pp = ph(pu);
-  // Every other grid point (five a decade): the phase is smooth between them.
-  for (let i = 2; i < grid.length + 1; i += 2) {
+  // Every third grid point (about three a decade): the phase is smooth between them, and Brent refines.
+  for (let i = 3; i < grid.length + 2; i += 3) {
     if (i >= grid.length) i = grid.length - 1;
     const u = Math.log(grid[i]);
     const p = ph(u);
@@ -275,18 +275,19 @@ function closedLoopPeakingDb(input: LoopInput): number {
   const span = frequencySpan(cl);
   if (span.tiny === 0) return 0;
   const grid = logGrid(span.lo * 10, (span.tiny / 1e-14) * 10);
-  const f = logMagnitudeFunction(cl);
+  const samples = sample(cl, grid);
   let best = -Infinity;
   let bi = -1;
-  const us = grid.map(Math.log);
-  for (let i = 0; i < us.length; i++) {
-    const v = f(us[i]);
-    if (v > best) {
-      best = v;
+  for (let i = 0; i < grid.length; i++) {
+    if (samples.ms[i] > best) {
+      best = samples.ms[i];
       bi = i;
     }
   }
-  if (bi > 0 && bi < us.length - 1) best = Math.max(best, goldenMax(f, us[bi - 1], us[bi + 1], 1e-12).value);
+  best = Math.log(best);
+  if (bi > 0 && bi < grid.length - 1) {
+    best = Math.max(best, goldenMax(samples.f, samples.us[bi - 1], samples.us[bi + 1], 1e-12).value);
+  }
   const ratioDb = (10 * (best - Math.log(h0sq))) / Math.LN10;
   return ratioDb > 0 ? ratioDb : 0;
 }
