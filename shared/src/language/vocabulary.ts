@@ -122,10 +122,12 @@ export function editDistance(a: string, b: string): number {
 export function closest(word: string, candidates: Iterable<string>): string | undefined {
   let best: string | undefined;
   let bestD = Infinity;
+  const limit = word.length <= 3 ? 1 : 2;
   for (const c of candidates) {
+    // Lengths further apart than the limit cannot be near; skipping them keeps a huge word cheap.
+    if (Math.abs(c.length - word.length) > limit) continue;
     const d = editDistance(word, c);
     if (d < bestD) [best, bestD] = [c, d];
   }
-  const limit = word.length <= 3 ? 1 : 2;
   return bestD <= limit ? best : undefined;
 }
