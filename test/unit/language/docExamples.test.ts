@@ -3,7 +3,16 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { parseDocument } from '../../../shared/src/language';
+import {
+  BUILTIN_NODES,
+  ELEMENT_KINDS,
+  FIELDS_BY_STATEMENT,
+  FLAGS_BY_STATEMENT,
+  KEYWORDS,
+  parseDocument,
+  REQUIREMENT_KINDS,
+  STATEMENT_KEYWORDS,
+} from '../../../shared/src/language';
 
 const doc = readFileSync(join(__dirname, '../../../docs/language.md'), 'utf8');
 const blocks = [...doc.matchAll(/```ampnote\n([\s\S]*?)```/g)].map((m) => m[1]!);
@@ -26,5 +35,29 @@ describe('docs/language.md examples', () => {
       expect(parsed.designs.length).toBeGreaterThan(0);
       if (!codes.length) for (const d of parsed.designs) expect(d.nominal).toBeDefined();
     });
+  });
+});
+
+describe('docs/language.md covers the vocabulary', () => {
+  const words = new Set([
+    ...KEYWORDS,
+    ...STATEMENT_KEYWORDS,
+    ...ELEMENT_KINDS,
+    ...REQUIREMENT_KINDS,
+    ...BUILTIN_NODES,
+    ...Object.values(FIELDS_BY_STATEMENT).flat(),
+    ...Object.values(FLAGS_BY_STATEMENT).flat(),
+  ]);
+  const fenced = [...doc.matchAll(/```[a-z]*\n([\s\S]*?)```/g)].map((m) => m[1]!);
+  const prose = doc.replace(/```[a-z]*\n[\s\S]*?```/g, '');
+  const code = [...fenced, ...[...prose.matchAll(/`([^`\n]+)`/g)].map((m) => m[1]!)];
+  for (const w of words)
+    it(`mentions \`${w}\``, () => {
+      // inside some inline code span (`w`, `w NAME …`) or code block
+      expect(code.some((span) => new RegExp(`(^|[^A-Za-z0-9_])${w}([^A-Za-z0-9_]|$)`).test(span))).toBe(true);
+    });
+
+  it('has a section for every statement', () => {
+    for (const k of STATEMENT_KEYWORDS) expect(doc).toMatch(new RegExp(`^### \`${k}\\b`, 'm'));
   });
 });
