@@ -12,6 +12,8 @@ export interface Token {
   readonly start: number;
   /** UTF-16 column just past the last character. */
   readonly end: number;
+  /** The same extent as a range; made once, since most tokens end up in some origin or diagnostic. */
+  readonly range: SourceRange;
 }
 
 export interface LexedLine {
@@ -44,7 +46,14 @@ export function lexLine(text: string, line: number): LexedLine {
   const tokens: Token[] = [];
   let i = 0;
   const push = (kind: TokenKind, from: number, to: number, spelled?: string): void => {
-    tokens.push({ kind, text: spelled ?? text.slice(from, to), line, start: from, end: to });
+    tokens.push({
+      kind,
+      text: spelled ?? text.slice(from, to),
+      line,
+      start: from,
+      end: to,
+      range: { start: { line, character: from }, end: { line, character: to } },
+    });
   };
   while (i < text.length) {
     const c = text[i]!;
@@ -115,15 +124,10 @@ export function lexLine(text: string, line: number): LexedLine {
   return { line, tokens };
 }
 
-export const tokenRange = (t: Token): SourceRange => ({
-  start: { line: t.line, character: t.start },
-  end: { line: t.line, character: t.end },
-});
+export const tokenRange = (t: Token): SourceRange => t.range;
 
 /** The range from the start of `a` to the end of `b` (both on the same line). */
-export const spanRange = (a: Token, b: Token): SourceRange => ({
-  start: { line: a.line, character: a.start },
-  end: { line: b.line, character: b.end },
-});
+export const spanRange = (a: Token, b: Token): SourceRange =>
+  a === b ? a.range : { start: a.range.start, end: b.range.end };
 
-export const tokenEnd = (t: Token): SourcePosition => ({ line: t.line, character: t.end });
+export const tokenEnd = (t: Token): SourcePosition => t.range.end;
