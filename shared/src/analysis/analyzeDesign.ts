@@ -4,7 +4,7 @@ import type { DesignModel } from '../language/model';
 import type { AnalysisProblem, DesignAnalysis, Pole, Zero } from './types';
 import { buildNetwork } from '../circuit/buildNetwork';
 import { analyzeCore, type CoreResult } from './core';
-import { checkPole, zeroResidual } from './rootCheck';
+import { checkPole, knownResidual, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
 import { slewEstimate } from './slew';
 import { handEstimates } from './handEstimates';
@@ -14,7 +14,10 @@ export interface AnalyzeOptions {
   readonly settleTolerance?: number;
   /** Compute the closed-loop step response (default true). Sweeps and synthesis turn it off. */
   readonly step?: boolean;
-  /** Compute participation and check each root against the network (default true). */
+  /**
+   * Compute participation (default true). Without it the roots are still checked against the network
+   * (and polished) and `residual` is reported; only the participation and its null vectors are skipped.
+   */
   readonly participation?: boolean;
 }
 
@@ -44,16 +47,29 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
   const withChecks = options.participation !== false;
   const warnings: string[] = [];
   const poles: Pole[] = r.open.poles.map((s) => {
-    const magnitude = Math.hypot(s.re, s.im);
+    const magnitude = Math.sqrt(s.re * s.re + s.im * s.im);
     const damping = magnitude === 0 ? 1 : -s.re / magnitude;
-    if (!withChecks)
-      return { s, hz: magnitude / (2 * Math.PI), damping, participation: [], namedAfter: 'shared' };
+    const hz = magnitude / (2 * Math.PI);
+    if (!withChecks) {
+      const residual = knownResidual.get(s);
+      if (residual !== undefined && residual > ROOT_CHECK_LIMIT) {
+        warnings.push(`pole at ${fmt(s)} rad/s failed the network check`);
+      }
+      return {
+        s,
+        hz,
+        damping,
+        participation: [],
+        namedAfter: 'shared',
+        ...(residual !== undefined ? { residual } : {}),
+      };
+    }
     const check = checkPole(r.network, s);
     if (check.residual > ROOT_CHECK_LIMIT) warnings.push(`pole at ${fmt(s)} rad/s failed the network check`);
     const top = check.participation[0];
     return {
       s,
-      hz: magnitude / (2 * Math.PI),
+      hz,
       damping,
       participation: check.participation,
       namedAfter: top && top.share >= 0.8 ? top.node : 'shared',
@@ -61,9 +77,14 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     };
   });
   const zeros: Zero[] = r.open.zeros.map((s) => {
-    const zero: Zero = { s, hz: Math.hypot(s.re, s.im) / (2 * Math.PI), rhp: s.re > 0 };
-    if (!withChecks) return zero;
-    const residual = zeroResidual(r.network, s);
+    const zero: Zero = { s, hz: Math.sqrt(s.re * s.re + s.im * s.im) / (2 * Math.PI), rhp: s.re > 0 };
+    const known = knownResidual.get(s);
+    if (!withChecks) {
+      if (known === undefined) return zero;
+      if (known > ROOT_CHECK_LIMIT) warnings.push(`zero at ${fmt(s)} rad/s failed the network check`);
+      return { ...zero, residual: known };
+    }
+    const residual = known ?? zeroResidual(r.network, s);
     if (residual > ROOT_CHECK_LIMIT) warnings.push(`zero at ${fmt(s)} rad/s failed the network check`);
     return { ...zero, residual };
   });

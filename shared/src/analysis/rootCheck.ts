@@ -194,6 +194,12 @@ function polish(s0: Complex, pencilAt: (s: Complex) => Pencil, D: Float64Array, 
 const POLISH_ABOVE = 1e-13;
 const ORIGIN: Complex = { re: 0, im: 0 };
 
+/**
+ * The network check of each root computed while refining, keyed by the root object, so that reporting
+ * `residual` later costs nothing. A root put at the origin afterwards is a new object without an entry.
+ */
+export const knownResidual = new WeakMap<Complex, number>();
+
 function refineAll(
   roots: Complex[],
   pencilAt: (s: Complex) => Pencil,
@@ -211,11 +217,22 @@ function refineAll(
     const prev = roots[i - 1];
     if (s.im < 0 && prev && prev.im === -s.im && prev.re === s.re) {
       // Keep conjugate pairs exactly conjugate.
-      out.push({ re: out[i - 1].re, im: -out[i - 1].im });
+      const partner = out[i - 1];
+      const conj = { re: partner.re, im: -partner.im };
+      const r = knownResidual.get(partner);
+      if (r !== undefined) knownResidual.set(conj, r);
+      out.push(conj);
       continue;
     }
     const r = residual(s);
-    out.push(r > POLISH_ABOVE ? polish(s, pencilAt, D(), r) : s);
+    if (r > POLISH_ABOVE) {
+      const t = polish(s, pencilAt, D(), r);
+      knownResidual.set(t, t === s ? r : residual(t));
+      out.push(t);
+    } else {
+      knownResidual.set(s, r);
+      out.push(s);
+    }
   }
   return out;
 }
@@ -232,7 +249,7 @@ function snapToOrigin(roots: Complex[], count: number, window: number): Complex[
     .sort((a, b) => a.m - b.m)
     .slice(0, count);
   const out = [...roots];
-  for (const { i, m } of order) if (m <= window) out[i] = ORIGIN;
+  for (const { i, m } of order) if (m <= window) out[i] = { re: 0, im: 0 };
   return out;
 }
 
