@@ -96,14 +96,32 @@ export interface ParseCache {
 }
 
 /** Piece-wise parsing with reuse; falls back to a whole-text parse when a design name repeats. */
+type Entry = { startLine: number; parsed: ParsedDocument };
+
+/** A piece is new when no piece of the previous text had its text. */
+const MANY_NEW = 8;
+
+/**
+ * Piece-wise parsing with reuse; falls back to a whole-text parse when a design name repeats. When many
+ * pieces are new (the first parse of a document), the whole text is parsed once and the result divided
+ * among the pieces, which is cheaper than parsing each piece and moving it to its place.
+ */
 export function createParseCache(): ParseCache {
-  let entries = new Map<string, { startLine: number; parsed: ParsedDocument }>();
+  let entries = new Map<string, Entry>();
   return {
     parse(text) {
-      const next = new Map<string, { startLine: number; parsed: ParsedDocument }>();
+      const pieces = splitAtDesigns(text);
+      let fresh = 0;
+      for (const piece of pieces) if (!entries.has(piece.text)) fresh++;
+      if (fresh > MANY_NEW) {
+        const whole = parseDocument(text);
+        entries = divide(whole, pieces) ?? new Map();
+        return whole;
+      }
+      const next = new Map<string, Entry>();
       const designs: ParsedDocument['designs'][number][] = [];
       const diagnostics: ParsedDocument['diagnostics'][number][] = [];
-      for (const piece of splitAtDesigns(text)) {
+      for (const piece of pieces) {
         let entry = next.get(piece.text) ?? entries.get(piece.text);
         if (!entry)
           entry = {
@@ -120,13 +138,43 @@ export function createParseCache(): ParseCache {
         diagnostics.push(...entry.parsed.diagnostics);
       }
       entries = next;
-      const names = new Set<string>();
-      for (const d of designs) {
-        if (d.name && names.has(d.name)) return parseDocument(text);
-        names.add(d.name);
-      }
+      if (hasRepeatedName(designs)) return parseDocument(text);
       return { designs, diagnostics };
     },
     clear: () => entries.clear(),
   };
+}
+
+function hasRepeatedName(designs: ParsedDocument['designs']): boolean {
+  const names = new Set<string>();
+  for (const d of designs) {
+    if (d.name && names.has(d.name)) return true;
+    names.add(d.name);
+  }
+  return false;
+}
+
+/**
+ * A whole-text parse divided among its pieces by line: what each piece's own parse would give, since a
+ * piece's designs and diagnostics all lie on its lines. Undefined when a name repeats (that diagnostic
+ * belongs to no single piece) or two pieces share a text.
+ */
+function divide(whole: ParsedDocument, pieces: readonly Piece[]): Map<string, Entry> | undefined {
+  if (hasRepeatedName(whole.designs)) return undefined;
+  const out = new Map<string, Entry>();
+  let d = 0;
+  let g = 0;
+  for (let i = 0; i < pieces.length; i++) {
+    const piece = pieces[i]!;
+    const end = pieces[i + 1]?.startLine ?? Infinity;
+    const designs: ParsedDocument['designs'][number][] = [];
+    const diagnostics: ParsedDocument['diagnostics'][number][] = [];
+    while (d < whole.designs.length && whole.designs[d]!.range.start.line < end)
+      designs.push(whole.designs[d++]!);
+    while (g < whole.diagnostics.length && whole.diagnostics[g]!.range.start.line < end)
+      diagnostics.push(whole.diagnostics[g++]!);
+    if (out.has(piece.text)) return undefined;
+    out.set(piece.text, { startLine: piece.startLine, parsed: { designs, diagnostics } });
+  }
+  return out;
 }

@@ -68,8 +68,12 @@ export interface AnalysisCache {
   readonly size: number;
 }
 
-const cacheKey = (source: DesignSource, settings: CheckSettings) =>
-  `${JSON.stringify(settings)}\u0000${source.text}`;
+const settingsKeys = new WeakMap<CheckSettings, string>();
+function cacheKey(source: DesignSource, settings: CheckSettings): string {
+  let key = settingsKeys.get(settings);
+  if (key === undefined) settingsKeys.set(settings, (key = JSON.stringify(settings)));
+  return `${key}\u0000${source.text}`;
+}
 
 export function createAnalysisCache(options: AnalysisCacheOptions = {}): AnalysisCache {
   const entries = new Map<string, DesignReport>();

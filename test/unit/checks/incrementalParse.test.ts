@@ -65,4 +65,34 @@ describe('piece-wise parsing', () => {
       { numRuns: 300 },
     );
   });
+
+  it('divides a first whole parse among many pieces, then reuses them', () => {
+    const body = fc.array(
+      fc.tuple(
+        fc.constantFrom(...LINES.filter((l) => !/^\s*design /.test(l))),
+        fc.constantFrom('\n', '\r\n'),
+      ),
+      {
+        maxLength: 8,
+      },
+    );
+    const docs = fc
+      .array(body, { minLength: 10, maxLength: 16 })
+      .map((designs) =>
+        designs.map((lines, i) => `design d${i}\n` + lines.map(([l, nl]) => l + nl).join('')).join(''),
+      );
+    fc.assert(
+      fc.property(docs, fc.nat(), (text, k) => {
+        const cache = createParseCache();
+        expect(cache.parse(text)).toEqual(parseDocument(text));
+        const lines = text.split('\n');
+        const at = k % lines.length;
+        lines.splice(at, 0, '  param extra = 3 pF');
+        const edited = lines.join('\n');
+        expect(cache.parse(edited)).toEqual(parseDocument(edited));
+        expect(cache.parse(text)).toEqual(parseDocument(text));
+      }),
+      { numRuns: 150 },
+    );
+  });
 });
