@@ -78,7 +78,7 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
     const ce = eigenvalues(closed.A, closed.order);
     closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);
   }
-  const span = frequencySpan(open, Math.max(1, Math.abs(beta)));
+  const span = frequencySpan(open, Math.max(1, Math.abs(beta)), [Math.abs(dcGain), Math.abs(beta * dcGain)]);
   const grid = logGrid(span.lo, span.hi);
   const samples = sample(open, grid);
   const loop = loopMetrics({

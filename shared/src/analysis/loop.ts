@@ -13,7 +13,11 @@ const POINTS_PER_DECADE = 10;
  * |gain·H|. Above ten times the largest root each factor |jω − r| is within 10 % of ω, so
  * |H| ≤ |k·gain|·1.1^nz·ω^(nz−np)/0.9^np, which bounds the last crossing for a strictly proper H.
  */
-export function frequencySpan(pz: PoleZeroForm, gain = 1): { lo: number; hi: number; tiny: number } {
+export function frequencySpan(
+  pz: PoleZeroForm,
+  gain = 1,
+  dcMagnitudes: readonly number[] = [],
+): { lo: number; hi: number; tiny: number } {
   let min = Infinity;
   let max = 0;
   for (const list of [pz.poles, pz.zeros]) {
@@ -34,7 +38,15 @@ export function frequencySpan(pz: PoleZeroForm, gain = 1): { lo: number; hi: num
     const bound = Math.abs(pz.k * gain) * 1.1 ** pz.zeros.length * (1 / 0.9) ** pz.poles.length;
     hi = 2 * Math.max(10 * max, bound ** (1 / rho));
   }
-  return { lo: min / 100, hi: Math.min(hi, max * 1e15), tiny };
+  // Below the lowest root |H|² ≈ |H(0)|²(1 − O(ω²/min²)), so a DC magnitude close to 1 crosses unity
+  // near min·√|H(0)² − 1|: start low enough to see it.
+  let lo = min / 100;
+  for (const m of dcMagnitudes) {
+    if (!Number.isFinite(m) || m === 0) continue;
+    const near = Math.sqrt(Math.abs(m * m - 1));
+    if (near < 1) lo = Math.min(lo, (min * Math.max(near, 1e-6)) / 100);
+  }
+  return { lo, hi: Math.min(hi, max * 1e15), tiny };
 }
 
 export function logGrid(lo: number, hi: number, perDecade = POINTS_PER_DECADE): number[] {

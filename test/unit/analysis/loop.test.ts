@@ -39,6 +39,15 @@ describe('loop metrics', () => {
     expect(relErr(a.openLoopUgfHz! * 2 * Math.PI, p * Math.sqrt((gm * r) ** 2 - 1))).toBeLessThan(1e-10);
   });
 
+  it('finds a crossing far below the pole when the DC loop gain is barely above unity', () => {
+    const [gm, r, c] = [1e-3, 1000.02, 1e-12];
+    const a = analyzeDesign(chain([{ gm, r, c }]));
+    const l0 = gm * r;
+    // |L0/(1 + jω/p)| = 1 at ω = p·√(L0² − 1) (elementary), here 0.0063·p.
+    const w = (1 / (r * c)) * Math.sqrt(l0 * l0 - 1);
+    expect(relErr(a.loop.ugfHz! * 2 * Math.PI, w)).toBeLessThan(1e-8);
+  });
+
   it('two poles: crossing from (1 + x/p1²)(1 + x/p2²) = L0², PM = 180° − atan(ω/p1) − atan(ω/p2)', () => {
     const sections = [
       { gm: 1e-4, r: 1e6, c: 1e-12 },
