@@ -1,6 +1,9 @@
 // Gain margin where the loop phase reaches −180°, and loops that cross unity more than once.
 import { formatDb, formatHz } from '../format/si';
+import type { DesignAnalysis } from '../analysis/types';
+import type { CornerRun } from '../report';
 import { acrossRuns, type Hit } from './acrossRuns';
+import { ccForMarginFix } from './ccForMargin';
 import type { Check } from './context';
 import { addRequirementEdit, defined } from './fixes';
 import { compensationRange, primaryCompensation, requirementOf, violates, judgedAsLoop } from './locate';
@@ -52,19 +55,22 @@ export const gainMarginCheck: Check = (input) =>
       }
       return hits;
     },
-    ({ worst, worstRun }) =>
-      worst.key === 'margin' && !requirementOf(worstRun.model, 'gain-margin')
-        ? [
-            {
-              title: `Add \`require gainmargin >= ${input.settings.gainMargin} dB\` (the default, stated)`,
-              edits: [
-                addRequirementEdit(
-                  input.source,
-                  worstRun.model,
-                  `require gainmargin >= ${input.settings.gainMargin} dB`,
-                ),
-              ],
+    ({ worst, worstRun }) => {
+      if (worst.key !== 'margin') return [];
+      const enough = (a: DesignAnalysis, run: CornerRun) => {
+        const req = requirementOf(run.model, 'gain-margin');
+        const gm = a.loop.gainMarginDb;
+        return gm === undefined || !violates(req?.op ?? '>=', gm, req?.value ?? input.settings.gainMargin);
+      };
+      const line = `require gainmargin >= ${input.settings.gainMargin} dB`;
+      return defined([
+        ccForMarginFix(input, worstRun, enough, 'more gain margin'),
+        requirementOf(worstRun.model, 'gain-margin')
+          ? undefined
+          : {
+              title: `Add \`${line}\` (the default, stated)`,
+              edits: [addRequirementEdit(input.source, worstRun.model, line)],
             },
-          ]
-        : [],
+      ]);
+    },
   );
