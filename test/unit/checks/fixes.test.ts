@@ -83,6 +83,15 @@ describe('quick fixes on the exact model', () => {
     expect(codes).not.toContain('gm-ratio');
   });
 
+  it('calms peaking with a Cc solved for more phase margin', () => {
+    const finding = find(report.findings, 'complex-poles');
+    const fix = fixTitled(finding, 'Set cc');
+    expect(fix.title).toMatch(/phase margin: calmer poles/);
+    const after = analyzeDocument(apply(RHP, fix.edits));
+    expect(after.findings.map((f) => f.code)).not.toContain('complex-poles');
+    expect(after.designs[0]!.runs[0]!.analysis.loop.peakingDb).toBeLessThanOrEqual(1);
+  });
+
   it('offers no fix that a corner overriding the same value would undo', () => {
     const text = RHP.replace('end\n', '  corner weak gm2 = 300 uS\nend\n');
     const ratio = find(analyzeDocument(text).findings, 'gm-ratio');
