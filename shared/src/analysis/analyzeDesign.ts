@@ -66,13 +66,13 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     }
     const check = checkPole(r.network, s);
     if (check.residual > ROOT_CHECK_LIMIT) warnings.push(`pole at ${fmt(s)} rad/s failed the network check`);
-    const top = check.participation[0];
     return {
       s,
       hz,
       damping,
       participation: check.participation,
-      namedAfter: top && top.share >= 0.8 ? top.node : 'shared',
+      ...(check.rawParticipation ? { rawParticipation: check.rawParticipation } : {}),
+      namedAfter: check.namedAfter,
       residual: check.residual,
     };
   });

@@ -7,6 +7,7 @@ import type { Network } from '../circuit/network';
 import type { Complex, Participation } from './types';
 import { complexLuFactor, complexLuSolve, complexNullVectors, type ComplexLu } from '../numeric/complexLu';
 import { luFactor, luSolve } from '../numeric/luReal';
+import { showParticipation } from './participation';
 
 interface Pencil {
   readonly m: number;
@@ -90,7 +91,11 @@ const lastPivot = (f: ComplexLu) => {
 
 export interface PoleCheck {
   readonly residual: number;
+  /** As shown to users: internal nodes labelled, a junction counted with its node (see participation.ts). */
   readonly participation: Participation[];
+  /** Per network node under its network name; only when the network has internal nodes. */
+  readonly rawParticipation?: Participation[];
+  readonly namedAfter: string;
 }
 
 export function checkPole(net: Network, s: Complex): PoleCheck {
@@ -100,29 +105,33 @@ export function checkPole(net: Network, s: Complex): PoleCheck {
   const v = complexNullVectors(f);
   // Unscaled vectors: φ = Dc·φ', ψ = Dr·ψ'. p_i = ψ_i·(Cφ)_i; shares are |p_i|/Σ|p_j|, so the
   // normalisation ψᵀCφ = 1 cancels and need not be applied.
+  const phiRe = new Float64Array(n);
+  const phiIm = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    phiRe[j] = v.rightRe[j] * p.cols[j];
+    phiIm[j] = v.rightIm[j] * p.cols[j];
+  }
   const shares = new Float64Array(n);
-  let total = 0;
   for (let i = 0; i < n; i++) {
     let cr = 0;
     let ci = 0;
     for (let j = 0; j < n; j++) {
       const cij = C[i * n + j];
       if (cij === 0) continue;
-      cr += cij * v.rightRe[j] * p.cols[j];
-      ci += cij * v.rightIm[j] * p.cols[j];
+      cr += cij * phiRe[j];
+      ci += cij * phiIm[j];
     }
     const pr = v.leftRe[i] * p.rows[i];
     const pi = v.leftIm[i] * p.rows[i];
-    const m = Math.hypot(pr * cr - pi * ci, pr * ci + pi * cr); // scale unknown: keep hypot
-    shares[i] = m;
-    total += m;
+    shares[i] = Math.hypot(pr * cr - pi * ci, pr * ci + pi * cr); // scale unknown: keep hypot
   }
-  const participation: Participation[] = net.nodes.map((node, i) => ({
-    node: node.name,
-    share: total > 0 ? shares[i] / total : 0,
-  }));
-  participation.sort((a, b) => b.share - a.share);
-  return { residual: lastPivot(f), participation };
+  const shown = showParticipation(net, shares, phiRe, phiIm);
+  return {
+    residual: lastPivot(f),
+    participation: shown.participation,
+    ...(shown.raw ? { rawParticipation: shown.raw } : {}),
+    namedAfter: shown.namedAfter,
+  };
 }
 
 export function poleResidual(net: Network, s: Complex): number {

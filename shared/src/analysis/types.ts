@@ -20,9 +20,19 @@ export interface Pole {
   readonly hz: number;
   /** Damping ratio −re/|s| (1 for a real LHP pole, negative when unstable). */
   readonly damping: number;
-  /** Sorted by share, largest first; internal nodes (e.g. a buffer's input) appear with their own names. */
+  /**
+   * Sorted by share, largest first, summing to 1. Internal nodes appear under a label tied to the statement
+   * that made them (`miller a -> b (Rz–Cc junction)`, `buffered a -> b (buffer input)`); a nulling
+   * resistor's junction is counted with the node it hangs from when the resistor carries under 10 % of
+   * that node's swing in this mode (docs/analysis.md).
+   */
   readonly participation: readonly Participation[];
-  /** The node holding ≥ 80 % of the pole, or `shared` when none does. */
+  /**
+   * The shares per network node under their network names (`miller1.mid`), before any attribution. Only
+   * present when the network has internal nodes.
+   */
+  readonly rawParticipation?: readonly Participation[];
+  /** The design node holding ≥ 80 % of the pole (as shown in `participation`), or `shared` when none does. */
   readonly namedAfter: string | 'shared';
   /** Network check: last/first pivot of the equilibrated G + sC at this pole (near 0 for a true pole). */
   readonly residual?: number;

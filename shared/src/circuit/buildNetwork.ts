@@ -20,15 +20,18 @@ export function buildNetwork(model: DesignModel): BuildResult {
     index.set(decl.name, nodes.length);
     nodes.push({ name: decl.name, kind: 'design' });
   }
-  const internal = (name: string): number => {
+  const internal = (name: string, label: string): number => {
     index.set(name, nodes.length);
-    nodes.push({ name, kind: 'internal' });
+    nodes.push({ name, kind: 'internal', label });
     return nodes.length - 1;
   };
   model.millers.forEach((m, i) => {
-    if (m.rz !== undefined && m.rz > 0) internal(millerMidpointName(i));
+    if (m.rz !== undefined && m.rz > 0)
+      internal(millerMidpointName(i), `miller ${m.from} -> ${m.to} (Rz–Cc junction)`);
   });
-  model.buffered.forEach((_, i) => internal(bufferInputName(i)));
+  model.buffered.forEach((bc, i) =>
+    internal(bufferInputName(i), `buffered ${bc.from} -> ${bc.to} (buffer input)`),
+  );
 
   const terminalOf = (name: string, what: string): Terminal | undefined => {
     if (name === model.input) return 'input';
@@ -100,6 +103,7 @@ export function buildNetwork(model: DesignModel): BuildResult {
       const mid = index.get(millerMidpointName(i))!;
       const g = resistance(m.rz, `${what}: rz`, m.from);
       if (g !== undefined) b.conductance(from, mid, g);
+      if (g !== undefined && typeof from === 'number') nodes[mid] = { ...nodes[mid], seriesTo: from };
       b.capacitance(mid, to, m.cc);
     } else {
       if (m.rz !== undefined && !finite(m.rz, `${what}: rz`, m.from)) return;

@@ -5,6 +5,17 @@ export interface NetworkNode {
   readonly name: string;
   /** `internal` nodes are created by the circuit layer (a nulling resistor's midpoint, a buffer's input). */
   readonly kind: 'design' | 'internal';
+  /**
+   * For an internal node: a readable name tied to the statement the user wrote
+   * (`miller first -> second (Rz–Cc junction)`), used wherever results are shown.
+   */
+  readonly label?: string;
+  /**
+   * For an internal node joined to a design node through the element's own series resistor (a nulling
+   * resistor's junction): that design node's index. Participation of the junction is attributed to it
+   * when the resistor carries little of the mode's voltage (docs/analysis.md, Participation).
+   */
+  readonly seriesTo?: number;
 }
 
 export interface Network {

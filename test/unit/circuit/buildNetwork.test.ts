@@ -37,7 +37,12 @@ describe('buildNetwork stamps', () => {
       ],
       millers: [{ from: 'a', to: 'b', cc: 1e-12, rz: 1e3 }],
     });
-    expect(n.nodes[2]).toEqual({ name: 'miller1.mid', kind: 'internal' });
+    expect(n.nodes[2]).toEqual({
+      name: 'miller1.mid',
+      kind: 'internal',
+      label: 'miller a -> b (Rz–Cc junction)',
+      seriesTo: 0,
+    });
     // 1/rz between a and the midpoint; cc between the midpoint and b.
     expect(at(n.G, 3, 0, 2)).toBe(-1e-3);
     expect(at(n.G, 3, 2, 2)).toBe(1e-3);
@@ -55,7 +60,11 @@ describe('buildNetwork stamps', () => {
       ],
       buffered: [{ from: 'b', to: 'a', cc: 1e-12, gm: 5e-5, cap: 2e-14 }],
     });
-    expect(n.nodes[2]).toEqual({ name: 'buffer1.in', kind: 'internal' });
+    expect(n.nodes[2]).toEqual({
+      name: 'buffer1.in',
+      kind: 'internal',
+      label: 'buffered b -> a (buffer input)',
+    });
     expect(at(n.G, 3, 2, 2)).toBe(5e-5);
     expect(at(n.G, 3, 0, 2)).toBe(-5e-5);
     expect(at(n.C, 3, 1, 2)).toBe(-1e-12);
