@@ -3,7 +3,7 @@
 // exported charts where the user chooses.
 import { randomBytes } from 'node:crypto';
 import * as vscode from 'vscode';
-import type { PanelData } from '../../shared/src/protocol/panelData';
+import type { CompensationTarget, PanelData } from '../../shared/src/protocol/panelData';
 import {
   CompensationEditRequest,
   DesignSummaryRequest,
@@ -24,6 +24,8 @@ import type {
 import { panelHtml } from './panelHtml';
 import { isChartId, parseWebviewMessage } from './webviewGuard';
 import type { ServerRequests } from './requests';
+
+const sameTarget = (a: CompensationTarget, b: CompensationTarget) => a.kind === b.kind && a.index === b.index;
 
 export const PANEL_VIEW_TYPE = 'ampnote.polePanel';
 const FOLLOW_MS = 200;
@@ -52,6 +54,10 @@ export class PanelHost implements vscode.Disposable {
   private panel: vscode.WebviewPanel | undefined;
   private target: Target | undefined;
   private overrides: { cc?: number; rz?: number } = {};
+  /** The element the user chose to sweep (absent: the design's first); belongs to the design shown. */
+  private choice: CompensationTarget | undefined;
+  /** Set by `show`: the next request may choose the element under the cursor. */
+  private preselectAt: { line: number; character: number } | undefined;
   private last: PanelData | null = null;
   private inFlight: vscode.CancellationTokenSource | undefined;
   private timer: NodeJS.Timeout | undefined;
@@ -97,6 +103,8 @@ export class PanelHost implements vscode.Disposable {
               uri: saved.uri,
               design: typeof saved.design === 'string' ? saved.design : undefined,
             });
+            const kept = parseWebviewMessage({ type: 'compensation', target: saved.compensation });
+            if (kept?.type === 'compensation') this.choice = kept.target;
             this.schedule(0);
           } else if (editor && editor.document.languageId === 'ampnote') {
             this.follow(editor, 0);
@@ -117,12 +125,14 @@ export class PanelHost implements vscode.Disposable {
         design: args.design,
         position: position && { line: position.line, character: position.character },
       });
+      this.preselectAt = position && { line: position.line, character: position.character };
     } else if (editor && editor.document.languageId === 'ampnote') {
       const p = editor.selection.active;
       this.setTarget({
         uri: editor.document.uri.toString(),
         position: { line: p.line, character: p.character },
       });
+      this.preselectAt = { line: p.line, character: p.character };
     }
     if (this.panel) {
       this.panel.reveal(this.panel.viewColumn ?? vscode.ViewColumn.Beside, true);
@@ -181,8 +191,10 @@ export class PanelHost implements vscode.Disposable {
 
   private setTarget(next: Target): void {
     const sameDocument = this.target?.uri === next.uri;
-    if (!sameDocument || (next.design !== undefined && next.design !== this.last?.design))
+    if (!sameDocument || (next.design !== undefined && next.design !== this.last?.design)) {
       this.overrides = {};
+      this.choice = undefined;
+    }
     this.target = next;
   }
 
@@ -254,12 +266,16 @@ export class PanelHost implements vscode.Disposable {
     const cts = new vscode.CancellationTokenSource();
     this.inFlight = cts;
     const version = this.documentVersion(target.uri);
+    const preselect = this.choice === undefined ? this.preselectAt : undefined;
+    this.preselectAt = undefined;
     const params: PanelDataParams = {
       uri: target.uri,
       design: target.design,
       position: target.design === undefined ? target.position : undefined,
       cc: this.overrides.cc,
       rz: this.overrides.rz,
+      ...(this.choice ? { compensation: this.choice } : {}),
+      ...(preselect ? { compensationAt: preselect } : {}),
     };
     try {
       const data = await this.server.request<PanelDataParams, PanelDataResult>(
@@ -269,14 +285,20 @@ export class PanelHost implements vscode.Disposable {
       );
       if (cts.token.isCancellationRequested) return;
       if (data && this.last && (data.design !== this.last.design || data.uri !== this.last.uri)) {
-        // Another design came under the cursor: slider values belong to the previous one.
-        if (this.overrides.cc !== undefined || this.overrides.rz !== undefined) {
+        // Another design came under the cursor: slider values and the chosen element belong to the
+        // previous one.
+        if (this.overrides.cc !== undefined || this.overrides.rz !== undefined || this.choice) {
           this.overrides = {};
+          this.choice = undefined;
           this.last = data;
           this.schedule(0);
           return;
         }
       }
+      // The element under the cursor was pre-selected: keep it as the choice while this design is shown.
+      const first = data?.compensationChoices?.[0];
+      if (preselect && data?.compensation && first && !sameTarget(data.compensation, first))
+        this.choice = { kind: data.compensation.kind, index: data.compensation.index };
       this.last = data;
       this.lastVersion = version;
       if (this.panel) this.panel.title = data ? `Pole split: ${data.design}` : 'Pole split';
@@ -306,6 +328,12 @@ export class PanelHost implements vscode.Disposable {
       case 'apply':
         await this.apply(msg.cc, msg.rz);
         return;
+      case 'compensation':
+        // Slider values belong to the element they moved.
+        this.choice = msg.target;
+        this.overrides = {};
+        this.schedule(0);
+        return;
       case 'exportPng':
         await this.save(
           msg.chart,
@@ -322,7 +350,16 @@ export class PanelHost implements vscode.Disposable {
   private async apply(cc: number | undefined, rz: number | undefined): Promise<void> {
     const data = this.last;
     if (!data || (cc === undefined && rz === undefined)) return;
-    const params: CompensationEditParams = { uri: data.uri, design: data.design, cc, rz };
+    // Into the element the panel shows, whose sliders made these values.
+    const params: CompensationEditParams = {
+      uri: data.uri,
+      design: data.design,
+      cc,
+      rz,
+      ...(data.compensation
+        ? { compensation: { kind: data.compensation.kind, index: data.compensation.index } }
+        : {}),
+    };
     try {
       const result = await this.server.request<CompensationEditParams, CompensationEditResult>(
         CompensationEditRequest.method,

@@ -65,6 +65,10 @@ export function panelHtml(input: PanelHtmlInput): string {
       <dl id="summary" class="summary"></dl>
     </header>
     <section class="controls" id="controls" aria-label="Compensation">
+      <label class="slider target-box hidden" id="target-box">
+        <span class="slider-label">Sweep</span>
+        <select id="cc-target" aria-label="Compensation element the sliders vary"></select>
+      </label>
       <label class="slider" id="cc-box">
         <span class="slider-label">C<sub>c</sub></span>
         <input id="cc-slider" type="range" min="0" max="1000" step="1" value="500" aria-label="Compensation capacitor (log scale)">

@@ -24,6 +24,13 @@ export function parseWebviewMessage(raw: unknown): WebviewToHost | undefined {
       return { type: 'slider', ...values() };
     case 'apply':
       return { type: 'apply', ...values() };
+    case 'compensation': {
+      const t = m.target as { kind?: unknown; index?: unknown } | null | undefined;
+      if (!t || typeof t !== 'object') return undefined;
+      if (t.kind !== 'miller' && t.kind !== 'buffered') return undefined;
+      if (!Number.isInteger(t.index) || (t.index as number) < 0) return undefined;
+      return { type: 'compensation', target: { kind: t.kind, index: t.index as number } };
+    }
     case 'exportCsv':
       return isChartId(m.chart) && typeof m.csv === 'string'
         ? { type: 'exportCsv', chart: m.chart, csv: m.csv }

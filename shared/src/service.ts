@@ -18,6 +18,8 @@ import { plausibilityCheck } from './checks/plausibility';
 import { resolveCheckSettings, type CheckSettings } from './checks/settings';
 import type { Finding, TextEditSpec } from './checks/types';
 import { formatSi } from './format/si';
+import { hasCompensation, sweptCompensation } from './panel/buildPanelData';
+import type { CompensationTarget } from './protocol/panelData';
 import { createParseCache } from './incrementalParse';
 import type { DesignModel, DesignSource, ParsedDocument } from './language/model';
 import type { SourcePosition, SourceRange } from './language/source';
@@ -244,15 +246,24 @@ export function designNamed(report: DocumentReport, name: string): DesignReport 
 
 /**
  * Edits that write compensation values chosen elsewhere (the panel's sliders) into the element the panel
- * sweeps (the first Miller capacitor, else the first buffered one): `cc` replaces its value (or its
+ * sweeps (`target`, else the first Miller capacitor, else the first buffered one; a target the design
+ * does not have gives no edit): `cc` replaces its value (or its
  * parameter's); `rz` replaces or is inserted, and `rz = 0` removes the nulling resistor.
  */
-export function compensationEdits(design: DesignReport, cc?: number, rz?: number): TextEditSpec[] {
+export function compensationEdits(
+  design: DesignReport,
+  cc?: number,
+  rz?: number,
+  target?: CompensationTarget,
+): TextEditSpec[] {
   const model = design.source.nominal;
   if (!model) return [];
-  const item = model.millers[0] ?? model.buffered[0];
-  if (!item) return [];
-  const isMiller = model.millers.length > 0;
+  // A named element must exist: never write a value meant for one capacitor into another.
+  if (target && !hasCompensation(model, target)) return [];
+  const chosen = sweptCompensation(model, target);
+  if (!chosen) return [];
+  const isMiller = chosen.kind === 'miller';
+  const item = isMiller ? model.millers[chosen.index]! : model.buffered[chosen.index]!;
   const edits: TextEditSpec[] = [];
   const ccField = item.origin.fields['cc'];
   if (cc !== undefined && cc > 0 && Number.isFinite(cc) && ccField) {

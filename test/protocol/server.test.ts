@@ -310,6 +310,78 @@ describe('language server over stdio', () => {
     expect(edit!.edits.map((e) => e.newText)).toEqual(['1.5 pF', ' rz = 3 kohm']);
   });
 
+  it('sweeps and writes the compensation element asked for, on a nested-Miller design', async () => {
+    const file = 'examples/threeStageNestedMiller.ampnote';
+    const uri = client.openFile(file);
+    const text = readFileSync(resolve(ROOT, file), 'utf8');
+    const model = parseDocument(text).designs[0]!.nominal!;
+    const lines = text.split('\n');
+    const innerLine = lines.findIndex((l) => /^\s*miller second -> third/.test(l));
+    expect(innerLine).toBeGreaterThan(0);
+    type Panel = {
+      compensation: { kind: string; index: number; ccWritten: number; label: string };
+      compensationChoices: { kind: string; index: number; label: string }[];
+      locus: { poles: { cc: number[] }[] };
+    } | null;
+    const outer = await client.request<Panel>('ampnote/panelData', { uri, design: model.name });
+    expect(outer!.compensation).toMatchObject({ kind: 'miller', index: 0, ccWritten: model.millers[0]!.cc });
+    expect(outer!.compensationChoices.map((c) => c.label)).toEqual([
+      'miller first -> third',
+      'miller second -> third',
+    ]);
+    const inner = await client.request<Panel>('ampnote/panelData', {
+      uri,
+      design: model.name,
+      compensation: { kind: 'miller', index: 1 },
+    });
+    expect(inner!.compensation).toMatchObject({
+      kind: 'miller',
+      index: 1,
+      ccWritten: model.millers[1]!.cc,
+      label: 'miller second -> third',
+    });
+    // The sweep spans the inner capacitor's own value (factor 100 either way, sweepValues).
+    expect(Math.max(...inner!.locus.poles[0]!.cc)).toBeCloseTo(model.millers[1]!.cc * 100, 20);
+    // The cursor on the inner capacitor's line pre-selects it; elsewhere the first stays the default.
+    const at = await client.request<Panel>('ampnote/panelData', {
+      uri,
+      position: { line: innerLine, character: 2 },
+      compensationAt: { line: innerLine, character: 2 },
+    });
+    expect(at!.compensation).toMatchObject({ kind: 'miller', index: 1 });
+    const stale = await client.request<Panel>('ampnote/panelData', {
+      uri,
+      design: model.name,
+      compensation: { kind: 'miller', index: 7 },
+    });
+    expect(stale!.compensation).toMatchObject({ kind: 'miller', index: 0 });
+
+    const edit = await client.request<{
+      edits: { range: { start: { line: number } }; newText: string }[];
+    } | null>('ampnote/compensationEdit', {
+      uri,
+      design: model.name,
+      cc: 5.4321e-12,
+      compensation: { kind: 'miller', index: 1 },
+    });
+    // Rounded to 3 significant digits, written into the inner capacitor's line only.
+    expect(edit!.edits.map((e) => [e.range.start.line, e.newText])).toEqual([[innerLine, '5.43 pF']]);
+    const applied = applyEdits(text, edit!.edits as never);
+    const after = parseDocument(applied).designs[0]!.nominal!;
+    expect(after.millers[1]!.cc).toBeCloseTo(5.43e-12, 24);
+    expect(after.millers[0]!.cc).toBe(model.millers[0]!.cc);
+    // A target the design does not have, or a malformed one, writes nothing.
+    for (const compensation of [{ kind: 'miller', index: 2 }, { kind: 'buffered', index: 0 }, { kind: 'x' }])
+      expect(
+        await client.request('ampnote/compensationEdit', {
+          uri,
+          design: model.name,
+          cc: 3e-12,
+          compensation,
+        }),
+      ).toBeNull();
+  });
+
   it('answers bad requests without dying', async () => {
     const uri = client.openFile('examples/twoStageRhpZero.ampnote');
     await client.diagnosticsFor(uri, 1);

@@ -34,6 +34,26 @@ describe('messages from the webview', () => {
     });
   });
 
+  it('keeps a well-formed compensation choice and drops any other', () => {
+    expect(parseWebviewMessage({ type: 'compensation', target: { kind: 'miller', index: 1 } })).toEqual({
+      type: 'compensation',
+      target: { kind: 'miller', index: 1 },
+    });
+    expect(parseWebviewMessage({ type: 'compensation', target: { kind: 'buffered', index: 0 } })).toEqual({
+      type: 'compensation',
+      target: { kind: 'buffered', index: 0 },
+    });
+    for (const target of [
+      undefined,
+      null,
+      { kind: 'miller', index: -1 },
+      { kind: 'miller', index: 0.5 },
+      { kind: 'miller', index: '1' },
+      { kind: 'resistor', index: 0 },
+    ])
+      expect(parseWebviewMessage({ type: 'compensation', target })).toBeUndefined();
+  });
+
   it('rejects unknown types, unknown charts and data that is not a PNG', () => {
     expect(parseWebviewMessage(null)).toBeUndefined();
     expect(parseWebviewMessage('ready')).toBeUndefined();

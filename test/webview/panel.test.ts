@@ -5,10 +5,10 @@ import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseDocument } from '../../shared/src/language';
-import { analyzeDesign } from '../../shared/src/analysis';
+import { analyzeDesign, sweepCompensation } from '../../shared/src/analysis';
 import type { DesignModel } from '../../shared/src/language/model';
-import type { PanelData } from '../../shared/src/protocol/panelData';
-import { buildPanelData } from '../../shared/src/panel/buildPanelData';
+import type { CompensationTarget, PanelData } from '../../shared/src/protocol/panelData';
+import { buildPanelData, sweepValues } from '../../shared/src/panel/buildPanelData';
 import { symlog } from '../../client/src/webview/symlog';
 import { positionToValue } from '../../client/src/webview/sliderScale';
 import { panelHtml } from '../../client/src/panelHtml';
@@ -65,7 +65,10 @@ function exampleCases(): Case[] {
 const fixture = casesFrom('fixture', 'file:///work/fixture/webview.ampnote', TWO_STAGE);
 const cases: Case[] = [...fixture, ...exampleCases()];
 
-function panelData(c: Case, over: { cc?: number; rz?: number } = {}): PanelData {
+function panelData(
+  c: Case,
+  over: { cc?: number; rz?: number; compensation?: CompensationTarget } = {},
+): PanelData {
   const d = buildPanelData(c.model, c.uri, over);
   if (!d) throw new Error('buildPanelData returned nothing without cancellation');
   // The server sends it as JSON over the language-server connection: compare what survives that trip.
@@ -326,6 +329,85 @@ describe('interaction', () => {
       type: 'apply',
       cc: expectedCc,
     });
+  });
+
+  it('sweeps the element chosen in the selector, and draws the engine’s sweep of that element', async () => {
+    const nested = cases.find((k) => k.model.millers.length > 1);
+    expect(nested, 'an example with two Miller capacitors').toBeDefined();
+    const m = nested!.model;
+    const first = panelData(nested!);
+    await panel.showData(first);
+    expect(await panel.page.isVisible('#cc-target')).toBe(true);
+    const labels = await panel.page.locator('#cc-target option').allTextContents();
+    expect(labels).toEqual(m.millers.map((x) => `miller ${x.from} -> ${x.to}`));
+    expect(await panel.page.inputValue('#cc-target')).toBe('miller:0');
+
+    await panel.page.evaluate(() => (window.__posted.length = 0));
+    await panel.page.selectOption('#cc-target', 'miller:1');
+    const target = { kind: 'miller', index: 1 } as const;
+    expect((await panel.posted()).find((x) => x.type === 'compensation')).toEqual({
+      type: 'compensation',
+      target,
+    });
+    expect(
+      await panel.page.evaluate(() => (window.__state as { compensation?: unknown }).compensation),
+    ).toEqual(target);
+
+    // The host answers with the engine's data for that element.
+    const inner = panelData(nested!, { compensation: target });
+    expect(inner.compensation).toMatchObject({ ...target, ccWritten: m.millers[1]!.cc });
+    await panel.send({ type: 'data', data: inner });
+    await panel.page.waitForFunction(
+      (cc) =>
+        (window as unknown as { __ampnoteData?: { compensation?: { ccWritten: number } } }).__ampnoteData
+          ?.compensation?.ccWritten === cc,
+      m.millers[1]!.cc,
+    );
+    const drawn = await readCharts(panel.page);
+    // Independent of the panel's own code path: the engine's sweep of the inner capacitor, root by root.
+    const values = sweepValues(m.millers[1]!.cc, m.millers[1]!.cc, 15);
+    const points = sweepCompensation(m, { ...target, field: 'cc' }, values);
+    const branches = byRole(drawn, 'locus', 'pole-branch');
+    const count = Math.max(...points.map((p) => p.poles.length));
+    expect(branches.length).toBe(count);
+    branches.forEach((b, k) => {
+      const expected = points
+        .map((p) => {
+          const s = [...p.poles].sort((a, z) => Math.hypot(a.re, a.im) - Math.hypot(z.re, z.im))[k];
+          return s && Math.hypot(s.re, s.im) > 0
+            ? { cc: p.value, hz: Math.hypot(s.re, s.im) / (2 * Math.PI) }
+            : undefined;
+        })
+        .filter((v) => v !== undefined);
+      expect(b.data.map((p) => p.cc)).toEqual(expected.map((e) => e!.cc));
+      b.data.forEach((p, i) => expect(rel(p.y, expected[i]!.hz)).toBeLessThan(1e-12));
+    });
+    expect(byRole(drawn, 'locus', 'current-cc')[0]!.data[0]!.x).toBe(m.millers[1]!.cc);
+    // Both sweeps pass through the design as written, but they differ elsewhere.
+    expect(branches[0]!.data.map((p) => p.y)).not.toEqual(first.locus.poles[0]!.hz);
+    expect(await panel.page.inputValue('#cc-target')).toBe('miller:1');
+    await panel.page.screenshot({ path: join(OUTPUT, 'nested-inner-selected.png'), fullPage: true });
+
+    // A slider moved now moves the inner capacitor; choosing again drops that value.
+    await panel.page.locator('#cc-slider').evaluate((el) => {
+      (el as HTMLInputElement).value = '650';
+      el.dispatchEvent(new Event('input', { bubbles: true }));
+    });
+    await panel.send({ type: 'data', data: inner });
+    await panel.page.selectOption('#cc-target', 'miller:0');
+    expect(await panel.page.evaluate(() => window.__state)).toMatchObject({
+      compensation: { kind: 'miller', index: 0 },
+      cc: undefined,
+    });
+    await panel.showData(first);
+    expect(panel.problems).toEqual([]);
+    expect(await panel.page.evaluate(() => window.__violations)).toEqual([]);
+  });
+
+  it('hides the selector when the design has a single compensation element', async () => {
+    await panel.showData(panelData(c));
+    expect(await panel.page.isVisible('#cc-target')).toBe(false);
+    expect(await panel.page.textContent('#cc-what')).toBe('miller first -> second');
   });
 
   it('zooms the step chart to its settling band and remembers it', async () => {

@@ -1,7 +1,7 @@
 // The panel's script inside the webview: renders PanelData sent by the extension host, runs the Cc/Rz
 // sliders, exports, keeps its state across hide/show, and follows the theme. Every string the user wrote
 // (design names, messages quoting the file) is inserted with textContent.
-import type { PanelData } from '../../../shared/src/protocol/panelData';
+import type { CompensationTarget, PanelData } from '../../../shared/src/protocol/panelData';
 import type {
   ChartId,
   HostToWebview,
@@ -43,6 +43,8 @@ const ui = {
   ccSlider: $<HTMLInputElement>('cc-slider'),
   ccValue: $<HTMLOutputElement>('cc-value'),
   ccWhat: $('cc-what'),
+  targetBox: $('target-box'),
+  target: $<HTMLSelectElement>('cc-target'),
   rzSlider: $<HTMLInputElement>('rz-slider'),
   rzValue: $<HTMLOutputElement>('rz-value'),
   rzBox: $('rz-box'),
@@ -145,11 +147,31 @@ function renderNotes(d: PanelData): void {
   for (const id of CHART_IDS) setText($(`note-${id}`), notes[id]);
 }
 
+const targetValue = (t: CompensationTarget) => `${t.kind}:${t.index}`;
+
+/** The selector lists every element when there is a choice; with one element its name stands beside Cc. */
+function renderTarget(d: PanelData): void {
+  const choices = d.compensationChoices ?? [];
+  const several = choices.length > 1 && !!d.compensation;
+  ui.targetBox.classList.toggle('hidden', !several);
+  ui.ccWhat.classList.toggle('hidden', several);
+  if (!several) return;
+  const options = choices.map((c) => {
+    const o = document.createElement('option');
+    o.value = targetValue(c);
+    o.textContent = c.label;
+    return o;
+  });
+  ui.target.replaceChildren(...options);
+  ui.target.value = targetValue(d.compensation!);
+}
+
 function renderSliders(d: PanelData): void {
   const s = d.sliders;
   ui.controls.classList.toggle('hidden', !s || !d.compensation);
   if (!s || !d.compensation) return;
   setText(ui.ccWhat, d.compensation.label ?? '');
+  renderTarget(d);
   ui.rzBox.classList.toggle('hidden', d.compensation.kind !== 'miller');
   // While a thumb is held (or a newer value waits to be sent) the answer is for an older position: moving
   // the thumb back to it would make it jump under the pointer.
@@ -203,6 +225,9 @@ function render(d: PanelData | null): void {
     if (state.cc !== undefined || state.rz !== undefined) saveState({ cc: undefined, rz: undefined });
   }
   if (state.uri !== d.uri || state.design !== d.design) saveState({ uri: d.uri, design: d.design });
+  const shown = d.compensation ? { kind: d.compensation.kind, index: d.compensation.index } : undefined;
+  if (state.compensation?.kind !== shown?.kind || state.compensation?.index !== shown?.index)
+    saveState({ compensation: shown });
   setText(ui.name, d.design);
   setText(ui.uri, fileName(d.uri));
   setText(ui.caution, d.caution);
@@ -281,6 +306,17 @@ ui.apply.addEventListener('click', () => {
   ui.apply.disabled = true;
   ui.reset.disabled = true;
 });
+ui.target.addEventListener('change', () => {
+  const [kind, index] = ui.target.value.split(':');
+  if ((kind !== 'miller' && kind !== 'buffered') || !Number.isInteger(Number(index))) return;
+  const target: CompensationTarget = { kind, index: Number(index) };
+  // Slider values belong to the element they moved: the new one starts from its written values.
+  saveState({ compensation: target, cc: undefined, rz: undefined });
+  pending = undefined;
+  inFlight = true;
+  setText(ui.status, 'computing…');
+  post({ type: 'compensation', target });
+});
 ui.reset.addEventListener('click', () => {
   saveState({ cc: undefined, rz: undefined });
   sendSlider({});
@@ -355,4 +391,5 @@ new MutationObserver(() => redraw()).observe(document.body, {
 
 layout();
 post({ type: 'ready' });
+if (state.compensation) post({ type: 'compensation', target: state.compensation });
 if (state.cc !== undefined || state.rz !== undefined) post({ type: 'slider', cc: state.cc, rz: state.rz });

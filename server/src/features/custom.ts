@@ -8,7 +8,8 @@ import type {
   PanelDataParams,
   PanelDataResult,
 } from '../../../shared/src/protocol/requests';
-import { buildPanelData } from '../../../shared/src/panel/buildPanelData';
+import { buildPanelData, compensationAt } from '../../../shared/src/panel/buildPanelData';
+import type { CompensationTarget } from '../../../shared/src/protocol/panelData';
 import type { CheckSettings } from '../../../shared/src/checks/settings';
 import type { DocumentReport, DesignReport } from '../../../shared/src/report';
 import { compensationEdits, designAt, designNamed } from '../../../shared/src/service';
@@ -27,6 +28,15 @@ function pick(report: DocumentReport, design?: unknown, position?: unknown): Des
   return report.designs[0];
 }
 
+/** A well-formed target from the wire (whether the design has it is the engine's question). */
+function asTarget(t: unknown): CompensationTarget | undefined {
+  if (!t || typeof t !== 'object') return undefined;
+  const { kind, index } = t as { kind: unknown; index: unknown };
+  if ((kind !== 'miller' && kind !== 'buffered') || !Number.isInteger(index) || (index as number) < 0)
+    return undefined;
+  return { kind, index: index as number };
+}
+
 const finitePositive = (x: unknown) =>
   typeof x === 'number' && Number.isFinite(x) && x >= 0 ? x : undefined;
 
@@ -41,9 +51,13 @@ export function panelData(
   if (!model) return null;
   const cc = finitePositive(params.cc);
   const rz = finitePositive(params.rz);
+  const compensation =
+    asTarget(params.compensation) ??
+    (isPosition(params.compensationAt) ? compensationAt(model, params.compensationAt) : undefined);
   const data = buildPanelData(model, params.uri, {
     ...(cc !== undefined ? { cc } : {}),
     ...(rz !== undefined ? { rz } : {}),
+    ...(compensation ? { compensation } : {}),
     token,
     settleTolerance: settings.settleTolerance,
   });
@@ -70,6 +84,9 @@ export function compensationEdit(
 ): CompensationEditResult {
   const design = pick(report, params.design);
   if (!design) return null;
-  const edits = compensationEdits(design, finitePositive(params.cc), finitePositive(params.rz));
+  // A target sent but malformed writes nothing rather than falling back to another element.
+  const target = params.compensation === undefined ? undefined : asTarget(params.compensation);
+  if (params.compensation !== undefined && !target) return null;
+  const edits = compensationEdits(design, finitePositive(params.cc), finitePositive(params.rz), target);
   return edits.length ? { edits: edits.map(toEdit) } : null;
 }

@@ -4,12 +4,21 @@
 import { analyzeDesign, loopResponse, sweepCompensation, withValue } from '../analysis';
 import type { CancelToken, Complex, LocusPoint } from '../analysis/types';
 import type { DesignModel } from '../language/model';
-import { CAUTION, type LocusSeries, type PanelData, type SliderRange } from '../protocol/panelData';
+import {
+  CAUTION,
+  type CompensationChoice,
+  type CompensationTarget,
+  type LocusSeries,
+  type PanelData,
+  type SliderRange,
+} from '../protocol/panelData';
 
 export interface PanelOptions {
   /** Slider overrides of the swept compensation element (F, ohm); `rz = 0` removes the nulling resistor. */
   readonly cc?: number;
   readonly rz?: number;
+  /** The element to sweep; when absent or not in the design, the one `sweptCompensation` picks. */
+  readonly compensation?: CompensationTarget;
   readonly token?: CancelToken;
   /** Settling tolerance when the design states none (fraction). */
   readonly settleTolerance?: number;
@@ -22,12 +31,52 @@ export const SWEEP_SPAN = 100;
 const BODE_PER_DECADE = 40;
 const BODE_MAX_POINTS = 600;
 
-type Target = { readonly kind: 'miller' | 'buffered'; readonly index: number };
+type Target = CompensationTarget;
 
-/** The element the sliders move: the first Miller capacitor, else the first buffered one. */
-export function sweptCompensation(model: DesignModel): Target | undefined {
+/** Whether the design has that element (a choice kept from an earlier text may no longer exist). */
+export function hasCompensation(model: DesignModel, t: CompensationTarget): boolean {
+  const list = t.kind === 'miller' ? model.millers : model.buffered;
+  return Number.isInteger(t.index) && t.index >= 0 && t.index < list.length;
+}
+
+/**
+ * The element the sliders move: the requested one when the design has it, else the first Miller
+ * capacitor, else the first buffered one.
+ */
+export function sweptCompensation(model: DesignModel, requested?: CompensationTarget): Target | undefined {
+  if (requested && hasCompensation(model, requested)) return { kind: requested.kind, index: requested.index };
   if (model.millers.length > 0) return { kind: 'miller', index: 0 };
   if (model.buffered.length > 0) return { kind: 'buffered', index: 0 };
+  return undefined;
+}
+
+/** Every compensation element in the order the selector lists them: Miller capacitors, then buffered. */
+export function compensationChoices(model: DesignModel): CompensationChoice[] {
+  return [
+    ...model.millers.map((m, index) => ({
+      kind: 'miller' as const,
+      index,
+      label: `miller ${m.from} -> ${m.to}`,
+    })),
+    ...model.buffered.map((b, index) => ({
+      kind: 'buffered' as const,
+      index,
+      label: `indirect ${b.from} -> ${b.to}`,
+    })),
+  ];
+}
+
+/** The element whose statement spans `position`'s line, if any (the cursor on a `miller` line). */
+export function compensationAt(
+  model: DesignModel,
+  position: { readonly line: number; readonly character: number },
+): Target | undefined {
+  const on = (r: { start: { line: number }; end: { line: number } }) =>
+    position.line >= r.start.line && position.line <= r.end.line;
+  const m = model.millers.findIndex((x) => on(x.origin.range));
+  if (m >= 0) return { kind: 'miller', index: m };
+  const b = model.buffered.findIndex((x) => on(x.origin.range));
+  if (b >= 0) return { kind: 'buffered', index: b };
   return undefined;
 }
 
@@ -125,7 +174,8 @@ export function buildPanelData(
   options: PanelOptions = {},
 ): PanelData | undefined {
   const token = options.token;
-  const target = sweptCompensation(model);
+  const target = sweptCompensation(model, options.compensation);
+  const choices = compensationChoices(model);
   let shown = model;
   let compensation: PanelData['compensation'];
   let ccShown: number | undefined;
@@ -133,7 +183,7 @@ export function buildPanelData(
   if (target) {
     const written = target.kind === 'miller' ? model.millers[target.index]! : model.buffered[target.index]!;
     const rzWritten = target.kind === 'miller' ? model.millers[target.index]!.rz : undefined;
-    const label = `${target.kind === 'miller' ? 'miller' : 'indirect'} ${written.from} -> ${written.to}`;
+    const label = choices.find((c) => c.kind === target.kind && c.index === target.index)!.label;
     compensation = { kind: target.kind, index: target.index, ccWritten: written.cc, rzWritten, label };
     if (options.cc !== undefined && options.cc > 0)
       shown = withValue(shown, { ...target, field: 'cc' }, options.cc);
@@ -152,6 +202,7 @@ export function buildPanelData(
     uri,
     design: model.name,
     compensation,
+    ...(choices.length > 0 ? { compensationChoices: choices } : {}),
     cc: ccShown,
     rz: rzShown,
     sliders:

@@ -35,6 +35,18 @@ export interface SliderRange {
   readonly max: number;
 }
 
+/** One compensation element of a design, as the panel's selector lists it. */
+export interface CompensationTarget {
+  readonly kind: 'miller' | 'buffered';
+  /** Position among the design's elements of that kind, in the order written. */
+  readonly index: number;
+}
+
+export interface CompensationChoice extends CompensationTarget {
+  /** The element as the designer knows it, e.g. `miller second -> third`. */
+  readonly label: string;
+}
+
 export interface PanelData {
   readonly uri: string;
   readonly design: string;
@@ -47,6 +59,8 @@ export interface PanelData {
     /** The element as the designer knows it, e.g. `miller first -> second`. */
     readonly label?: string;
   };
+  /** Every element the sweep can vary (Miller capacitors first, then buffered ones), in the order written. */
+  readonly compensationChoices?: readonly CompensationChoice[];
   /** The values the charts show (the slider's, when one is moved; else as written). */
   readonly cc?: number;
   readonly rz?: number;

@@ -1,5 +1,5 @@
 // Custom LSP requests and notifications between client and server: method name beside its types.
-import type { PanelData } from './panelData';
+import type { CompensationTarget, PanelData } from './panelData';
 
 export const PanelDataRequest = {
   method: 'ampnote/panelData',
@@ -12,6 +12,11 @@ export interface PanelDataParams {
   /** Values from the panel's sliders, overriding the compensation as written (F, ohm). */
   readonly cc?: number;
   readonly rz?: number;
+  /** The element the sweep and sliders vary; when absent (or not in the design) the first Miller, else
+   * the first buffered capacitor. */
+  readonly compensation?: CompensationTarget;
+  /** When no `compensation` is given: choose the element whose statement holds this position, if any. */
+  readonly compensationAt?: { readonly line: number; readonly character: number };
 }
 export type PanelDataResult = PanelData | null;
 
@@ -39,6 +44,8 @@ export interface CompensationEditParams {
   readonly design: string;
   readonly cc?: number;
   readonly rz?: number;
+  /** The element to write into; when absent the first Miller, else the first buffered capacitor. */
+  readonly compensation?: CompensationTarget;
 }
 export type CompensationEditResult = {
   readonly edits: readonly {

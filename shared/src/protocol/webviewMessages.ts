@@ -1,5 +1,5 @@
 // Messages between the extension host and the panel's webview, typed once for both sides.
-import type { PanelData } from './panelData';
+import type { CompensationTarget, PanelData } from './panelData';
 
 export type HostToWebview =
   | { readonly type: 'data'; readonly data: PanelData | null }
@@ -12,6 +12,8 @@ export type WebviewToHost =
   | { readonly type: 'ready' }
   | { readonly type: 'slider'; readonly cc?: number; readonly rz?: number }
   | { readonly type: 'apply'; readonly cc?: number; readonly rz?: number }
+  /** The selector chose another element to sweep (slider values of the previous one are dropped). */
+  | { readonly type: 'compensation'; readonly target: CompensationTarget }
   | { readonly type: 'exportCsv'; readonly chart: ChartId; readonly csv: string }
   | { readonly type: 'exportPng'; readonly chart: ChartId; readonly dataUrl: string };
 
@@ -24,6 +26,8 @@ export interface PanelState {
   readonly rz?: number;
   /** The step chart is zoomed to its settling band. */
   readonly stepBandZoom?: boolean;
+  /** The compensation element the panel sweeps (absent: the design's first). */
+  readonly compensation?: CompensationTarget;
   /** The document and design shown, so that a panel restored after a reload shows them again. */
   readonly uri?: string;
   readonly design?: string;
