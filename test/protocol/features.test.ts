@@ -4,6 +4,7 @@ import { TextDocument } from 'vscode-languageserver-textdocument';
 import { analyzeDesign } from '../../shared/src/analysis';
 import { formatHz } from '../../shared/src/format/si';
 import { analyzeDocument } from '../../shared/src/service';
+import { KEYWORDS, RESERVED_NAMES } from '../../shared/src/language';
 import { codeActions } from '../../server/src/features/codeActions';
 import { codeLenses } from '../../server/src/features/codeLens';
 import { completion } from '../../server/src/features/completion';
@@ -142,6 +143,35 @@ describe('names', () => {
     expect(after.parsed.diagnostics).toEqual([]);
     expect(after.designs[0]!.runs.map((r) => r.analysis.loop.phaseMarginDeg)).toEqual(
       c.report.designs[0]!.runs.map((r) => r.analysis.loop.phaseMarginDeg),
+    );
+  });
+
+  it('refuses exactly the names a declaration refuses', () => {
+    const c = cursor(DESIGN('').replace('gm = gm1 ', 'gm = gm|1 '));
+    for (const word of RESERVED_NAMES)
+      expect(() => rename(c.report, 'u', c.position, word), word).toThrow(/word of the language|built-in/);
+    expect(() => rename(c.report, 'u', c.position, 'out')).toThrow(/built-in node/);
+    // Keywords that are not reserved (field, element and requirement words) are ordinary names: the
+    // renamed design parses cleanly and analyses the same.
+    const usable = KEYWORDS.filter((k) => !RESERVED_NAMES.has(k));
+    expect(usable.length).toBeGreaterThan(0);
+    const before = c.report.designs[0]!.runs[0]!.analysis.loop.phaseMarginDeg;
+    for (const word of usable) {
+      const edit = rename(c.report, 'u', c.position, word)!;
+      const after = analyzeDocument(applyEdits(c.text, edit.changes!['u']!));
+      expect(after.parsed.diagnostics, word).toEqual([]);
+      expect(after.designs[0]!.runs[0]!.analysis.loop.phaseMarginDeg, word).toBe(before);
+    }
+  });
+
+  it('lets a stage take the name `out`, which a declaration allows', () => {
+    const c = cursor(DESIGN('').replace('stage second', 'stage sec|ond'));
+    const edit = rename(c.report, 'u', c.position, 'out')!;
+    const after = analyzeDocument(applyEdits(c.text, edit.changes!['u']!));
+    // `out` is the output node, which the last stage already is: the design reads the same.
+    expect(after.parsed.diagnostics).toEqual([]);
+    expect(after.designs[0]!.runs[0]!.analysis.loop.phaseMarginDeg).toBe(
+      c.report.designs[0]!.runs[0]!.analysis.loop.phaseMarginDeg,
     );
   });
 

@@ -1,6 +1,6 @@
 // Rename a parameter, stage or node: its declaration and every use, in that design only.
 import { ResponseError, ErrorCodes, type Range, type WorkspaceEdit } from 'vscode-languageserver';
-import { BUILTIN_NODES, KEYWORDS } from '../../../shared/src/language';
+import { BUILTIN_NODES, RESERVED_NAMES } from '../../../shared/src/language';
 import type { SourcePosition } from '../../../shared/src/language/source';
 import type { DocumentReport } from '../../../shared/src/report';
 import { designAt } from '../../../shared/src/service';
@@ -36,8 +36,15 @@ export function rename(
   if (!r) return null;
   if (!IDENTIFIER.test(newName))
     throw new ResponseError(ErrorCodes.InvalidParams, `\`${newName}\` is not a name`);
-  if (KEYWORDS.includes(newName) || (BUILTIN_NODES as readonly string[]).includes(newName))
-    throw new ResponseError(ErrorCodes.InvalidParams, `\`${newName}\` is a word of the language`);
+  // The same rule as a declaration: reserved words never, `out` not for a parameter (it is the output
+  // node); field, element and requirement words (`cc`, `gm`, `pm`) are names like any other.
+  if (RESERVED_NAMES.has(newName) || (r.hit.symbol.kind === 'param' && newName === 'out'))
+    throw new ResponseError(
+      ErrorCodes.InvalidParams,
+      (BUILTIN_NODES as readonly string[]).includes(newName)
+        ? `\`${newName}\` is a built-in node`
+        : `\`${newName}\` is a word of the language`,
+    );
   if (
     newName !== r.hit.symbol.name &&
     r.design.source.symbols.some((s) => s.name === newName && s.kind !== 'design')
