@@ -5,7 +5,13 @@
 // on the determinant polish any root that a rotated realisation left less accurate.
 import type { Network } from '../circuit/network';
 import type { Complex, Participation } from './types';
-import { complexLuFactor, complexLuSolve, complexNullVectors, type ComplexLu } from '../numeric/complexLu';
+import {
+  complexLuFactor,
+  complexLuSolve,
+  complexNullVectors,
+  lastPivotInPlace,
+  type ComplexLu,
+} from '../numeric/complexLu';
 import { luFactor, luSolve } from '../numeric/luReal';
 import { showParticipation } from './participation';
 
@@ -134,14 +140,109 @@ export function checkPole(net: Network, s: Complex): PoleCheck {
   };
 }
 
+/**
+ * Scratch matrices for the residual checks, one set per size. Every check overwrites them entirely and
+ * nothing keeps a reference, so reuse is safe (the engine is synchronous).
+ */
+interface Scratch {
+  readonly re: Float64Array;
+  readonly im: Float64Array;
+  readonly mag: Float64Array;
+  readonly rows: Float64Array;
+}
+const scratchBySize = new Map<number, Scratch>();
+function scratch(m: number): Scratch {
+  let w = scratchBySize.get(m);
+  if (!w) {
+    const k = m * m;
+    w = {
+      re: new Float64Array(k),
+      im: new Float64Array(k),
+      mag: new Float64Array(k),
+      rows: new Float64Array(m),
+    };
+    scratchBySize.set(m, w);
+  }
+  return w;
+}
+
+/**
+ * The check of one root without allocation: the pencil (`zero`: the system matrix) is written into
+ * scratch, scaled exactly as `scale` does, and eliminated in place for its last pivot. Same numbers as
+ * lastPivot(complexLuFactor(pencil)).
+ */
+function residualAt(net: Network, s: Complex, zero: boolean): number {
+  const { n, G, C } = net;
+  const gAbs = net.gAbs ?? G;
+  const m = zero ? n + 1 : n;
+  const { re, im, mag, rows } = scratch(m);
+  const w = Math.sqrt(s.re * s.re + s.im * s.im);
+  const sr = s.re;
+  const si = s.im;
+  const real = si === 0;
+  for (let i = 0; i < n; i++) {
+    const src = i * n;
+    const dst = i * m;
+    for (let j = 0; j < n; j++) {
+      const c = C[src + j];
+      re[dst + j] = G[src + j] + sr * c;
+      mag[dst + j] = Math.abs(gAbs[src + j]) + w * Math.abs(c);
+      if (!real) im[dst + j] = si * c;
+    }
+  }
+  if (zero) {
+    const { gIn, cIn, output } = net;
+    const gInAbs = net.gInAbs ?? gIn;
+    for (let i = 0; i < n; i++) {
+      const c = cIn[i];
+      re[i * m + n] = gIn[i] + sr * c;
+      mag[i * m + n] = Math.abs(gInAbs[i]) + w * Math.abs(c);
+      if (!real) im[i * m + n] = si * c;
+    }
+    const last = n * m;
+    for (let j = 0; j < m; j++) {
+      re[last + j] = 0;
+      mag[last + j] = 0;
+      if (!real) im[last + j] = 0;
+    }
+    re[last + output] = 1;
+    mag[last + output] = 1;
+  }
+  // Row then column scaling from the element magnitudes (as in `scale`).
+  for (let i = 0; i < m; i++) {
+    let best = 0;
+    for (let j = 0; j < m; j++) best = Math.max(best, mag[i * m + j]);
+    rows[i] = best > 0 ? 1 / best : 1;
+  }
+  for (let j = 0; j < m; j++) {
+    let best = 0;
+    for (let i = 0; i < m; i++) best = Math.max(best, mag[i * m + j] * rows[i]);
+    const col = best > 0 ? 1 / best : 1;
+    for (let i = 0; i < m; i++) {
+      const f = rows[i] * col;
+      re[i * m + j] *= f;
+      if (!real) im[i * m + j] *= f;
+    }
+  }
+  let allReal = real;
+  if (!real) {
+    allReal = true;
+    for (let i = 0; i < m * m; i++) {
+      if (im[i] !== 0) {
+        allReal = false;
+        break;
+      }
+    }
+  }
+  return lastPivotInPlace(re, im, m, allReal);
+}
+
 export function poleResidual(net: Network, s: Complex): number {
-  const p = polePencil(net, s);
-  return lastPivot(complexLuFactor(p.re, p.im, p.m));
+  return residualAt(net, s, false);
 }
 
 export function zeroResidual(net: Network, s: Complex): number {
-  const p = zeroPencil(net, s);
-  return lastPivot(complexLuFactor(p.re, p.im, p.m));
+  return residualAt(net, s, true);
 }
 
 /** The unscaled derivative of the pencil in s: C for poles, [[C, cIn], [0, 0]] for zeros. */
@@ -164,7 +265,13 @@ function zeroDerivative(net: Network): Float64Array {
  * Newton's method on det M(s): s ← s − 1/tr(M⁻¹·M'). On the scaled pencil Dr·M·Dc the trace term is
  * tr((DrMDc)⁻¹·Dr·M'·Dc), the same number. Keeps a step only when the network check improves.
  */
-function polish(s0: Complex, pencilAt: (s: Complex) => Pencil, D: Float64Array, residual0: number): Complex {
+function polish(
+  s0: Complex,
+  pencilAt: (s: Complex) => Pencil,
+  residualOf: (s: Complex) => number,
+  D: Float64Array,
+  residual0: number,
+): Complex {
   let s = s0;
   let best = residual0;
   for (let iter = 0; iter < 4 && best > 1e-15; iter++) {
@@ -190,8 +297,7 @@ function polish(s0: Complex, pencilAt: (s: Complex) => Pencil, D: Float64Array, 
     const den = tr * tr + ti * ti;
     if (!(den > 0) || !Number.isFinite(den)) break;
     const next = { re: s.re - tr / den, im: s0.im === 0 ? 0 : s.im + ti / den };
-    const pn = pencilAt(next);
-    const r = lastPivot(complexLuFactor(pn.re, pn.im, pn.m));
+    const r = residualOf(next);
     if (!(r < best)) break;
     best = r;
     s = next;
@@ -212,14 +318,11 @@ export const knownResidual = new WeakMap<Complex, number>();
 function refineAll(
   roots: Complex[],
   pencilAt: (s: Complex) => Pencil,
+  residual: (s: Complex) => number,
   D: () => Float64Array,
   doPolish: boolean,
 ): Complex[] {
   if (!doPolish || roots.length === 0) return roots;
-  const residual = (s: Complex) => {
-    const p = pencilAt(s);
-    return lastPivot(complexLuFactor(p.re, p.im, p.m));
-  };
   const out: Complex[] = [];
   for (let i = 0; i < roots.length; i++) {
     const s = roots[i];
@@ -235,7 +338,7 @@ function refineAll(
     }
     const r = residual(s);
     if (r > POLISH_ABOVE) {
-      const t = polish(s, pencilAt, D(), r);
+      const t = polish(s, pencilAt, residual, D(), r);
       knownResidual.set(t, t === s ? r : residual(t));
       out.push(t);
     } else {
@@ -312,6 +415,7 @@ export function refinePoles(
   const out = refineAll(
     poles,
     (s) => polePencil(net, s),
+    (s) => residualAt(net, s, false),
     () => poleDerivative(net),
     doPolish,
   );
@@ -327,6 +431,7 @@ export function refineZeros(net: Network, zeros: Complex[], scaleMag: number, do
   const out = refineAll(
     zeros,
     (s) => zeroPencil(net, s),
+    (s) => residualAt(net, s, true),
     () => (D ??= zeroDerivative(net)),
     doPolish,
   );

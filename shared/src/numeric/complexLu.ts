@@ -218,3 +218,69 @@ export function complexNullVectors(f: ComplexLu): {
   }
   return { rightRe, rightIm, leftRe, leftIm };
 }
+
+/**
+ * |last pivot| of the complete-pivoting elimination of (re, im), done in place (the inputs are
+ * overwritten): the same pivots and arithmetic as complexLuFactor, without copies, permutations or the
+ * multipliers, for callers that only judge how singular the matrix is. `real` skips the imaginary parts
+ * (which must then be all zero).
+ */
+export function lastPivotInPlace(re: Float64Array, im: Float64Array, n: number, real: boolean): number {
+  if (n === 0) return 1;
+  for (let k = 0; k < n; k++) {
+    let bi = k;
+    let bj = k;
+    let best = -1;
+    for (let i = k; i < n; i++) {
+      const row = i * n;
+      for (let j = k; j < n; j++) {
+        const m = real ? Math.abs(re[row + j]) : Math.abs(re[row + j]) + Math.abs(im[row + j]);
+        if (m > best) {
+          best = m;
+          bi = i;
+          bj = j;
+        }
+      }
+    }
+    if (bi !== k) {
+      for (let j = k; j < n; j++) {
+        swap(re, k * n + j, bi * n + j);
+        if (!real) swap(im, k * n + j, bi * n + j);
+      }
+    }
+    if (bj !== k) {
+      for (let i = k; i < n; i++) {
+        swap(re, i * n + k, i * n + bj);
+        if (!real) swap(im, i * n + k, i * n + bj);
+      }
+    }
+    const pr = re[k * n + k];
+    const pi = real ? 0 : im[k * n + k];
+    if (k === n - 1) return Math.sqrt(pr * pr + pi * pi);
+    if (pr === 0 && pi === 0) continue;
+    if (real) {
+      for (let i = k + 1; i < n; i++) {
+        const a = re[i * n + k];
+        if (a === 0) continue;
+        const f = a / pr;
+        for (let j = k + 1; j < n; j++) re[i * n + j] -= f * re[k * n + j];
+      }
+      continue;
+    }
+    const den = pr * pr + pi * pi;
+    for (let i = k + 1; i < n; i++) {
+      const ar = re[i * n + k];
+      const ai = im[i * n + k];
+      if (ar === 0 && ai === 0) continue;
+      const fr = (ar * pr + ai * pi) / den;
+      const fi = (ai * pr - ar * pi) / den;
+      for (let j = k + 1; j < n; j++) {
+        const ur = re[k * n + j];
+        const ui = im[k * n + j];
+        re[i * n + j] -= fr * ur - fi * ui;
+        im[i * n + j] -= fr * ui + fi * ur;
+      }
+    }
+  }
+  return 1;
+}
