@@ -11,6 +11,7 @@ import type { CompensationTarget, PanelData } from '../../shared/src/protocol/pa
 import { buildPanelData, sweepValues } from '../../shared/src/panel/buildPanelData';
 import { symlog } from '../../client/src/webview/symlog';
 import { positionToValue } from '../../client/src/webview/sliderScale';
+import { formatSi } from '../../shared/src/format/si';
 import { panelHtml } from '../../client/src/panelHtml';
 import {
   OUTPUT,
@@ -410,6 +411,67 @@ describe('interaction', () => {
     expect(await panel.page.textContent('#cc-what')).toBe('miller first -> second');
   });
 
+  it('marks the settling instant and magnifies the band at the default view', async () => {
+    const data = panelData(c);
+    expect(typeof data.step.settlingTime).toBe('number');
+    await panel.showData(data);
+    const marks = () =>
+      panel.page.evaluate(() => {
+        const s = (window as unknown as { __ampnoteCharts: Record<string, any> }).__ampnoteCharts.step;
+        const x = s.scales.x;
+        return {
+          inset: s.$settlingInset as
+            | {
+                box: { x: number; y: number; width: number; height: number };
+                tMin: number;
+                tMax: number;
+                yMin: number;
+                yMax: number;
+              }
+            | undefined,
+          tag: s.$settlingTag as { x: number; text: string } | undefined,
+          tagX: x.getPixelForValue(
+            (window as unknown as { __ampnoteData: { step: { settlingTime: number } } }).__ampnoteData.step
+              .settlingTime,
+          ) as number,
+          area: s.chartArea as { left: number; right: number; top: number; bottom: number },
+        };
+      });
+    const band = Math.abs(data.step.final) * data.step.tolerance;
+    let m = await marks();
+    // The tag sits on the settling instant and names it; the inset spans a few band widths around the
+    // final value and a window that holds the settling instant, inside the plot area.
+    expect(m.tag!.text).toBe(`settled ${formatSi(data.step.settlingTime!, 's')}`);
+    expect(m.tag!.x).toBeCloseTo(m.tagX, 6);
+    expect(m.inset!.yMin).toBeCloseTo(data.step.final - 4 * band, 12);
+    expect(m.inset!.yMax).toBeCloseTo(data.step.final + 4 * band, 12);
+    expect(m.inset!.tMin).toBeLessThan(data.step.settlingTime!);
+    expect(m.inset!.tMax).toBe(data.step.t.at(-1));
+    expect(m.inset!.box.x).toBeGreaterThanOrEqual(m.area.left);
+    expect(m.inset!.box.x + m.inset!.box.width).toBeLessThanOrEqual(m.area.right);
+    expect(m.inset!.box.y + m.inset!.box.height).toBeLessThanOrEqual(m.area.bottom);
+    await panel.page.locator('#card-step').screenshot({ path: join(OUTPUT, 'step-default.png') });
+    await panel.page.click('#card-step .card-title');
+    await panel.page.waitForFunction(
+      () =>
+        (window as unknown as { __ampnoteCharts: Record<string, any> }).__ampnoteCharts.step.chartArea.width >
+        600,
+    );
+    await panel.page.locator('#card-step').screenshot({ path: join(OUTPUT, 'step-default-selected.png') });
+    await panel.theme('light');
+    await panel.page.waitForTimeout(0);
+    await panel.page.locator('#card-step').screenshot({ path: join(OUTPUT, 'step-default-light.png') });
+    await panel.theme('dark');
+    // Zoomed to the band, the main axes show it: no inset then.
+    await panel.page.click('#step-zoom');
+    m = await marks();
+    expect(m.inset).toBeUndefined();
+    expect(m.tag).toBeDefined();
+    await panel.page.click('#step-zoom');
+    await panel.page.click('#card-locus .card-title');
+    expect(panel.problems).toEqual([]);
+  });
+
   it('zooms the step chart to its settling band and remembers it', async () => {
     const data = panelData(c);
     await panel.showData(data);
@@ -562,6 +624,12 @@ end
     expect(byRole(drawn, 'step', 'step')[0]!.data.map((p) => p.y)).toEqual(data.step.y);
     expect(byRole(drawn, 'step', 'band-low')).toEqual([]);
     expect(byRole(drawn, 'step', 'settling')).toEqual([]);
+    expect(
+      await panel.page.evaluate(
+        () =>
+          (window as unknown as { __ampnoteCharts: Record<string, any> }).__ampnoteCharts.step.$settlingInset,
+      ),
+    ).toBeUndefined();
     expect(await panel.page.textContent('#note-step')).toMatch(/unstable/);
     const closed = byRole(drawn, 'splane', 'closed-pole')[0]!.data;
     expect(closed.some((p) => p.re! > 0 && p.x > 0)).toBe(true);

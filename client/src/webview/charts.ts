@@ -21,6 +21,7 @@ import type { ChartId } from '../../../shared/src/protocol/webviewMessages';
 import { formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
 import { symlog, symlogInverse, symlogKnee, symlogTicks } from './symlog';
 import { withAlpha, type ChartColors } from './theme';
+import { settlingMarksPlugin, type SettlingMarks } from './settlingInset';
 
 export { chartCsv } from './chartCsv';
 export { readThemeColors, withAlpha, type ChartColors } from './theme';
@@ -566,19 +567,41 @@ function stepConfig(
           { x: st.settlingTime, y: Math.min(0, ...ys) },
           { x: st.settlingTime, y: Math.max(...ys) },
         ],
-        withAlpha(colors.marker, 0.7),
+        withAlpha(colors.marker, 0.55),
         {
-          borderDash: [3, 3],
           borderWidth: 1,
         },
       ),
     );
   }
+  const settles = st.t.length > 0 && finite(st.final) && st.stable !== false;
+  const marks: SettlingMarks = {
+    show: settles,
+    inset: !options.stepBandZoom,
+    final: st.final,
+    band: Math.abs(st.final) * st.tolerance,
+    ...(typeof st.settlingTime === 'number'
+      ? { settlingTime: st.settlingTime, timeText: formatSi(st.settlingTime, 's') }
+      : {}),
+    bandText: `±${(100 * st.tolerance).toPrecision(2)} %`,
+    colors: {
+      curve: colors.series[0]!,
+      band: colors.band,
+      bandFill: withAlpha(colors.band, 0.24),
+      marker: withAlpha(colors.marker, 0.55),
+      text: colors.foreground,
+      muted: colors.muted,
+      grid: withAlpha(colors.marker, 0.3),
+      background: colors.background,
+      fontFamily: colors.fontFamily,
+      fontSize: colors.fontSize,
+    },
+  };
   const base = commonOptions(colors);
   return {
     type: 'scatter',
     data: { datasets },
-    plugins: [backgroundPlugin],
+    plugins: [backgroundPlugin, settlingMarksPlugin],
     options: {
       ...base,
       interaction: { mode: 'index', intersect: false, axis: 'x' },
@@ -598,11 +621,16 @@ function stepConfig(
       },
       plugins: {
         ...base.plugins,
+        ampnoteSettling: marks,
         legend: {
           ...base.plugins.legend,
           labels: {
             ...base.plugins.legend.labels,
-            filter: (item: { text: string }) => item.text !== 'band (upper)',
+            // The settling instant is labelled on the chart itself.
+            filter: (item: { datasetIndex?: number }) => {
+              const role = datasets[item.datasetIndex ?? -1]?.role;
+              return role !== 'band-high' && role !== 'settling';
+            },
           },
         },
         tooltip: {
