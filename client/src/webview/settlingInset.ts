@@ -105,10 +105,15 @@ function drawTag(chart: StepChart, m: SettlingMarks, points: readonly { x: numbe
   const w = ctx.measureText(text).width + 10;
   const h = c.fontSize + 6;
   const left = Math.min(Math.max(x - w / 2, area.left + 2), area.right - w - 2);
-  // On the marker line just off the final value, on the side a settled response leaves empty.
+  // On the marker line just outside the band: at the full view on the side a settled response leaves
+  // empty (away from the start); zoomed to the band, above it, where the rising response has not been.
   const finalPx = yScale.getPixelForValue(m.final);
-  const below = finalPx - area.top < area.bottom - finalPx;
-  const top = Math.min(Math.max(below ? finalPx + 8 : finalPx - h - 8, area.top + 2), area.bottom - h - 2);
+  const edges = [m.final - m.band, m.final + m.band].map((v) => yScale.getPixelForValue(v));
+  const below = m.inset ? finalPx - area.top < area.bottom - finalPx : m.final < 0;
+  const top = Math.min(
+    Math.max(below ? Math.max(...edges) + 8 : Math.min(...edges) - h - 8, area.top + 2),
+    area.bottom - h - 2,
+  );
   roundedRect(ctx, left, top, w, h, 3);
   ctx.fillStyle = c.background;
   ctx.fill();
