@@ -93,8 +93,12 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
     d: system.d,
     light,
   });
-  let lastDown: { omega: number } | undefined;
-  if (!light) for (const c of crossingsOf(samples)) if (c.down) lastDown = c;
+  let openLoopUgfHz: number | undefined;
+  if (!light) {
+    // With β² = 1 the loop and open-loop crossings are the same search on the same samples: reuse it.
+    if (beta * beta === 1) openLoopUgfHz = loop.ugfHz;
+    else for (const c of crossingsOf(samples)) if (c.down) openLoopUgfHz = c.omega / (2 * Math.PI);
+  }
   return {
     ok: true,
     result: {
@@ -107,7 +111,7 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
       closed,
       closedPoles,
       loop,
-      openLoopUgfHz: lastDown ? lastDown.omega / (2 * Math.PI) : undefined,
+      openLoopUgfHz,
       grid,
       tiny: span.tiny,
     },

@@ -165,8 +165,14 @@ export function buildNetwork(model: DesignModel): BuildResult {
       output: out,
       inputName: model.input,
       capRank: b.capRank(),
-      gAbs: b.gAbs.map(Math.abs),
-      gInAbs: b.gInAbs.map(Math.abs),
+      gAbs: absolute(b.gAbs),
+      gInAbs: absolute(b.gInAbs),
     },
   };
+}
+
+/** Entry-wise magnitudes in place (the builder's off-diagonal sums carry the stamp's sign). */
+function absolute(a: Float64Array): Float64Array {
+  for (let i = 0; i < a.length; i++) a[i] = Math.abs(a[i]);
+  return a;
 }

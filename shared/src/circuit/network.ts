@@ -65,7 +65,8 @@ export class NetworkBuilder {
   private readonly touched: Uint8Array;
   /** Union-find root index n stands for ground and the input (fixed voltages). */
   constructor(readonly n: number) {
-    this.parent = Int32Array.from({ length: n + 1 }, (_, i) => i);
+    this.parent = new Int32Array(n + 1);
+    for (let i = 0; i <= n; i++) this.parent[i] = i;
     this.touched = new Uint8Array(n);
     this.G = new Float64Array(n * n);
     this.gAbs = new Float64Array(n * n);
