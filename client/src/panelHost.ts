@@ -58,6 +58,7 @@ export class PanelHost implements vscode.Disposable {
   private choice: CompensationTarget | undefined;
   /** Set by `show`: the next request may choose the element under the cursor. */
   private preselectAt: { line: number; character: number } | undefined;
+  private inFlightPreselect: { line: number; character: number } | undefined;
   private last: PanelData | null = null;
   private inFlight: vscode.CancellationTokenSource | undefined;
   private timer: NodeJS.Timeout | undefined;
@@ -262,12 +263,14 @@ export class PanelHost implements vscode.Disposable {
       return;
     }
     if (cursorOnly && (await this.stillShown(target))) return;
+    // A request cancelled before it answered hands its pre-selection on to the one replacing it.
+    const preselect = this.preselectAt ?? this.inFlightPreselect;
+    this.preselectAt = undefined;
     this.inFlight?.cancel();
     const cts = new vscode.CancellationTokenSource();
     this.inFlight = cts;
+    this.inFlightPreselect = preselect;
     const version = this.documentVersion(target.uri);
-    const preselect = this.choice === undefined ? this.preselectAt : undefined;
-    this.preselectAt = undefined;
     const params: PanelDataParams = {
       uri: target.uri,
       design: target.design,
@@ -284,6 +287,7 @@ export class PanelHost implements vscode.Disposable {
         cts.token,
       );
       if (cts.token.isCancellationRequested) return;
+      this.inFlightPreselect = undefined;
       if (data && this.last && (data.design !== this.last.design || data.uri !== this.last.uri)) {
         // Another design came under the cursor: slider values and the chosen element belong to the
         // previous one.
@@ -291,20 +295,34 @@ export class PanelHost implements vscode.Disposable {
           this.overrides = {};
           this.choice = undefined;
           this.last = data;
+          this.preselectAt = preselect;
           this.schedule(0);
           return;
         }
       }
-      // The element under the cursor was pre-selected: keep it as the choice while this design is shown.
-      const first = data?.compensationChoices?.[0];
-      if (preselect && data?.compensation && first && !sameTarget(data.compensation, first))
-        this.choice = { kind: data.compensation.kind, index: data.compensation.index };
+      if (preselect && data?.compensation) {
+        // The element under the cursor (or else the one shown) is kept as the choice for this design.
+        const picked = { kind: data.compensation.kind, index: data.compensation.index };
+        const sameDesign = this.last?.design === data.design && this.last?.uri === data.uri;
+        const before = this.choice ?? (sameDesign ? this.last?.compensation : undefined);
+        const first = data.compensationChoices?.[0];
+        if (this.choice !== undefined || !first || !sameTarget(picked, first)) this.choice = picked;
+        // Slider values belong to the element they moved, not to the one the cursor picked now.
+        const moved = this.overrides.cc !== undefined || this.overrides.rz !== undefined;
+        if (moved && before && !sameTarget(before, picked)) {
+          this.overrides = {};
+          this.last = data;
+          this.schedule(0);
+          return;
+        }
+      }
       this.last = data;
       this.lastVersion = version;
       if (this.panel) this.panel.title = data ? `Pole split: ${data.design}` : 'Pole split';
       this.post({ type: 'data', data });
     } catch (err) {
       if (cts.token.isCancellationRequested) return;
+      this.inFlightPreselect = undefined;
       const text = err instanceof Error ? err.message : String(err);
       this.output.appendLine(`[panel] ${text}`);
       this.post({ type: 'status', text: `Could not compute the panel: ${text}`, error: true });
@@ -332,6 +350,9 @@ export class PanelHost implements vscode.Disposable {
         // Slider values belong to the element they moved.
         this.choice = msg.target;
         this.overrides = {};
+        // The user's choice stands over an earlier pre-selection still on its way.
+        this.preselectAt = undefined;
+        this.inFlightPreselect = undefined;
         this.schedule(0);
         return;
       case 'exportPng':

@@ -349,6 +349,21 @@ describe('language server over stdio', () => {
       compensationAt: { line: innerLine, character: 2 },
     });
     expect(at!.compensation).toMatchObject({ kind: 'miller', index: 1 });
+    // The element under the cursor takes precedence over an earlier choice; off such a line the choice holds.
+    const over = await client.request<Panel>('ampnote/panelData', {
+      uri,
+      design: model.name,
+      compensation: { kind: 'miller', index: 0 },
+      compensationAt: { line: innerLine, character: 0 },
+    });
+    expect(over!.compensation).toMatchObject({ kind: 'miller', index: 1 });
+    const off = await client.request<Panel>('ampnote/panelData', {
+      uri,
+      design: model.name,
+      compensation: { kind: 'miller', index: 1 },
+      compensationAt: { line: innerLine - 2, character: 0 },
+    });
+    expect(off!.compensation).toMatchObject({ kind: 'miller', index: 1 });
     const stale = await client.request<Panel>('ampnote/panelData', {
       uri,
       design: model.name,

@@ -226,6 +226,14 @@ function render(d: PanelData | null): void {
   }
   if (state.uri !== d.uri || state.design !== d.design) saveState({ uri: d.uri, design: d.design });
   const shown = d.compensation ? { kind: d.compensation.kind, index: d.compensation.index } : undefined;
+  // Another element of the same design (picked by the cursor): slider values were for the previous one.
+  if (
+    state.compensation &&
+    shown &&
+    (state.compensation.kind !== shown.kind || state.compensation.index !== shown.index) &&
+    (state.cc !== undefined || state.rz !== undefined)
+  )
+    saveState({ cc: undefined, rz: undefined });
   if (state.compensation?.kind !== shown?.kind || state.compensation?.index !== shown?.index)
     saveState({ compensation: shown });
   setText(ui.name, d.design);

@@ -51,9 +51,10 @@ export function panelData(
   if (!model) return null;
   const cc = finitePositive(params.cc);
   const rz = finitePositive(params.rz);
+  // The cursor on a compensation line picks that element; elsewhere the element asked for (or the default).
   const compensation =
-    asTarget(params.compensation) ??
-    (isPosition(params.compensationAt) ? compensationAt(model, params.compensationAt) : undefined);
+    (isPosition(params.compensationAt) ? compensationAt(model, params.compensationAt) : undefined) ??
+    asTarget(params.compensation);
   const data = buildPanelData(model, params.uri, {
     ...(cc !== undefined ? { cc } : {}),
     ...(rz !== undefined ? { rz } : {}),

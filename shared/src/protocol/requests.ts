@@ -15,7 +15,8 @@ export interface PanelDataParams {
   /** The element the sweep and sliders vary; when absent (or not in the design) the first Miller, else
    * the first buffered capacitor. */
   readonly compensation?: CompensationTarget;
-  /** When no `compensation` is given: choose the element whose statement holds this position, if any. */
+  /** The element whose statement holds this position, when there is one, takes precedence over
+   * `compensation` (the panel opened with the cursor on a `miller` line). */
   readonly compensationAt?: { readonly line: number; readonly character: number };
 }
 export type PanelDataResult = PanelData | null;
