@@ -6,7 +6,12 @@ import { describe, expect, it } from 'vitest';
 import { parseDocument } from '../../shared/src/language';
 import { analyzeDesign, withValue } from '../../shared/src/analysis';
 import type { DesignModel } from '../../shared/src/language/model';
-import { buildPanelData, sweepValues, SWEEP_SPAN } from '../../shared/src/panel/buildPanelData';
+import {
+  buildPanelData,
+  compensationAt,
+  sweepValues,
+  SWEEP_SPAN,
+} from '../../shared/src/panel/buildPanelData';
 import { ROOT } from './harness';
 
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b), 1e-300);
@@ -81,6 +86,47 @@ describe('panel data', () => {
       expect(data.bode.magDb.every(Number.isFinite)).toBe(true);
       expect(data.locus.poles.some((s) => s.cc.includes(cc))).toBe(true);
     }
+  });
+
+  it('sweeps the element asked for, lists every element, and falls back to the first', () => {
+    const model = example('threeStageNestedMiller.ampnote');
+    const inner = { kind: 'miller', index: 1 } as const;
+    const data = buildPanelData(model, 'file:///x', { compensation: inner })!;
+    expect(data.compensationChoices!.map((c) => [c.kind, c.index, c.label])).toEqual([
+      ['miller', 0, 'miller first -> third'],
+      ['miller', 1, 'miller second -> third'],
+    ]);
+    expect(data.compensation).toMatchObject({ ...inner, ccWritten: model.millers[1]!.cc });
+    // Its Cc = 0 end is the design without the inner capacitor, the outer one as written.
+    const without = analyzeDesign(withValue(model, { ...inner, field: 'cc' }, 0))
+      .poles.map((p) => p.hz)
+      .sort((a, b) => a - b);
+    const atZero = data.locus.poles.filter((s) => s.cc[0] === 0).map((s) => s.hz[0]!);
+    expect(atZero.length).toBe(without.length);
+    atZero.forEach((hz, k) => expect(rel(hz, without[k]!)).toBeLessThan(1e-9));
+    // A slider value moves that element only.
+    const moved = buildPanelData(model, 'file:///x', { compensation: inner, cc: 6e-12 })!;
+    const exact = analyzeDesign(withValue(model, { ...inner, field: 'cc' }, 6e-12)).poles.map((p) => p.hz);
+    expect(moved.poles.map((p) => p.hz)).toEqual(exact);
+    // An element the design does not have: the first Miller capacitor, as without a choice.
+    for (const compensation of [
+      { kind: 'miller', index: 5 },
+      { kind: 'buffered', index: 0 },
+    ] as const)
+      expect(buildPanelData(model, 'file:///x', { compensation })!.compensation).toMatchObject({
+        kind: 'miller',
+        index: 0,
+      });
+    // The cursor on a Miller line picks it; on any other line nothing.
+    const line = model.millers[1]!.origin.range.start.line;
+    expect(compensationAt(model, { line, character: 0 })).toEqual(inner);
+    expect(compensationAt(model, { line: model.millers[0]!.origin.range.start.line, character: 3 })).toEqual({
+      kind: 'miller',
+      index: 0,
+    });
+    expect(
+      compensationAt(model, { line: model.stages[0]!.origin.range.start.line, character: 0 }),
+    ).toBeUndefined();
   });
 
   it('returns nothing once cancelled', () => {
