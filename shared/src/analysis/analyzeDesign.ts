@@ -4,7 +4,7 @@ import type { DesignModel } from '../language/model';
 import type { AnalysisProblem, DesignAnalysis, Pole, Zero } from './types';
 import { buildNetwork } from '../circuit/buildNetwork';
 import { analyzeCore, type CoreResult } from './core';
-import { checkPole, knownResidual, zeroResidual } from './rootCheck';
+import { checkPole, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
 import { slewEstimate } from './slew';
 import { handEstimates } from './handEstimates';
@@ -51,7 +51,7 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     const damping = magnitude === 0 ? 1 : -s.re / magnitude;
     const hz = magnitude / (2 * Math.PI);
     if (!withChecks) {
-      const residual = knownResidual.get(s);
+      const residual = r.residuals.get(s);
       if (residual !== undefined && residual > ROOT_CHECK_LIMIT) {
         warnings.push(`pole at ${fmt(s)} rad/s failed the network check`);
       }
@@ -78,7 +78,7 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
   });
   const zeros: Zero[] = r.open.zeros.map((s) => {
     const zero: Zero = { s, hz: Math.sqrt(s.re * s.re + s.im * s.im) / (2 * Math.PI), rhp: s.re > 0 };
-    const known = knownResidual.get(s);
+    const known = r.residuals.get(s);
     if (!withChecks) {
       if (known === undefined) return zero;
       if (known > ROOT_CHECK_LIMIT) warnings.push(`zero at ${fmt(s)} rad/s failed the network check`);

@@ -8,7 +8,7 @@ import { lowFrequencySign, type PoleZeroForm } from './frequency';
 import { crossingsOf, frequencySpan, logGrid, loopMetrics, sample } from './loop';
 import { eigenvalues } from '../numeric/eigenvalues';
 import type { AnalysisProblem } from './types';
-import { refinePoles, refineZeros, rootScale } from './rootCheck';
+import { refinePoles, refineZeros, rootScale, type ResidualMap } from './rootCheck';
 
 export interface CoreResult {
   readonly network: Network;
@@ -24,6 +24,8 @@ export interface CoreResult {
   readonly openLoopUgfHz?: number;
   readonly grid: number[];
   readonly tiny: number;
+  /** The network check of each root, computed while refining (absent for roots not checked). */
+  readonly residuals: ResidualMap;
 }
 
 export type CoreOutcome = { ok: true; result: CoreResult } | { ok: false; problems: AnalysisProblem[] };
@@ -60,8 +62,9 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
   // many decades apart); the light path (synthesis) skips it, and the full analysis of the result
   // polishes them.
   const polish = !light;
-  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale, polish).sort(byMagnitude);
-  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, polish).sort(byMagnitude);
+  const residuals: ResidualMap = new Map();
+  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale, polish, residuals).sort(byMagnitude);
+  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, polish, residuals).sort(byMagnitude);
   const open = { poles, zeros, k: pz.k, relativeDegree: pz.relativeDegree };
   const sign = lowFrequencySign(open);
   const atOrigin = (r: Complex) => r.re === 0 && r.im === 0;
@@ -114,6 +117,7 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
       openLoopUgfHz,
       grid,
       tiny: span.tiny,
+      residuals,
     },
   };
 }

@@ -3,7 +3,7 @@
 // phase crossover, and closed-loop peaking. ln|A(jω)|² is sampled once; the loop gain L = β·σ·A differs
 // from it by the constant ln β², so the open-loop and loop crossings come from the same samples.
 import type { Complex, Crossing, LoopMetrics } from './types';
-import { phaseFunction, unwrappedPhaseDeg, type PoleZeroForm } from './frequency';
+import { lowFrequencySign, unwrappedPhaseDeg, type PoleZeroForm } from './frequency';
 import { brentRoot, goldenMax } from '../numeric/roots';
 
 const POINTS_PER_DECADE = 10;
@@ -230,7 +230,10 @@ function phaseBounds(pz: PoleZeroForm, tiny: number, dc: number): { min: number;
  * `at(w)` fills `rise` and `fall`.
  */
 function phaseParts(pz: PoleZeroForm, tiny: number) {
-  const base = phaseFunction(pz, tiny)(0);
+  // The DC convention: 0 or 180° by the low-frequency sign, ±90° per root at the origin.
+  let base = lowFrequencySign(pz) < 0 ? 180 : 0;
+  for (const z of pz.zeros) if (Math.sqrt(z.re * z.re + z.im * z.im) <= tiny) base += 90;
+  for (const p of pz.poles) if (Math.sqrt(p.re * p.re + p.im * p.im) <= tiny) base -= 90;
   const zr: number[] = [];
   const zi: number[] = [];
   const pr: number[] = [];
@@ -285,11 +288,11 @@ function phaseParts(pz: PoleZeroForm, tiny: number) {
  * phaseParts keep the phase inside one band throughout: the answer is the one the full scan would give.
  */
 export function phaseCrossover(pz: PoleZeroForm, grid: readonly number[], tiny: number): number | undefined {
-  const phase = phaseFunction(pz, tiny);
-  // Skip the scan when the phase cannot reach ±180° at all (a one- or two-pole loop without RHP roots).
-  const bounds = phaseBounds(pz, tiny, phase(grid[0] * 1e-6));
-  if (bounds.min > -180 && bounds.max < 180) return undefined;
   const parts = phaseParts(pz, tiny);
+  // Skip the scan when the phase cannot reach ±180° at all (a one- or two-pole loop without RHP roots).
+  const dc = parts(grid[0] * 1e-6);
+  const bounds = phaseBounds(pz, tiny, dc.rise + dc.fall);
+  if (bounds.min > -180 && bounds.max < 180) return undefined;
   const ph = (u: number) => {
     const p = parts(Math.exp(u));
     return p.rise + p.fall;

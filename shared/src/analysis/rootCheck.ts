@@ -312,8 +312,10 @@ const ORIGIN: Complex = { re: 0, im: 0 };
 /**
  * The network check of each root computed while refining, keyed by the root object, so that reporting
  * `residual` later costs nothing. A root put at the origin afterwards is a new object without an entry.
+ * One plain Map per analysis (it lives and dies with the result; a WeakMap would make every collection
+ * trace ephemerons).
  */
-export const knownResidual = new WeakMap<Complex, number>();
+export type ResidualMap = Map<Complex, number>;
 
 function refineAll(
   roots: Complex[],
@@ -321,6 +323,7 @@ function refineAll(
   residual: (s: Complex) => number,
   D: () => Float64Array,
   doPolish: boolean,
+  knownResidual: ResidualMap,
 ): Complex[] {
   if (!doPolish || roots.length === 0) return roots;
   const out: Complex[] = [];
@@ -411,6 +414,7 @@ export function refinePoles(
   poles: Complex[],
   scaleMag = rootScale(poles),
   doPolish = true,
+  residuals: ResidualMap = new Map(),
 ): Complex[] {
   const out = refineAll(
     poles,
@@ -418,6 +422,7 @@ export function refinePoles(
     (s) => residualAt(net, s, false),
     () => poleDerivative(net),
     doPolish,
+    residuals,
   );
   // Poles at the origin only with a singular G (a node with charge but no DC path).
   if (!out.some((p) => Math.sqrt(p.re * p.re + p.im * p.im) < 1e-8 * scaleMag) || !conductanceSingular(net))
@@ -426,7 +431,13 @@ export function refinePoles(
   return snapToOrigin(out, Math.max(1, count), 1e-8 * scaleMag);
 }
 
-export function refineZeros(net: Network, zeros: Complex[], scaleMag: number, doPolish = true): Complex[] {
+export function refineZeros(
+  net: Network,
+  zeros: Complex[],
+  scaleMag: number,
+  doPolish = true,
+  residuals: ResidualMap = new Map(),
+): Complex[] {
   let D: Float64Array | undefined;
   const out = refineAll(
     zeros,
@@ -434,6 +445,7 @@ export function refineZeros(net: Network, zeros: Complex[], scaleMag: number, do
     (s) => residualAt(net, s, true),
     () => (D ??= zeroDerivative(net)),
     doPolish,
+    residuals,
   );
   const window = 1e-3 * scaleMag;
   if (!out.some((z) => Math.sqrt(z.re * z.re + z.im * z.im) <= window)) return out;

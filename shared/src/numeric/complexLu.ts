@@ -227,6 +227,7 @@ export function complexNullVectors(f: ComplexLu): {
  */
 export function lastPivotInPlace(re: Float64Array, im: Float64Array, n: number, real: boolean): number {
   if (n === 0) return 1;
+  if (real) return lastPivotRealInPlace(re, n);
   for (let k = 0; k < n; k++) {
     let bi = k;
     let bj = k;
@@ -280,6 +281,40 @@ export function lastPivotInPlace(re: Float64Array, im: Float64Array, n: number, 
         re[i * n + j] -= fr * ur - fi * ui;
         im[i * n + j] -= fr * ui + fi * ur;
       }
+    }
+  }
+  return 1;
+}
+
+/** lastPivotInPlace for a real matrix: the same pivots and arithmetic on the real parts alone. */
+function lastPivotRealInPlace(a: Float64Array, n: number): number {
+  for (let k = 0; k < n; k++) {
+    let bi = k;
+    let bj = k;
+    let best = -1;
+    for (let i = k; i < n; i++) {
+      const row = i * n;
+      for (let j = k; j < n; j++) {
+        const m = Math.abs(a[row + j]);
+        if (m > best) {
+          best = m;
+          bi = i;
+          bj = j;
+        }
+      }
+    }
+    if (bi !== k) for (let j = k; j < n; j++) swap(a, k * n + j, bi * n + j);
+    if (bj !== k) for (let i = k; i < n; i++) swap(a, i * n + k, i * n + bj);
+    const p = a[k * n + k];
+    if (k === n - 1) return Math.abs(p);
+    if (p === 0) continue;
+    const pivotRow = k * n;
+    for (let i = k + 1; i < n; i++) {
+      const row = i * n;
+      const x = a[row + k];
+      if (x === 0) continue;
+      const f = x / p;
+      for (let j = k + 1; j < n; j++) a[row + j] -= f * a[pivotRow + j];
     }
   }
   return 1;
