@@ -109,7 +109,7 @@ function body(design: DesignReport, target: Target): string[] | undefined {
       const m = target.item;
       const rz = target.kind === 'miller' ? target.item.rz : undefined;
       const head = [
-        `**${target.kind === 'miller' ? 'Miller capacitor' : 'buffered capacitor'}** ${m.from} → ${m.to}`,
+        `**${target.kind === 'miller' ? 'Miller capacitor' : 'indirect compensation capacitor'}** ${m.from} → ${m.to}`,
         `cc = ${formatSi(m.cc, 'F')}` +
           (rz !== undefined
             ? `, rz = ${formatSi(rz, 'ohm')}`
@@ -117,7 +117,9 @@ function body(design: DesignReport, target: Target): string[] | undefined {
               ? ', no nulling resistor'
               : ''),
       ];
-      return a ? [...head, '', ...poleLines(a, [m.from, m.to]), ...zeroLines(a), '', ...handLines(a)] : head;
+      return a
+        ? [...head, '', ...poleLines(a, [m.from, m.to]), '', ...zeroLines(a), '', ...handLines(a)]
+        : head;
     }
     case 'load': {
       const l = target.item;
