@@ -5,7 +5,7 @@ import type { Complex, LoopMetrics } from './types';
 import { realize, nodalDcGain, type StateSpace } from './realization';
 import { poleZeroGain } from './polesZeros';
 import { lowFrequencySign, type PoleZeroForm } from './frequency';
-import { crossingsOf, frequencySpan, logGrid, loopMetrics, sample } from './loop';
+import { crossingsOf, frequencySpan, loopMetrics, sampleLogGrid } from './loop';
 import { eigenvalues } from '../numeric/eigenvalues';
 import type { AnalysisProblem } from './types';
 import { refinePoles, refineZeros, rootScale, type ResidualMap } from './rootCheck';
@@ -82,8 +82,7 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
     closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);
   }
   const span = frequencySpan(open, Math.max(1, Math.abs(beta)), [Math.abs(dcGain), Math.abs(beta * dcGain)]);
-  const grid = logGrid(span.lo, span.hi);
-  const samples = sample(open, grid);
+  const { grid, samples } = sampleLogGrid(open, span.lo, span.hi);
   const loop = loopMetrics({
     open,
     samples,

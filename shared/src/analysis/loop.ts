@@ -100,9 +100,32 @@ export interface Samples {
 }
 
 export function sample(pz: PoleZeroForm, grid: readonly number[]): Samples {
-  const f = logMagnitudeFunction(pz);
+  const us = new Float64Array(grid.length);
+  for (let i = 0; i < grid.length; i++) us[i] = Math.log(grid[i]);
+  return sampleWithLogs(pz, grid, us);
+}
+
+/**
+ * logGrid(lo, hi) and its samples. ln ω on a geometric grid is ln lo + i·ln ratio (to a few ulps), so
+ * no logarithm is taken per point.
+ */
+export function sampleLogGrid(
+  pz: PoleZeroForm,
+  lo: number,
+  hi: number,
+): { grid: number[]; samples: Samples } {
+  const grid = logGrid(lo, hi);
   const n = grid.length;
   const us = new Float64Array(n);
+  const u0 = Math.log(lo);
+  const du = Math.log(hi / lo) / (n - 1);
+  for (let i = 0; i < n; i++) us[i] = u0 + i * du;
+  return { grid, samples: sampleWithLogs(pz, grid, us) };
+}
+
+function sampleWithLogs(pz: PoleZeroForm, grid: readonly number[], us: Float64Array): Samples {
+  const f = logMagnitudeFunction(pz);
+  const n = grid.length;
   const ms = new Float64Array(n);
   const nz = pz.zeros.length;
   const np = pz.poles.length;
@@ -119,7 +142,6 @@ export function sample(pz: PoleZeroForm, grid: readonly number[]): Samples {
   const k2 = pz.k * pz.k;
   for (let i = 0; i < n; i++) {
     const w = grid[i];
-    us[i] = Math.log(w);
     // Numerator and denominator products, one division; overflow or underflow of either (many roots
     // decades apart) falls back to dividing factor by factor.
     let num = k2;
@@ -400,8 +422,7 @@ function closedLoopPeakingDb(input: LoopInput): number {
   if (!(h0sq > 0) || !Number.isFinite(h0sq)) return 0;
   const span = frequencySpan(cl);
   if (span.tiny === 0) return 0;
-  const grid = logGrid(span.lo * 10, (span.tiny / 1e-14) * 10);
-  const samples = sample(cl, grid);
+  const { grid, samples } = sampleLogGrid(cl, span.lo * 10, (span.tiny / 1e-14) * 10);
   let best = -Infinity;
   let bi = -1;
   for (let i = 0; i < grid.length; i++) {
