@@ -8,7 +8,9 @@ import type { Participation } from './types';
 /**
  * A junction joins its node when |φ_junction − φ_node| ≤ this × |φ_node|: the drop across the series
  * resistor is small against the node's own swing, i.e. Rz is small against the node's impedance at the
- * pole (the drop over the swing is about Rz/|Z_node(s)|).
+ * pole (the drop over the swing is about Rz/|Z_node(s)|). A buffer input joins the node it feeds when
+ * |ψ_input − ψ_node| ≤ this × |ψ_node|: the buffer passes on at least about 90 % of a current injected at
+ * its input at that frequency (its 1/gm is small against the other paths from the input).
  */
 export const JOIN_BELOW = 0.1;
 
@@ -33,6 +35,8 @@ export function showParticipation(
   shares: Float64Array,
   phiRe: Float64Array,
   phiIm: Float64Array,
+  psiRe: Float64Array,
+  psiIm: Float64Array,
 ): ShownParticipation {
   const { n, nodes } = net;
   let total = 0;
@@ -48,16 +52,27 @@ export function showParticipation(
   const raw = nodes.map((node, i) => ({ node: node.name, share: shares[i] * norm }));
   const shown = Float64Array.from(shares, (x) => x * norm);
   const joined = new Uint8Array(n);
+  // Two vectors from one factorisation, each to within its own scale: compare entries of one vector only.
+  const close = (re: Float64Array, im: Float64Array, k: number, j: number) => {
+    const dr = re[k] - re[j];
+    const di = im[k] - im[j];
+    const size2 = re[j] * re[j] + im[j] * im[j];
+    return size2 > 0 && dr * dr + di * di <= JOIN_BELOW * JOIN_BELOW * size2;
+  };
   for (let k = 0; k < n; k++) {
-    const j = nodes[k].seriesTo;
+    const series = nodes[k].seriesTo;
+    const follower = nodes[k].currentTo;
+    // A junction whose voltage follows its node (right vector), or a buffer input where an injected
+    // current acts as it would at the node the buffer feeds (left vector).
+    const j =
+      series !== undefined && close(phiRe, phiIm, k, series)
+        ? series
+        : follower !== undefined && close(psiRe, psiIm, k, follower)
+          ? follower
+          : undefined;
     if (j === undefined) continue;
-    const dr = phiRe[k] - phiRe[j];
-    const di = phiIm[k] - phiIm[j];
-    const swing2 = phiRe[j] * phiRe[j] + phiIm[j] * phiIm[j];
-    if (swing2 > 0 && dr * dr + di * di <= JOIN_BELOW * JOIN_BELOW * swing2) {
-      shown[j] += shown[k];
-      joined[k] = 1;
-    }
+    shown[j] += shown[k];
+    joined[k] = 1;
   }
   const participation: Participation[] = [];
   for (let i = 0; i < n; i++) {

@@ -118,6 +118,8 @@ export function checkPole(net: Network, s: Complex): PoleCheck {
     phiIm[j] = v.rightIm[j] * p.cols[j];
   }
   const shares = new Float64Array(n);
+  const psiRe = new Float64Array(n);
+  const psiIm = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let cr = 0;
     let ci = 0;
@@ -127,11 +129,11 @@ export function checkPole(net: Network, s: Complex): PoleCheck {
       cr += cij * phiRe[j];
       ci += cij * phiIm[j];
     }
-    const pr = v.leftRe[i] * p.rows[i];
-    const pi = v.leftIm[i] * p.rows[i];
+    const pr = (psiRe[i] = v.leftRe[i] * p.rows[i]);
+    const pi = (psiIm[i] = v.leftIm[i] * p.rows[i]);
     shares[i] = Math.hypot(pr * cr - pi * ci, pr * ci + pi * cr); // scale unknown: keep hypot
   }
-  const shown = showParticipation(net, shares, phiRe, phiIm);
+  const shown = showParticipation(net, shares, phiRe, phiIm, psiRe, psiIm);
   return {
     residual: lastPivot(f),
     participation: shown.participation,

@@ -22,9 +22,10 @@ export interface Pole {
   readonly damping: number;
   /**
    * Sorted by share, largest first, summing to 1. Internal nodes appear under a label tied to the statement
-   * that made them (`miller a -> b (Rz–Cc junction)`, `buffered a -> b (buffer input)`); a nulling
+   * that made them (`miller a -> b (Rz–Cc junction)`, `indirect a -> b (buffer input)`); a nulling
    * resistor's junction is counted with the node it hangs from when the resistor carries under 10 % of
-   * that node's swing in this mode (docs/analysis.md).
+   * that node's swing in this mode, a buffer input with the node it feeds when the buffer passes on about
+   * 90 % or more of a current injected there (docs/analysis.md).
    */
   readonly participation: readonly Participation[];
   /**

@@ -30,7 +30,7 @@ export function buildNetwork(model: DesignModel): BuildResult {
       internal(millerMidpointName(i), `miller ${m.from} -> ${m.to} (Rz–Cc junction)`);
   });
   model.buffered.forEach((bc, i) =>
-    internal(bufferInputName(i), `buffered ${bc.from} -> ${bc.to} (buffer input)`),
+    internal(bufferInputName(i), `indirect ${bc.from} -> ${bc.to} (buffer input)`),
   );
 
   const terminalOf = (name: string, what: string): Terminal | undefined => {
@@ -119,6 +119,7 @@ export function buildNetwork(model: DesignModel): BuildResult {
     if (!finite(bc.cc, `${what}: cc`, bc.from) || !finite(bc.gm, `${what}: gm`, bc.from)) return;
     if (!finite(bc.cap, `${what}: cap`, bc.from)) return;
     const x = index.get(bufferInputName(i))!;
+    if (typeof to === 'number') nodes[x] = { ...nodes[x], currentTo: to };
     // Common-gate buffer: its input (source) node x sees 1/gm to small-signal ground, and the device
     // current gm·v(x) that leaves x is delivered into `to`, so the capacitor current is passed on.
     b.capacitance(from, x, bc.cc);

@@ -16,6 +16,12 @@ export interface NetworkNode {
    * when the resistor carries little of the mode's voltage (docs/analysis.md, Participation).
    */
   readonly seriesTo?: number;
+  /**
+   * For a current buffer's input: the design node the buffer delivers the input current into. Its
+   * participation is attributed there when the buffer passes on nearly all of a current injected at its
+   * input in that mode (docs/analysis.md, Participation).
+   */
+  readonly currentTo?: number;
 }
 
 export interface Network {

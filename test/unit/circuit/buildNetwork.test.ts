@@ -63,7 +63,8 @@ describe('buildNetwork stamps', () => {
     expect(n.nodes[2]).toEqual({
       name: 'buffer1.in',
       kind: 'internal',
-      label: 'buffered b -> a (buffer input)',
+      label: 'indirect b -> a (buffer input)',
+      currentTo: 0,
     });
     expect(at(n.G, 3, 2, 2)).toBe(5e-5);
     expect(at(n.G, 3, 0, 2)).toBe(-5e-5);
