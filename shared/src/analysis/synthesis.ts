@@ -232,10 +232,21 @@ export function solveRzToCancelPole(model: DesignModel, millerIndex: number): Sy
   const missing = millerExists(model, millerIndex);
   if (missing) return { ok: false, reason: missing };
   const target: CompensationTarget = { kind: 'miller', index: millerIndex, field: 'rz' };
+  // A real zero can only cancel a real pole: against a complex pair it would leave the pair in place and
+  // add a low pole of its own (a very large Rz), so the target is refused instead of "met".
+  const isComplex = (p: Complex) => Math.abs(p.im) > 1e-6 * mag(p);
+  const now = core(model);
+  if (now && now.open.poles.length >= 2 && isComplex(now.open.poles[1])) {
+    return {
+      ok: false,
+      reason:
+        'the first non-dominant poles are a complex pair; a real left-half-plane zero cannot cancel them',
+    };
+  }
   // ln(|z|/|p2|) for the lowest left-half-plane real zero; +large when there is none (zero at or beyond ∞).
   const f = (rz: number) => {
     const r = core(withValue(model, target, rz));
-    if (!r || r.open.poles.length < 2) return NaN;
+    if (!r || r.open.poles.length < 2 || isComplex(r.open.poles[1])) return NaN;
     const lhp = r.open.zeros.filter((z) => z.im === 0 && z.re < 0).map(mag);
     if (lhp.length === 0) return 50;
     return Math.log(Math.min(...lhp) / mag(r.open.poles[1]));
