@@ -72,7 +72,7 @@ export const rhpZeroCheck: Check = (input: CheckInput) =>
             second && gmField
               ? {
                   range: gmField.range,
-                  message: `gm2 = ${formatSi(second.stage.gm, 'S')} of stage ${second.stage.name} sets the zero`,
+                  message: `gm = ${formatSi(second.stage.gm, 'S')} of stage ${second.stage.name}, the stage this capacitor wraps, sets the zero`,
                 }
               : undefined,
             req
