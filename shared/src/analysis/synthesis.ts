@@ -49,6 +49,25 @@ function smallestCrossing(f: (v: number) => number, grid: readonly number[]) {
   return { value: undefined, samples: fs };
 }
 
+/**
+ * The first grid interval whose end samples satisfy `brackets`, refined by Brent in log(value); undefined
+ * when no interval does.
+ */
+function firstBracketedRoot(
+  f: (v: number) => number,
+  grid: readonly number[],
+  brackets: (a: number, b: number) => boolean,
+): number | undefined {
+  const fs = grid.map(f);
+  for (let i = 0; i + 1 < grid.length; i++) {
+    if (brackets(fs[i], fs[i + 1])) {
+      const g = (x: number) => f(Math.exp(x));
+      return Math.exp(brentRoot(g, Math.log(grid[i]), Math.log(grid[i + 1]), fs[i], fs[i + 1], 1e-12));
+    }
+  }
+  return undefined;
+}
+
 /** Round to 3 significant figures in the direction that keeps `meets` true; re-checked on the model. */
 function rounded(value: number, meets: (v: number) => number | undefined, up: boolean) {
   const p = 10 ** (Math.floor(Math.log10(value)) - 2);
@@ -201,29 +220,18 @@ export function solveRzForZeroAtInfinity(model: DesignModel, millerIndex: number
     return { ok: false, reason: 'the design cannot be analysed with a nulling resistor' };
   const rho = Math.min(...(degrees as number[]));
   const f = (rz: number) => markov(withValue(model, target, rz), rho);
-  const fs = grid.map(f);
-  for (let i = 0; i + 1 < grid.length; i++) {
-    if (fs[i] !== 0 && fs[i + 1] !== 0 && Math.sign(fs[i]) !== Math.sign(fs[i + 1])) {
-      const u = brentRoot(
-        (x) => f(Math.exp(x)),
-        Math.log(grid[i]),
-        Math.log(grid[i + 1]),
-        fs[i],
-        fs[i + 1],
-        1e-12,
-      );
-      const value = Math.exp(u);
-      const after = core(withValue(model, target, value));
-      const finite = after ? after.open.zeros.filter((z) => z.im === 0).map(mag) : [];
-      const largest = finite.length ? Math.max(...finite) : Infinity;
-      const largestPole = after && after.open.poles.length ? Math.max(...after.open.poles.map(mag)) : 0;
-      return {
-        ok: true,
-        value,
-        achieved: largest / (2 * Math.PI),
-        note: `the highest remaining real zero lies at ${Number.isFinite(largest) ? (largest / largestPole).toPrecision(3) + '× the highest pole' : 'infinity'}`,
-      };
-    }
+  const value = firstBracketedRoot(f, grid, (a, b) => a !== 0 && b !== 0 && Math.sign(a) !== Math.sign(b));
+  if (value !== undefined) {
+    const after = core(withValue(model, target, value));
+    const finite = after ? after.open.zeros.filter((z) => z.im === 0).map(mag) : [];
+    const largest = finite.length ? Math.max(...finite) : Infinity;
+    const largestPole = after && after.open.poles.length ? Math.max(...after.open.poles.map(mag)) : 0;
+    return {
+      ok: true,
+      value,
+      achieved: largest / (2 * Math.PI),
+      note: `the highest remaining real zero lies at ${Number.isFinite(largest) ? (largest / largestPole).toPrecision(3) + '× the highest pole' : 'infinity'}`,
+    };
   }
   return { ok: false, reason: 'no nulling-resistor value between 10 mΩ and 1 GΩ moves the zero to infinity' };
 }
@@ -252,27 +260,16 @@ export function solveRzToCancelPole(model: DesignModel, millerIndex: number): Sy
     return Math.log(Math.min(...lhp) / mag(r.open.poles[1]));
   };
   const grid = logGrid(1e-2, 1e9, 4);
-  const fs = grid.map(f);
-  for (let i = 0; i + 1 < grid.length; i++) {
-    if (fs[i] > 0 && fs[i + 1] <= 0) {
-      const u = brentRoot(
-        (x) => f(Math.exp(x)),
-        Math.log(grid[i]),
-        Math.log(grid[i + 1]),
-        fs[i],
-        fs[i + 1],
-        1e-12,
-      );
-      const value = Math.exp(u);
-      const r = core(withValue(model, target, value));
-      const z = r?.open.zeros.filter((s) => s.im === 0 && s.re < 0).map(mag) ?? [];
-      return {
-        ok: true,
-        value,
-        achieved: z.length ? Math.min(...z) / (2 * Math.PI) : NaN,
-        note: r ? `zero placed on the pole at ${fmt(mag(r.open.poles[1]) / (2 * Math.PI), 'Hz')}` : undefined,
-      };
-    }
+  const value = firstBracketedRoot(f, grid, (a, b) => a > 0 && b <= 0);
+  if (value !== undefined) {
+    const r = core(withValue(model, target, value));
+    const z = r?.open.zeros.filter((s) => s.im === 0 && s.re < 0).map(mag) ?? [];
+    return {
+      ok: true,
+      value,
+      achieved: z.length ? Math.min(...z) / (2 * Math.PI) : NaN,
+      note: r ? `zero placed on the pole at ${fmt(mag(r.open.poles[1]) / (2 * Math.PI), 'Hz')}` : undefined,
+    };
   }
   return {
     ok: false,
