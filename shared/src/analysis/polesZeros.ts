@@ -4,6 +4,14 @@ import type { Complex } from './types';
 import { eigenvalues } from '../numeric/eigenvalues';
 import { nullSpaceBasis } from '../numeric/householder';
 import { norm2, normFrobenius } from '../numeric/dense';
+import { ScratchPool } from '../numeric/workspace';
+
+// Matrices handed to the eigenvalue routine (which copies them) and the projection's intermediates.
+const feedthroughPool = new ScratchPool();
+const zeroDynamicsPool = new ScratchPool();
+const rowsPool = new ScratchPool();
+const projectedPool = new ScratchPool();
+const reducedPool = new ScratchPool();
 
 export interface PoleZeroGain {
   readonly poles: Complex[];
@@ -34,7 +42,8 @@ export function zerosOf(sys: StateSpace): { zeros: Complex[]; k: number; relativ
   const scale = normA > 0 ? (nc * nb) / normA : nc * nb;
   if (Math.abs(d) > NEGLIGIBLE * scale && d !== 0) {
     // Zeros are the eigenvalues of A − b·c/d.
-    const M = Float64Array.from(A);
+    const M = feedthroughPool.get(n * n);
+    M.set(A);
     for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) M[i * n + j] -= (b[i] * c[j]) / d;
     const e = eigenvalues(M, n);
     return { zeros: toComplex(e.re, e.im), k: d, relativeDegree: 0 };
@@ -59,18 +68,19 @@ export function zerosOf(sys: StateSpace): { zeros: Complex[]; k: number; relativ
   if (rho === n) return { zeros: [], k: markov, relativeDegree: rho };
   // Zero dynamics: A − b·(c A^(ρ−1) b)⁻¹·c A^ρ restricted to the null space of c, cA, …, cA^(ρ−1).
   const cArho = rowTimes(rows[rho - 1], A, n);
-  const Az = Float64Array.from(A);
+  const Az = zeroDynamicsPool.get(n * n);
+  Az.set(A);
   for (let i = 0; i < n; i++) {
     const f = b[i] / markov;
     if (f === 0) continue;
     for (let j = 0; j < n; j++) Az[i * n + j] -= f * cArho[j];
   }
-  const R = new Float64Array(rho * n);
+  const R = rowsPool.get(rho * n);
   rows.forEach((r, i) => R.set(r, i * n));
   const N = nullSpaceBasis(R, rho, n);
   const m = n - rho;
   // Nᵀ·Az·N
-  const AN = new Float64Array(n * m);
+  const AN = projectedPool.zeroed(n * m);
   for (let i = 0; i < n; i++) {
     for (let k = 0; k < n; k++) {
       const a = Az[i * n + k];
@@ -78,7 +88,7 @@ export function zerosOf(sys: StateSpace): { zeros: Complex[]; k: number; relativ
       for (let j = 0; j < m; j++) AN[i * m + j] += a * N[k * m + j];
     }
   }
-  const Zd = new Float64Array(m * m);
+  const Zd = reducedPool.zeroed(m * m);
   for (let k = 0; k < n; k++) {
     for (let i = 0; i < m; i++) {
       const nki = N[k * m + i];

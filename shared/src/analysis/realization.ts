@@ -7,6 +7,7 @@ import { symmetricEigen } from '../numeric/symmetricEigen';
 import { luFactor, luSolve, luSolveMatrix } from '../numeric/luReal';
 import { complexLuFactor, complexNullVectors } from '../numeric/complexLu';
 import { conductanceSingular } from './rootCheck';
+import { ScratchPool } from '../numeric/workspace';
 
 export interface StateSpace {
   /** Order: the number of finite poles. */
@@ -23,6 +24,19 @@ export type RealizationResult = { ok: true; system: StateSpace } | { ok: false; 
 /** Below this ratio of pivots a resistive block is singular: a node with neither a DC path nor charge. */
 const SINGULAR_PIVOT_RATIO = 1e-13;
 
+// Intermediate matrices of one realisation (never returned: A, b and c are fresh arrays).
+const guPool = new ScratchPool();
+const gtPool = new ScratchPool();
+const gtVecPool = new ScratchPool();
+const ctVecPool = new ScratchPool();
+const grPool = new ScratchPool();
+const grVecPool = new ScratchPool();
+const gzzPool = new ScratchPool();
+const rhsPool = new ScratchPool();
+const sPool = new ScratchPool();
+const b0Pool = new ScratchPool();
+const b1Pool = new ScratchPool();
+
 export function realize(net: Network): RealizationResult {
   const { n, G, C, gIn, cIn, output } = net;
   if (n === 0) return { ok: false, problems: [{ message: 'the design has no nodes besides its input' }] };
@@ -38,7 +52,7 @@ export function realize(net: Network): RealizationResult {
   const z = n - r;
   const U = eig.vectors;
   // Gt = Uᵀ G U, gt = Uᵀ gIn.
-  const GU = new Float64Array(n * n);
+  const GU = guPool.zeroed(n * n);
   for (let i = 0; i < n; i++) {
     for (let k = 0; k < n; k++) {
       const gik = G[i * n + k];
@@ -46,7 +60,7 @@ export function realize(net: Network): RealizationResult {
       for (let j = 0; j < n; j++) GU[i * n + j] += gik * U[k * n + j];
     }
   }
-  const Gt = new Float64Array(n * n);
+  const Gt = gtPool.zeroed(n * n);
   for (let k = 0; k < n; k++) {
     for (let i = 0; i < n; i++) {
       const uki = U[k * n + i];
@@ -54,8 +68,8 @@ export function realize(net: Network): RealizationResult {
       for (let j = 0; j < n; j++) Gt[i * n + j] += uki * GU[k * n + j];
     }
   }
-  const gt = new Float64Array(n);
-  const ct = new Float64Array(n);
+  const gt = gtVecPool.get(n);
+  const ct = ctVecPool.get(n);
   for (let i = 0; i < n; i++) {
     let sg = 0;
     let sc = 0;
@@ -68,18 +82,19 @@ export function realize(net: Network): RealizationResult {
   }
 
   // Schur complement over the charge-free block: X = Gzz⁻¹ [Gzr | gz].
-  const Gr = new Float64Array(r * r);
+  const Gr = grPool.get(r * r);
   for (let i = 0; i < r; i++) for (let j = 0; j < r; j++) Gr[i * r + j] = Gt[i * n + j];
-  const gr = gt.slice(0, r);
+  const gr = grVecPool.get(r);
+  for (let i = 0; i < r; i++) gr[i] = gt[i];
   let X: Float64Array = new Float64Array(0);
   if (z > 0) {
-    const Gzz = new Float64Array(z * z);
+    const Gzz = gzzPool.get(z * z);
     for (let i = 0; i < z; i++) for (let j = 0; j < z; j++) Gzz[i * z + j] = Gt[(r + i) * n + r + j];
     const f = luFactor(Gzz, z);
     if (f.singular || f.pivotRatio < SINGULAR_PIVOT_RATIO) {
       return { ok: false, problems: [floatingNodeProblem(net, U, r, Gzz, z)] };
     }
-    const rhs = new Float64Array(z * (r + 1));
+    const rhs = rhsPool.get(z * (r + 1));
     for (let i = 0; i < z; i++) {
       for (let j = 0; j < r; j++) rhs[i * (r + 1) + j] = Gt[(r + i) * n + j];
       rhs[i * (r + 1) + r] = gt[r + i];
@@ -95,12 +110,12 @@ export function realize(net: Network): RealizationResult {
     }
   }
 
-  const s = new Float64Array(r);
+  const s = sPool.get(r);
   for (let i = 0; i < r; i++) s[i] = 1 / Math.sqrt(eig.values[i]);
   const A = new Float64Array(r * r);
   for (let i = 0; i < r; i++) for (let j = 0; j < r; j++) A[i * r + j] = -s[i] * Gr[i * r + j] * s[j];
-  const b0 = new Float64Array(r);
-  const b1 = new Float64Array(r);
+  const b0 = b0Pool.get(r);
+  const b1 = b1Pool.get(r);
   for (let i = 0; i < r; i++) {
     b0[i] = -s[i] * gr[i];
     b1[i] = -s[i] * ct[i];

@@ -1,6 +1,7 @@
 // Eigenvalues of a general real matrix: balancing, orthogonal reduction to upper Hessenberg form, then the
 // Francis double-shift QR iteration (the classic dense nonsymmetric method; Wilkinson & Reinsch,
 // Handbook for Automatic Computation vol. II, 1971 — from memory).
+import { ScratchPool } from './workspace';
 
 export interface Eigenvalues {
   readonly re: Float64Array;
@@ -8,6 +9,9 @@ export interface Eigenvalues {
 }
 
 export class EigenvalueFailure extends Error {}
+
+const ortPool = new ScratchPool();
+const workPool = new ScratchPool();
 
 /** Scale rows and columns by powers of two so that row and column norms are comparable. */
 export function balance(a: Float64Array, n: number): void {
@@ -50,7 +54,8 @@ export function balance(a: Float64Array, n: number): void {
 
 /** Householder reduction to upper Hessenberg form, in place. */
 export function hessenberg(h: Float64Array, n: number): void {
-  const ort = new Float64Array(n);
+  // Every entry of ort that is read is written first in the same step.
+  const ort = ortPool.get(n);
   const high = n - 1;
   for (let m = 1; m <= high - 1; m++) {
     let scale = 0;
@@ -254,7 +259,9 @@ export function eigenvalues(a: Float64Array, n: number): Eigenvalues {
   for (let i = 0; i < a.length; i++) {
     if (!Number.isFinite(a[i])) throw new EigenvalueFailure('matrix has a non-finite entry');
   }
-  const h = Float64Array.from(a);
+  // The reduced matrix is scratch; only the eigenvalue arrays leave this function.
+  const h = workPool.get(n * n);
+  h.set(a.length === n * n ? a : a.subarray(0, n * n));
   balance(h, n);
   hessenberg(h, n);
   return hessenbergEigenvalues(h, n);

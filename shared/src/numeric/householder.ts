@@ -1,9 +1,13 @@
 // Orthonormal basis of the null space of a few rows, by Householder QR of their transpose.
+import { ScratchPool } from './workspace';
+
+const transposePool = new ScratchPool();
+const columnPool = new ScratchPool();
 
 /** rows: k×n row-major (k ≤ n). Returns an n×(n−k) matrix whose orthonormal columns span the null space. */
 export function nullSpaceBasis(rows: Float64Array, k: number, n: number): Float64Array {
   // Work on Aᵀ (n×k); Q = H_1…H_k; the last n−k columns of Q span the null space of A.
-  const a = new Float64Array(n * k);
+  const a = transposePool.get(n * k);
   for (let i = 0; i < k; i++) for (let j = 0; j < n; j++) a[j * k + i] = rows[i * n + j];
   const vs: Float64Array[] = [];
   for (let c = 0; c < k; c++) {
@@ -36,7 +40,7 @@ export function nullSpaceBasis(rows: Float64Array, k: number, n: number): Float6
   const m = n - k;
   const out = new Float64Array(n * m);
   for (let col = 0; col < m; col++) {
-    const e = new Float64Array(n);
+    const e = columnPool.zeroed(n);
     e[k + col] = 1;
     for (let c = k - 1; c >= 0; c--) {
       const v = vs[c];

@@ -1,6 +1,7 @@
 // Symmetric eigen-decomposition by cyclic Jacobi rotations: orthogonal, and accurate in the relative sense
 // for graded positive semidefinite matrices (capacitances spanning many decades), which is why it is used
 // for the capacitance matrix rather than a tridiagonal QR.
+import { ScratchPool } from './workspace';
 
 export interface SymmetricEigen {
   /** Eigenvalues, largest first. */
@@ -11,9 +12,14 @@ export interface SymmetricEigen {
 
 const MAX_SWEEPS = 60;
 
+const workPool = new ScratchPool();
+const rotationPool = new ScratchPool();
+
 export function symmetricEigen(input: Float64Array, n: number): SymmetricEigen {
-  const a = Float64Array.from(input);
-  const v = new Float64Array(n * n);
+  // The rotated matrix and the accumulated rotations are scratch; values and vectors are fresh arrays.
+  const a = workPool.get(n * n);
+  a.set(input.length === n * n ? input : input.subarray(0, n * n));
+  const v = rotationPool.zeroed(n * n);
   for (let i = 0; i < n; i++) v[i * n + i] = 1;
   const eps = 2.220446049250313e-16;
   for (let sweep = 0; sweep < MAX_SWEEPS; sweep++) {
@@ -60,12 +66,23 @@ export function symmetricEigen(input: Float64Array, n: number): SymmetricEigen {
     }
     if (!rotated) break;
   }
-  const order = Array.from({ length: n }, (_, i) => i).sort((i, j) => a[j * n + j] - a[i * n + i]);
+  // Largest first; a stable insertion sort keeps equal values in index order, as a stable sort would.
+  const order = new Int32Array(n);
+  for (let i = 0; i < n; i++) {
+    const di = a[i * n + i];
+    let j = i;
+    while (j > 0 && a[order[j - 1] * n + order[j - 1]] < di) {
+      order[j] = order[j - 1];
+      j--;
+    }
+    order[j] = i;
+  }
   const values = new Float64Array(n);
   const vectors = new Float64Array(n * n);
-  order.forEach((src, dst) => {
+  for (let dst = 0; dst < n; dst++) {
+    const src = order[dst];
     values[dst] = a[src * n + src];
     for (let k = 0; k < n; k++) vectors[k * n + dst] = v[k * n + src];
-  });
+  }
   return { values, vectors };
 }
