@@ -25,8 +25,11 @@ export interface PoleZeroGain {
 /** A Markov parameter or d below this, relative to its own scale, is treated as exactly zero. */
 const NEGLIGIBLE = 1e-10;
 
-const toComplex = (re: Float64Array, im: Float64Array): Complex[] =>
-  Array.from(re, (x, i) => ({ re: x, im: im[i] }));
+function toComplex(re: Float64Array, im: Float64Array): Complex[] {
+  const out: Complex[] = new Array(re.length);
+  for (let i = 0; i < re.length; i++) out[i] = { re: re[i], im: im[i] };
+  return out;
+}
 
 export function polesOf(sys: StateSpace): Complex[] {
   const e = eigenvalues(sys.A, sys.order);
