@@ -338,7 +338,10 @@ export async function startEditor({
       return `${url}/?${q.toString().replace(/\+/g, '%20')}`;
     },
     /** Stops code-server and every process it started (extension hosts, language servers). */
+    /** Set once stop() is called: an exit before that is the editor dying on its own. */
+    stopping: false,
     async stop() {
+      editor.stopping = true;
       if (child.exitCode !== null || child.signalCode !== null) return;
       killGroup(child.pid, 'SIGTERM');
       const done = await Promise.race([exited.then(() => true), delay(5000).then(() => false)]);

@@ -126,6 +126,7 @@ async function main() {
     env: { AMPNOTE_EDITOR_SUITE: suite.config },
   });
   running.push(editor);
+  watchEditor(editor, 'dev');
   console.log(`  code-server on ${editor.url}`);
   const browser = await launchBrowser(join(editorDir, 'xdg', 'browser'));
   running.push({ stop: () => browser.close() });
@@ -187,6 +188,7 @@ async function main() {
     env: { AMPNOTE_EDITOR_SUITE: suite.config },
   });
   running.push(packaged);
+  watchEditor(packaged, 'packaged');
   // Tests run only in a development window; a manifest-only extension opens one without shadowing the
   // installed package, which is what the smoke suite then exercises.
   suite.writeConfig('smoke');
@@ -209,6 +211,26 @@ async function main() {
       await page.context().close();
     }
   }
+}
+
+/**
+ * Keeps code-server's own output beside the screenshots, and says at once when it exits before the run
+ * stops it (every check after that would fail for that one reason).
+ */
+function watchEditor(editor, label) {
+  editor.process.once('exit', (code, signal) => {
+    if (!editor.stopping) {
+      console.log(
+        `  !! code-server (${label}) exited on its own: ${signal ?? `exit ${code}`} at ${elapsed()} s`,
+      );
+      console.log(editor.output().slice(-2000).replace(/^/gm, '     | '));
+    }
+    writeOutput(`code-server-${label}.log`, `exit: ${signal ?? code}\n${editor.output()}`);
+  });
+}
+
+function elapsed() {
+  return ((Date.now() - started) / 1000).toFixed(1);
 }
 
 /** Loads the workbench with extensionTestsPath and counts each check the suite reports. */
