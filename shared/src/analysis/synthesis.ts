@@ -254,7 +254,7 @@ export function solveRzToCancelPole(model: DesignModel, millerIndex: number): Sy
   // ln(|z|/|p2|) for the lowest left-half-plane real zero; +large when there is none (zero at or beyond ∞).
   const f = (rz: number) => {
     const r = core(withValue(model, target, rz));
-    if (!r || r.open.poles.length < 2 || isComplex(r.open.poles[1])) return NaN;
+    if (!r || r.open.poles.length < 2) return NaN;
     const lhp = r.open.zeros.filter((z) => z.im === 0 && z.re < 0).map(mag);
     if (lhp.length === 0) return 50;
     return Math.log(Math.min(...lhp) / mag(r.open.poles[1]));
@@ -263,6 +263,12 @@ export function solveRzToCancelPole(model: DesignModel, millerIndex: number): Sy
   const value = firstBracketedRoot(f, grid, (a, b) => a > 0 && b <= 0);
   if (value !== undefined) {
     const r = core(withValue(model, target, value));
+    if (r && isComplex(r.open.poles[1])) {
+      return {
+        ok: false,
+        reason: 'where the zero meets the first non-dominant pole, that pole is one of a complex pair',
+      };
+    }
     const z = r?.open.zeros.filter((s) => s.im === 0 && s.re < 0).map(mag) ?? [];
     return {
       ok: true,

@@ -3,10 +3,11 @@
 import type { DesignAnalysis, SynthesisResult } from '../analysis/types';
 import { formatSi, roundSignificant } from '../format/si';
 import { parseDocument } from '../language';
-import type { DesignModel, DesignSource, FieldOrigin, Origin } from '../language/model';
+import type { DesignModel, DesignSource, FieldOrigin, Origin, Requirement } from '../language/model';
 import type { SourcePosition } from '../language/source';
 import type { CornerRun } from '../report';
 import type { CheckEngine, CheckInput } from './context';
+import { measure } from './measure';
 import type { FixSuggestion, TextEditSpec } from './types';
 
 /**
@@ -100,9 +101,48 @@ export function solvedFix(input: CheckInput, spec: SolvedFixSpec): FixSuggestion
     if (!edits || !edits.length) return undefined;
     const runs = rerunEdited(input.source, edits, engine);
     if (!runs || !runs.every((run) => spec.meets(run.analysis, run, candidate))) continue;
-    return { title: spec.title(text), edits, ...(spec.preferred ? { preferred: true } : {}) };
+    // A fix that meets its own rule but breaks another stated requirement is still offered, because it may
+    // be the trade the designer wants, but its title says what it costs.
+    const broken = newlyBroken(input.runs, runs);
+    const title = broken.length ? `${spec.title(text)} — but ${broken.join('; ')}` : spec.title(text);
+    return { title, edits, ...(spec.preferred ? { preferred: true } : {}) };
   }
   return undefined;
+}
+
+/** Requirements whose measure a fix's re-analysis can judge (it computes no step response). */
+const JUDGED_AFTER_FIX = new Set<Requirement['kind']>([
+  'ugf',
+  'pm',
+  'gain-margin',
+  'zero',
+  'dc-gain',
+  'slew',
+]);
+
+/** Stated requirements met in every run before the edit that some run of the edited design fails. */
+export function newlyBroken(before: readonly CornerRun[], after: readonly CornerRun[]): string[] {
+  const out: string[] = [];
+  const reqs = after[0]?.model.requirements ?? [];
+  reqs.forEach((req, i) => {
+    if (!JUDGED_AFTER_FIX.has(req.kind)) return;
+    const metBefore = before.every((run) => {
+      const r = run.model.requirements[i];
+      return r !== undefined && r.kind === req.kind && measure(r, run.analysis).pass;
+    });
+    if (!metBefore) return;
+    for (const run of after) {
+      const r = run.model.requirements[i];
+      if (!r) continue;
+      const m = measure(r, run.analysis);
+      if (!m.pass) {
+        const where = run.corner === 'nominal' ? '' : ` in corner ${run.corner}`;
+        out.push(`${m.label} becomes ${m.measured}${where} (required ${m.required})`);
+        return;
+      }
+    }
+  });
+  return out;
 }
 
 /** Offsets of each line's start in `text` (line breaks \n, \r\n and \r). */
