@@ -3,6 +3,7 @@ import Ajv from 'ajv';
 import addFormats from 'ajv-formats';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { sarifLog } from '../../shared/src/cli/formatSarif';
 import { analyzeDocument } from '../../shared/src/service';
@@ -15,7 +16,9 @@ const ajv = new Ajv({ allErrors: true, strict: false });
 addFormats(ajv);
 const validate = ajv.compile(schema);
 const report = analyzeDocument(readFileSync(join(FIXTURES, 'marginal.ampnote'), 'utf8'));
-const ctx = { version: '9.9.9', cwd: '/work/space', docsUri: 'file:///opt/ampnote/docs/checks.md' };
+// A working folder inside the checkout (never created: the writer only builds URIs from it).
+const cwd = join(ROOT, 'test-output', 'sarif-space');
+const ctx = { version: '9.9.9', cwd, docsUri: pathToFileURL(join(ROOT, 'docs', 'checks.md')).href };
 
 describe('sarifLog', () => {
   it('percent-encodes paths relative to SRCROOT and uses absolute file URIs outside it', () => {
@@ -31,10 +34,10 @@ describe('sarifLog', () => {
     );
     expect(validate(log), JSON.stringify(validate.errors)).toBe(true);
     const run = log.runs[0]!;
-    expect(run.originalUriBaseIds).toEqual({ SRCROOT: { uri: 'file:///work/space/' } });
+    expect(run.originalUriBaseIds).toEqual({ SRCROOT: { uri: `${pathToFileURL(cwd).href}/` } });
     expect(run.artifacts!.map((a) => a.location)).toEqual([
       { uri: 'my%20designs/a%20b%231.ampnote', uriBaseId: 'SRCROOT' },
-      { uri: 'file:///work/elsewhere/c.ampnote' },
+      { uri: pathToFileURL(join(ROOT, 'test-output', 'elsewhere', 'c.ampnote')).href },
     ]);
     expect(
       run.invocations![0]!.toolExecutionNotifications![0]!.locations![0]!.physicalLocation!.artifactLocation,

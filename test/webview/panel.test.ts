@@ -2,7 +2,8 @@
 // hold must be the engine's numbers, markers must sit where the analysis puts them, user text stays text,
 // and the page runs under its strict Content-Security-Policy without a single violation.
 import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseDocument } from '../../shared/src/language';
 import { analyzeDesign, sweepCompensation } from '../../shared/src/analysis';
@@ -63,7 +64,11 @@ function exampleCases(): Case[] {
   return files.flatMap((f) => casesFrom(f, `file://${join(dir, f)}`, readFileSync(join(dir, f), 'utf8')));
 }
 
-const fixture = casesFrom('fixture', 'file:///work/fixture/webview.ampnote', TWO_STAGE);
+const fixture = casesFrom(
+  'fixture',
+  pathToFileURL(resolve('test/webview/fixture/webview.ampnote')).href,
+  TWO_STAGE,
+);
 const cases: Case[] = [...fixture, ...exampleCases()];
 
 function panelData(
@@ -591,7 +596,7 @@ describe('interaction', () => {
   it('lists the modelling problems the engine reports, with empty charts and no script error', async () => {
     const [broken] = casesFrom(
       'broken',
-      'file:///work/fixture/broken.ampnote',
+      pathToFileURL(resolve('test/webview/fixture/broken.ampnote')).href,
       `design floating_node
   node a
   stage first gm = 100 uS rout = 1 Mohm cap = 100 fF
