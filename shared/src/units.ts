@@ -20,3 +20,6 @@ export type Ratio = Si<'1'>;
 
 /** Tag a plain number with its SI unit. The only place a brand is created from nothing. */
 export const si = <T extends Si<string>>(value: number): T => value as T;
+
+/** The magnitude of a voltage gain in decibels, 20·log10|A| (−∞ for a zero gain). */
+export const gainDb = (gain: number): Decibels => si<Decibels>(20 * Math.log10(Math.abs(gain)));

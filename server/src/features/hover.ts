@@ -11,6 +11,7 @@ import { designAt } from '../../../shared/src/service';
 import { toRange } from '../convert';
 import { nominal, poleText, polesOf, requirementAcrossRuns, sortedByHz, zeroText } from './describe';
 import { statementAt, targetAt, type Target } from './target';
+import { gainDb } from '../../../shared/src/units';
 
 const UNIT_OF_DIMENSION: Record<string, string> = {
   ohm: 'ohm',
@@ -191,7 +192,7 @@ function body(design: DesignReport, target: Target): string[] | undefined {
       const loop = run.analysis.loop;
       lines.push(
         `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, phase margin ${loop.phaseMarginDeg !== undefined ? `${loop.phaseMarginDeg.toFixed(1)}°` : '—'}, ` +
-          `gain margin ${loop.gainMarginDb !== undefined ? `${loop.gainMarginDb.toFixed(1)} dB` : '—'}, DC gain ${(20 * Math.log10(Math.abs(run.analysis.dcGain))).toFixed(1)} dB`,
+          `gain margin ${loop.gainMarginDb !== undefined ? `${loop.gainMarginDb.toFixed(1)} dB` : '—'}, DC gain ${gainDb(run.analysis.dcGain).toFixed(1)} dB`,
       );
       const w = design.worst;
       if (design.runs.length > 1) {

@@ -4,6 +4,7 @@ import type { DesignSource } from '../language/model';
 import type { CornerRun, Worst, WorstCase } from '../report';
 import type { CancelToken } from './types';
 import { analyzeDesign, type AnalyzeOptions } from './analyzeDesign';
+import { gainDb } from '../units';
 
 export function analyzeCorners(
   source: DesignSource,
@@ -63,7 +64,7 @@ export function worstCase(runs: readonly CornerRun[]): WorstCase {
   );
   set(
     'dcGainDb',
-    pick((r) => 20 * Math.log10(Math.abs(r.analysis.dcGain)), true),
+    pick((r) => gainDb(r.analysis.dcGain), true),
   );
   return worst;
 }

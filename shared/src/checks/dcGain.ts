@@ -3,14 +3,13 @@ import { formatDb } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
 import { requirementOf, violates } from './locate';
-
-export const dcGainDb = (gain: number): number => 20 * Math.log10(Math.abs(gain));
+import { gainDb } from '../units';
 
 export const dcGainCheck: Check = (input: CheckInput) =>
   acrossRuns(input, 'dc-gain', (run): Hit[] => {
     const req = requirementOf(run.model, 'dc-gain');
     if (!req) return [];
-    const db = dcGainDb(run.analysis.dcGain);
+    const db = gainDb(run.analysis.dcGain);
     if (!violates(req.op, db, req.value)) return [];
     return [
       {

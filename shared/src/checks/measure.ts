@@ -4,6 +4,7 @@ import { formatDb, formatDeg, formatHz, formatSi } from '../format/si';
 import type { Requirement } from '../language/model';
 import { violates } from './locate';
 import { settlingTimeFor } from './settling';
+import { gainDb } from '../units';
 
 export interface Measurement {
   /** What the requirement is about, for people (`phase margin`). */
@@ -102,7 +103,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       };
     }
     case 'dc-gain': {
-      const v = 20 * Math.log10(Math.abs(a.dcGain));
+      const v = gainDb(a.dcGain);
       return {
         label: 'open-loop DC gain',
         measured: formatDb(v),

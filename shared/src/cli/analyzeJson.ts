@@ -7,6 +7,7 @@ import type { CornerRun, DesignReport, DocumentReport, Worst, WorstCase } from '
 import { CAUTION } from '../protocol/panelData';
 import { findingJson, placeJson, SCHEMA_VERSION, type FindingJson, type PlaceJson } from './formatJson';
 import { findingsOfDesign, sortedFindings } from './run';
+import { gainDb } from '../units';
 
 type Num = number | null;
 
@@ -101,7 +102,7 @@ export interface AnalyzeJson {
 }
 
 const num = (x: number | undefined): Num => (x !== undefined && Number.isFinite(x) ? x : null);
-const db = (vv: number): Num => num(20 * Math.log10(Math.abs(vv)));
+const db = (vv: number): Num => num(gainDb(vv));
 const gain = (vv: number): GainJson => ({ vv: num(vv), db: db(vv) });
 
 export function cornerJson(run: CornerRun): CornerJson {

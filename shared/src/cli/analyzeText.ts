@@ -5,8 +5,9 @@ import { CAUTION } from '../protocol/panelData';
 import type { Finding } from '../checks/types';
 import type { CornerRun, DesignReport, DocumentReport, Worst } from '../report';
 import { formatFindingText } from './formatText';
-import { dbOf, dbText, errorText, radText, rootText, slewText } from './display';
+import { dbText, errorText, radText, rootText, slewText } from './display';
 import { findingsOfDesign, sortedFindings } from './run';
+import { gainDb } from '../units';
 
 const DASH = '—';
 
@@ -53,9 +54,9 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
   const opt = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? DASH : show(x));
   const tol = runs[0]?.analysis.step?.tolerance;
   return [
-    row('open-loop DC gain', (a) => `${dbText(dbOf(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`),
+    row('open-loop DC gain', (a) => `${dbText(gainDb(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`),
     row('open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)),
-    row('loop DC gain', (a) => dbText(dbOf(a.loop.dcGain))),
+    row('loop DC gain', (a) => dbText(gainDb(a.loop.dcGain))),
     row('loop UGF', (a) => opt(a.loop.ugfHz, formatHz)),
     row('phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)),
     row('gain margin', (a) => opt(a.loop.gainMarginDb, dbText)),

@@ -3,8 +3,6 @@ import { formatDb, formatHz, formatSi, roundSignificant } from '../format/si';
 
 const TWO_PI = 2 * Math.PI;
 
-export const dbOf = (vv: number): number => 20 * Math.log10(Math.abs(vv));
-
 /** dB text that reads right at zero gain too (`−∞ dB`, not `-Infinity dB`). */
 export const dbText = (db: number): string =>
   Number.isFinite(db) ? formatDb(db) : `${db > 0 ? '' : '−'}∞ dB`;

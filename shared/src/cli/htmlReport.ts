@@ -7,8 +7,9 @@ import { formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
 import { CAUTION, type PanelData } from '../protocol/panelData';
 import type { DesignAnalysis } from '../analysis/types';
 import type { CornerRun, DesignReport, Worst } from '../report';
-import { dbOf, dbText, errorText, radText, rootText, slewText } from './display';
+import { dbText, errorText, radText, rootText, slewText } from './display';
 import { sortedFindings } from './run';
+import { gainDb } from '../units';
 
 export interface ReportDesign {
   readonly report: DesignReport;
@@ -236,7 +237,7 @@ function keyValues(a: DesignAnalysis, r: DesignReport): string {
     ['Unity-gain frequency', opt(a.loop.ugfHz, formatHz), worst(r.worst.ugfHz, formatHz)],
     ['Phase margin', opt(a.loop.phaseMarginDeg, formatDeg), worst(r.worst.phaseMarginDeg, formatDeg)],
     ['Gain margin', opt(a.loop.gainMarginDb, dbText), worst(r.worst.gainMarginDb, dbText)],
-    ['Open-loop DC gain', dbText(dbOf(a.dcGain)), worst(r.worst.dcGainDb, dbText)],
+    ['Open-loop DC gain', dbText(gainDb(a.dcGain)), worst(r.worst.dcGainDb, dbText)],
     ['Slew rate', opt(a.slew?.rate, slewText), worst(r.worst.slew, slewText)],
     [
       a.step ? `Settling to ±${roundSignificant(a.step.tolerance * 100)} %` : 'Settling',
@@ -262,7 +263,7 @@ function cornerTable(runs: readonly CornerRun[]): string {
           : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'} ${formatHz(c.hz)}`).join(', '),
     ],
     ['closed-loop peaking', (a) => dbText(a.loop.peakingDb)],
-    ['open-loop DC gain', (a) => dbText(dbOf(a.dcGain))],
+    ['open-loop DC gain', (a) => dbText(gainDb(a.dcGain))],
     ['open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)],
     ['slew rate', (a) => opt(a.slew?.rate, slewText)],
     ['settling', (a) => (a.step ? opt(a.step.settlingTime, (t) => formatSi(t, 's')) : '—')],

@@ -12,6 +12,7 @@ import {
   type PanelData,
   type SliderRange,
 } from '../protocol/panelData';
+import { gainDb } from '../units';
 
 export interface PanelOptions {
   /** Slider overrides of the swept compensation element (F, ohm); `rz = 0` removes the nulling resistor. */
@@ -219,7 +220,7 @@ export function buildPanelData(
       locus: { poles: [], zeros: [] },
       bode: { hz: [], magDb: [], phaseDeg: [], crossings: [] },
       step: { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
-      summary: { dcGainDb: 20 * Math.log10(Math.abs(analysis.dcGain)) },
+      summary: { dcGainDb: gainDb(analysis.dcGain) },
       problems: analysis.problems.map((p) =>
         p.node && !p.message.includes(`'${p.node}'`) ? `${p.message} (node ${p.node})` : p.message,
       ),
@@ -284,7 +285,7 @@ export function buildPanelData(
       ugfHz: analysis.loop.ugfHz,
       phaseMarginDeg: analysis.loop.phaseMarginDeg,
       gainMarginDb: analysis.loop.gainMarginDb,
-      dcGainDb: 20 * Math.log10(Math.abs(analysis.dcGain)),
+      dcGainDb: gainDb(analysis.dcGain),
       slewVperUs: analysis.slew ? analysis.slew.rate / 1e6 : undefined,
     },
     problems: [],

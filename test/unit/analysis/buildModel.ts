@@ -185,3 +185,18 @@ export function quadraticRoots(a: number, b: number, c: number): { re: number; i
 }
 
 export const relErr = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
+
+/** A chain of one-pole sections: gm_i into R_i ∥ C_i, each driven by the previous node. */
+export function chain(sections: { gm: number; r: number; c: number; inverting?: boolean }[], beta = 1) {
+  return buildModel({
+    stages: sections.map((s, i) => ({
+      name: `s${i + 1}`,
+      input: i === 0 ? 'in' : `s${i}`,
+      gm: s.gm,
+      rout: s.r,
+      cap: s.c,
+      inverting: s.inverting,
+    })),
+    beta,
+  });
+}

@@ -3,24 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { analyzeDesign, loopResponse, loopResponsePz } from '../../../shared/src/analysis';
 import { unityCrossings, logGrid } from '../../../shared/src/analysis/loop';
 import { magnitudeSquared, unwrappedPhaseDeg } from '../../../shared/src/analysis/frequency';
-import { buildModel, relErr } from './buildModel';
+import { chain, relErr } from './buildModel';
 
 const deg = (r: number) => (r * 180) / Math.PI;
-
-/** A chain of ideal one-pole sections: gm_i into R_i ∥ C_i, each driven by the previous node. */
-function chain(sections: { gm: number; r: number; c: number; inverting?: boolean }[], beta = 1) {
-  return buildModel({
-    stages: sections.map((s, i) => ({
-      name: `s${i + 1}`,
-      input: i === 0 ? 'in' : `s${i}`,
-      gm: s.gm,
-      rout: s.r,
-      cap: s.c,
-      inverting: s.inverting,
-    })),
-    beta,
-  });
-}
 
 describe('loop metrics', () => {
   it('one pole: UGF = p·√(L0² − 1), PM = 180° − atan√(L0² − 1), no phase crossover', () => {

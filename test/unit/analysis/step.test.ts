@@ -1,20 +1,7 @@
 // Closed-loop step response against the textbook first- and second-order forms.
 import { describe, expect, it } from 'vitest';
 import { analyzeDesign } from '../../../shared/src/analysis';
-import { buildModel, relErr } from './buildModel';
-
-function chain(sections: { gm: number; r: number; c: number }[], beta = 1) {
-  return buildModel({
-    stages: sections.map((s, i) => ({
-      name: `s${i + 1}`,
-      input: i === 0 ? 'in' : `s${i}`,
-      gm: s.gm,
-      rout: s.r,
-      cap: s.c,
-    })),
-    beta,
-  });
-}
+import { chain, relErr } from './buildModel';
 
 describe('step response', () => {
   it('first order: y = F(1 − e^(−pt)), settling time ln(1/tol)/p with p = (1 + L0)/(RC)', () => {
