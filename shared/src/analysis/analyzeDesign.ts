@@ -8,6 +8,7 @@ import { checkPole, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
 import { slewEstimate } from './slew';
 import { handEstimates } from './handEstimates';
+import { judgeStability } from './stability';
 
 export interface AnalyzeOptions {
   /** Settling band as a fraction of the final value (default: the design's `settle` requirement, else 0.1 %). */
@@ -107,6 +108,7 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     hand: handEstimates(model, r.open.poles, r.open.zeros),
     problems: [],
     closedLoopPoles: r.closedPoles,
+    stability: judgeStability(r.closedPoles, r.open.poles),
     ...(warnings.length > 0 ? { warnings } : {}),
   };
   return analysis;

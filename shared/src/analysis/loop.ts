@@ -5,6 +5,7 @@
 import type { Complex, Crossing, LoopMetrics } from './types';
 import { lowFrequencySign, unwrappedPhaseDeg, type PoleZeroForm } from './frequency';
 import { brentRoot, goldenMax } from '../numeric/roots';
+import { wrapDeg } from './stability';
 
 const POINTS_PER_DECADE = 10;
 
@@ -42,7 +43,8 @@ export function frequencySpan(
   // near min·√|H(0)² − 1|: start low enough to see it.
   let lo = min / 100;
   for (const m of dcMagnitudes) {
-    if (!Number.isFinite(m) || m === 0) continue;
+    // A DC magnitude within rounding of 1 has no crossing worth seeing (see dcRoundingCrossing).
+    if (!Number.isFinite(m) || m === 0 || Math.abs(m - 1) <= DC_UNITY_ROUNDING) continue;
     const near = Math.sqrt(Math.abs(m * m - 1));
     if (near < 1) lo = Math.min(lo, (min * Math.max(near, 1e-6)) / 100);
   }
@@ -379,17 +381,49 @@ export interface LoopInput {
   readonly light?: boolean;
 }
 
+/** A loop gain this close to 1 at DC is unity to the precision of the network solve. */
+const DC_UNITY_ROUNDING = 1e-9;
+
+/**
+ * True for a crossing that only the rounding of a DC gain of exactly 1 puts there: below a thousandth of
+ * the lowest root every factor |jω − r| is within 1e-6 of its DC value, so only a DC gain within rounding
+ * of unity can cross there, and that crossing says nothing about the loop.
+ */
+function dcRoundingCrossing(omega: number, dcLoop: number, pz: PoleZeroForm, tiny: number): boolean {
+  if (Math.abs(dcLoop - 1) > DC_UNITY_ROUNDING) return false;
+  let lowest = Infinity;
+  for (const r of [...pz.poles, ...pz.zeros]) {
+    const m = Math.hypot(r.re, r.im);
+    if (m > tiny && m < lowest) lowest = m;
+  }
+  return omega < 1e-3 * lowest;
+}
+
 export function loopMetrics(input: LoopInput): LoopMetrics {
   const { open, beta, sign, grid, tiny } = input;
   const loop: PoleZeroForm = { ...open, k: open.k * beta * sign };
   const dcLoop = Math.abs(beta * input.dcGain);
-  const crossings: Crossing[] = crossingsOf(input.samples, beta * beta).map((c) => ({
-    hz: c.omega / (2 * Math.PI),
-    direction: c.down ? 'down' : 'up',
-    phaseDeg: unwrappedPhaseDeg(loop, c.omega, tiny),
-  }));
+  const crossings: Crossing[] = crossingsOf(input.samples, beta * beta)
+    .filter((c) => !dcRoundingCrossing(c.omega, dcLoop, open, tiny))
+    .map((c) => ({
+      hz: c.omega / (2 * Math.PI),
+      direction: c.down ? 'down' : 'up',
+      phaseDeg: unwrappedPhaseDeg(loop, c.omega, tiny),
+    }));
   let lastDown: Crossing | undefined;
-  for (const c of crossings) if (c.direction === 'down') lastDown = c;
+  let firstDown: Crossing | undefined;
+  for (const c of crossings) {
+    if (c.direction !== 'down') continue;
+    lastDown = c;
+    firstDown ??= c;
+  }
+  // The margin is read at every crossing of the unit circle, and the smallest one is the loop's: with a
+  // single crossing this is the usual phase margin.
+  let pm: { deg: number; hz: number } | undefined;
+  for (const c of crossings) {
+    const deg = wrapDeg(180 + c.phaseDeg);
+    if (!pm || deg < pm.deg) pm = { deg, hz: c.hz };
+  }
   const wpc = input.light ? undefined : phaseCrossover(loop, grid, tiny);
   const gainMarginDb =
     wpc === undefined
@@ -399,7 +433,9 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
     dcGain: dcLoop,
     crossings,
     ugfHz: lastDown?.hz,
-    phaseMarginDeg: lastDown ? 180 + lastDown.phaseDeg : undefined,
+    lowestUgfHz: firstDown?.hz,
+    phaseMarginDeg: pm?.deg,
+    phaseMarginHz: pm?.hz,
     gainMarginDb,
     phaseCrossoverHz: wpc === undefined ? undefined : wpc / (2 * Math.PI),
     peakingDb: input.light ? 0 : closedLoopPeakingDb(input),

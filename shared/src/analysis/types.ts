@@ -63,8 +63,18 @@ export interface LoopMetrics {
   readonly crossings: readonly Crossing[];
   /** The last downward crossing: the loop's unity-gain frequency. Absent when |L| never reaches 1. */
   readonly ugfHz?: number;
-  /** 180° + phase at the last downward crossing. */
+  /**
+   * The lowest downward crossing: equal to `ugfHz` unless the loop gain crosses unity more than once. A
+   * requirement for a minimum UGF is judged on this one, the conservative reading.
+   */
+  readonly lowestUgfHz?: number;
+  /**
+   * Phase margin in (−180°, 180°]: 180° + phase at each unity crossing, wrapped, and the smallest over
+   * every crossing (the conservative reading when there are several).
+   */
   readonly phaseMarginDeg?: number;
+  /** The crossing at which `phaseMarginDeg` is read (Hz). */
+  readonly phaseMarginHz?: number;
   /** −|L| in dB where the phase crosses −180° (the lowest such frequency). Absent when it never does. */
   readonly gainMarginDb?: number;
   readonly phaseCrossoverHz?: number;
@@ -115,6 +125,24 @@ export interface AnalysisProblem {
   readonly node?: string;
 }
 
+/**
+ * Stability of the closed loop judged from its own poles, whatever the margins say. `marginal`: a pole on
+ * the imaginary axis to working precision (a sustained oscillation, or a pole at the origin that lets the
+ * output drift).
+ */
+export type Stability =
+  | { readonly verdict: 'stable'; readonly openLoopRhpPoles: number }
+  | {
+      readonly verdict: 'unstable' | 'marginal';
+      /** The closed-loop poles in the right half-plane (or on the axis for `marginal`), upper half only. */
+      readonly poles: readonly Complex[];
+      /**
+       * Poles of the open loop in the right half-plane. When there are any, margins read from a Bode plot
+       * do not decide stability (the Nyquist criterion needs the encirclements, not the crossing).
+       */
+      readonly openLoopRhpPoles: number;
+    };
+
 export interface DesignAnalysis {
   readonly poles: readonly Pole[];
   readonly zeros: readonly Zero[];
@@ -131,6 +159,8 @@ export interface DesignAnalysis {
   readonly problems: readonly AnalysisProblem[];
   /** Poles of the closed loop σA/(1 + βσA), sorted by magnitude (rad/s). */
   readonly closedLoopPoles?: readonly Complex[];
+  /** From `closedLoopPoles`; absent when the closed loop was not computed. */
+  readonly stability?: Stability;
   /** Roots that did not pass the check against the network (the results are still given). */
   readonly warnings?: readonly string[];
 }

@@ -23,7 +23,7 @@ export const approximationCheck: Check = (input: CheckInput) =>
           `${Number.isFinite(h.hand) ? formatHz(h.hand / (2 * Math.PI)) : '∞'}; the exact value is ` +
           `${formatHz(h.exact / (2 * Math.PI))} (${(h.relativeError * 100).toFixed(0)} % off): ` +
           'design with the exact value, the nodes share this root',
-        range: compensationRange(input.source, primaryCompensation(run.model)),
+        range: compensationRange(input.source, primaryCompensation(run.model), run),
         related: [],
         badness: h.relativeError,
       })),

@@ -20,7 +20,7 @@ export const complexPolesCheck: Check = (input: CheckInput) =>
     (run): Hit[] => {
       if (!judgedAsLoop(run.model)) return [];
       const hits: Hit[] = [];
-      const range = compensationRange(input.source, primaryCompensation(run.model));
+      const range = compensationRange(input.source, primaryCompensation(run.model), run);
       const nondominant = sortedPoles(run.analysis.poles).slice(1);
       const pair = nondominant
         .filter((p) => p.s.im > 0 && p.damping < input.settings.complexDamping)

@@ -19,7 +19,7 @@ export const gainMarginCheck: Check = (input) =>
       const req = requirementOf(run.model, 'gain-margin');
       const op = req?.op ?? '>=';
       const required = req?.value ?? input.settings.gainMargin;
-      const range = compensationRange(input.source, primaryCompensation(run.model));
+      const range = compensationRange(input.source, primaryCompensation(run.model), run);
       const related = defined([
         req
           ? { range: req.origin.range, message: `required gain margin ${op} ${formatDb(required)}` }

@@ -16,6 +16,7 @@ import { rhpZeroCheck } from './rhpZero';
 import { secondStageBandwidthCheck } from './secondStageBandwidth';
 import { settlingCheck } from './settling';
 import { slewRateCheck } from './slewRate';
+import { stabilityCheck } from './stability';
 import type { CheckCode, Finding } from './types';
 import { unityGainCheck } from './unityGain';
 
@@ -24,6 +25,7 @@ export type { Check, CheckEngine, CheckInput, CompensationTarget } from './conte
 /** Every design rule with its code, in the order findings are listed. */
 export const ALL_CHECKS: readonly (readonly [CheckCode, Check])[] = [
   ['plausibility', plausibilityCheck],
+  ['stability', stabilityCheck],
   ['phase-margin', phaseMarginCheck],
   ['gain-margin', gainMarginCheck],
   ['ugf', unityGainCheck],

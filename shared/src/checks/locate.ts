@@ -12,6 +12,7 @@ import type {
   Stage,
 } from '../language/model';
 import type { SourceRange } from '../language/source';
+import type { DesignAnalysis } from '../analysis/types';
 
 export type Compensation =
   | { readonly kind: 'miller'; readonly index: number; readonly item: Miller }
@@ -53,9 +54,30 @@ export function fieldRange(origin: Origin, name: string): SourceRange {
   return origin.fields[name]?.range ?? origin.range;
 }
 
-/** The place for a finding about the whole compensation, or the design's name when there is none. */
-export function compensationRange(source: DesignSource, comp: Compensation | undefined): SourceRange {
-  return comp ? fieldRange(comp.item.origin, 'cc') : source.nameRange;
+/**
+ * The place for a finding about the whole loop: the compensation capacitor when there is one; else the
+ * element that sets the dominant pole (the load or stage at the node that takes the largest part in the
+ * lowest pole: a loop compensated at its output is changed there); the design's name only when the
+ * analysis names no such element.
+ */
+export function compensationRange(
+  source: DesignSource,
+  comp: Compensation | undefined,
+  run?: { readonly model: DesignModel; readonly analysis: DesignAnalysis },
+): SourceRange {
+  if (comp) return fieldRange(comp.item.origin, 'cc');
+  const origin = run && dominantPoleElement(run.model, run.analysis);
+  return origin ? fieldRange(origin, 'cap') : source.nameRange;
+}
+
+/** The statement (a load or a stage) at the node that takes the largest part in the lowest pole. */
+export function dominantPoleElement(model: DesignModel, analysis: DesignAnalysis): Origin | undefined {
+  const lowest = sortedPoles(analysis.poles)[0];
+  const node = lowest?.participation[0]?.node;
+  if (node === undefined) return undefined;
+  const load = model.loads.find((l) => l.node === node && l.cap !== undefined);
+  if (load) return load.origin;
+  return model.stages.find((s) => s.name === node)?.origin;
 }
 
 /** Poles sorted by magnitude, lowest first. */

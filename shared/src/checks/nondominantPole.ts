@@ -46,7 +46,7 @@ export const nondominantPoleCheck: Check = (input: CheckInput) =>
           message:
             `Non-dominant pole at ${formatHz(p2.hz)} is only ${+(p2.hz / ugf).toPrecision(3)} × the UGF ` +
             `(${formatHz(ugf)}); it should lie at or above ${factor} × UGF (${formatHz(factor * ugf)})`,
-          range: compensationRange(input.source, comp),
+          range: compensationRange(input.source, comp, run),
           related: p2.participation.length
             ? [
                 {

@@ -28,18 +28,21 @@ export const phaseMarginCheck: Check = (input: CheckInput) =>
       const { op, value } = requiredPhaseMargin(run.model, input.settings.phaseMargin);
       if (!violates(op, pm, value)) return [];
       const comp = primaryCompensation(run.model);
-      const unstable = pm <= 0;
+      // The closed loop's own poles say whether it is unstable; a margin at or below 0° says so only when
+      // the open loop has no right-half-plane poles (the stability rule reports the rest).
+      const stability = run.analysis.stability;
+      const unstable = stability ? stability.verdict === 'unstable' : pm <= 0;
       const bound = op === '>=' ? 'below the required' : 'above the allowed';
       const origin = req ? 'required' : 'default';
       return [
         {
           key: 'pm',
-          severity: unstable || req ? 'error' : 'warning',
+          severity: unstable || pm <= 0 || req ? 'error' : 'warning',
           message:
             `Phase margin ${formatDeg(pm)} at the unity-gain frequency ${formatHz(ugf)} is ${bound} ` +
             `${formatDeg(value)}${req ? '' : ' (default)'}` +
             (unstable ? ': the closed loop is unstable' : ''),
-          range: compensationRange(input.source, comp),
+          range: compensationRange(input.source, comp, run),
           related: defined([
             req
               ? { range: req.origin.range, message: `${origin} phase margin ${op} ${formatDeg(value)}` }

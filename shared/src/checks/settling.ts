@@ -35,7 +35,7 @@ export const settlingCheck: Check = (input: CheckInput) =>
             ? `The step response does not settle into ±${pct} within the computed span (required ${formatSi(req.within, 's')})`
             : `Settling to ±${pct} takes ${formatSi(ts, 's')}, longer than the required ${formatSi(req.within, 's')}` +
               (step.overshootPct > 0 ? ` (overshoot ${step.overshootPct.toFixed(1)} %)` : ''),
-        range: compensationRange(input.source, primaryCompensation(run.model)),
+        range: compensationRange(input.source, primaryCompensation(run.model), run),
         related: [
           {
             range: req.origin.range,

@@ -3,6 +3,7 @@ import type { SourceRange } from '../language/source';
 
 /** Stable codes: reviewers' tools and the docs rely on them. Never rename one. */
 export const CHECK_CODES = [
+  'stability',
   'phase-margin',
   'gain-margin',
   'rhp-zero',

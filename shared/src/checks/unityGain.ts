@@ -21,7 +21,7 @@ export const unityGainCheck: Check = (input: CheckInput) =>
           ugf === undefined
             ? `The loop gain never reaches 0 dB, so there is no unity-gain frequency (required ${req.op} ${formatHz(req.value)})`
             : `Unity-gain frequency ${formatHz(ugf)} misses the required ${req.op} ${formatHz(req.value)}`,
-        range: compensationRange(input.source, comp),
+        range: compensationRange(input.source, comp, run),
         related: [
           { range: req.origin.range, message: `required UGF ${req.op} ${formatHz(req.value)}` },
           ...(first && gm1

@@ -9,6 +9,11 @@ export interface RuleInfo {
 }
 
 export const RULES: Readonly<Record<CheckCode, RuleInfo>> = {
+  stability: {
+    name: 'ClosedLoopStability',
+    short: 'Closed loop unstable, or stable only conditionally',
+    help: 'Judged from the closed-loop poles themselves, whatever the margins read: a closed-loop pole in the right half-plane is an error, one on the imaginary axis a sustained oscillation. When the open loop has right-half-plane poles of its own (a local loop with positive feedback, often a polarity slip), margins read from a Bode plot do not decide stability.',
+  },
   'phase-margin': {
     name: 'PhaseMargin',
     short: 'Phase margin below the requirement',
