@@ -6,6 +6,7 @@
 import { parseDocument } from './language';
 import { lexLine } from './language/lexer';
 import type { ParsedDocument } from './language/model';
+import { firstLine, lineStarts } from './text/lines';
 
 export interface Piece {
   readonly text: string;
@@ -15,37 +16,28 @@ export interface Piece {
 
 const DESIGN_LINE = /[ \t]*design(?![A-Za-z0-9_\u00b5\u03bc\u03a9\u2126])/y;
 
-/** Cut `text` before each line whose first token is `design` (line breaks \n, \r\n and \r, as the parser). */
+/** Cut `text` before each line whose first token is `design` (lines as the parser counts them). */
 export function splitAtDesigns(text: string): Piece[] {
   const pieces: Piece[] = [];
+  const starts = lineStarts(text);
   let pieceStart = 0;
   let pieceLine = 0;
-  let line = 0;
-  let i = 0;
-  while (i < text.length) {
-    const c = text.charCodeAt(i);
-    if (c !== 10 && c !== 13) {
-      i++;
-      continue;
-    }
-    i = c === 13 && text.charCodeAt(i + 1) === 10 ? i + 2 : i + 1;
-    line++;
-    if (opensDesign(text, i)) {
-      pieces.push({ text: text.slice(pieceStart, i), startLine: pieceLine });
-      pieceStart = i;
-      pieceLine = line;
-    }
+  for (let line = 1; line < starts.length; line++) {
+    const at = starts[line]!;
+    if (!opensDesign(text.slice(at, starts[line + 1] ?? text.length))) continue;
+    pieces.push({ text: text.slice(pieceStart, at), startLine: pieceLine });
+    pieceStart = at;
+    pieceLine = line;
   }
   pieces.push({ text: text.slice(pieceStart), startLine: pieceLine });
   return pieces;
 }
 
-function opensDesign(text: string, at: number): boolean {
-  DESIGN_LINE.lastIndex = at;
-  if (!DESIGN_LINE.test(text)) return false;
-  let end = at;
-  while (end < text.length && text.charCodeAt(end) !== 10 && text.charCodeAt(end) !== 13) end++;
-  const first = lexLine(text.slice(at, end), 0).tokens[0];
+/** Whether `line` (a line with its line break) opens a design, as the parser reads it. */
+function opensDesign(line: string): boolean {
+  DESIGN_LINE.lastIndex = 0;
+  if (!DESIGN_LINE.test(line)) return false;
+  const first = lexLine(firstLine(line), 0).tokens[0];
   return first?.kind === 'ident' && first.text === 'design';
 }
 

@@ -24,6 +24,7 @@ import { createParseCache } from './incrementalParse';
 import type { DesignModel, DesignSource, ParsedDocument } from './language/model';
 import type { SourcePosition, SourceRange } from './language/source';
 import type { CornerRun, DesignReport, DocumentReport } from './report';
+import { splitLines } from './text/lines';
 
 /** The analysis engine as the checks use it to solve and re-check fixes. */
 export const ENGINE: CheckEngine = {
@@ -285,7 +286,7 @@ export function compensationEdits(
 /** Remove ` name = value` whose value occupies `value` (found in the design's own text). */
 function removeFieldEdit(source: DesignSource, value: SourceRange, name: string): TextEditSpec | undefined {
   if (value.start.line !== value.end.line) return undefined;
-  const line = source.text.split('\n')[value.start.line - source.range.start.line];
+  const line = splitLines(source.text).lines[value.start.line - source.range.start.line];
   if (line === undefined) return undefined;
   const offset = value.start.line === source.range.start.line ? source.range.start.character : 0;
   const before = line.slice(0, value.start.character - offset);

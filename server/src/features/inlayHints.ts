@@ -3,12 +3,14 @@
 import { InlayHintKind, type InlayHint, type Range } from 'vscode-languageserver';
 import type { TextDocument } from 'vscode-languageserver-textdocument';
 import type { DocumentReport } from '../../../shared/src/report';
+import { firstLine } from '../../../shared/src/text/lines';
 import { rangesMeet } from '../convert';
 import { nominal, poleText, requirementAcrossRuns, shownPoles, sortedByHz, zeroText } from './describe';
 
+/** The end of `line`, before its line break (whichever of \n, \r\n or \r it is). */
 function endOfLine(document: TextDocument, line: number) {
   const text = document.getText({ start: { line, character: 0 }, end: { line: line + 1, character: 0 } });
-  return { line, character: text.replace(/\r?\n$/, '').length };
+  return { line, character: firstLine(text).length };
 }
 
 export function inlayHints(report: DocumentReport, document: TextDocument, range: Range): InlayHint[] {

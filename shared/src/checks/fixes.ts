@@ -6,6 +6,7 @@ import { parseDocument } from '../language';
 import type { DesignModel, DesignSource, FieldOrigin, Origin, Requirement } from '../language/model';
 import type { SourcePosition } from '../language/source';
 import type { CornerRun } from '../report';
+import { lineStarts } from '../text/lines';
 import type { CheckEngine, CheckInput } from './context';
 import { measure } from './measure';
 import type { FixSuggestion, TextEditSpec } from './types';
@@ -143,17 +144,6 @@ export function newlyBroken(before: readonly CornerRun[], after: readonly Corner
     }
   });
   return out;
-}
-
-/** Offsets of each line's start in `text` (line breaks \n, \r\n and \r). */
-function lineStarts(text: string): number[] {
-  const starts = [0];
-  for (let i = 0; i < text.length; i++) {
-    const c = text.charCodeAt(i);
-    if (c === 13 && text.charCodeAt(i + 1) === 10) i++;
-    if (c === 10 || c === 13) starts.push(i + 1);
-  }
-  return starts;
 }
 
 /** The design's text with `edits` (document positions) applied; undefined when an edit lies outside it. */

@@ -6,6 +6,7 @@ import { formatHz } from '../format/si';
 import { formatRootHz } from '../format/root';
 import type { DesignModel, Origin } from '../language/model';
 import type { CornerRun } from '../report';
+import { splitLines } from '../text/lines';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
 import { rerunEdited } from './fixes';
@@ -156,7 +157,7 @@ function polarityEdit(
   origin: Origin,
   polarity: 'inverting' | 'noninverting',
 ): TextEditSpec | undefined {
-  const line = text.split(/\r\n|\r|\n/)[origin.range.start.line - firstLine];
+  const line = splitLines(text).lines[origin.range.start.line - firstLine];
   if (line === undefined) return undefined;
   const from = origin.range.start.character;
   const to = origin.insertAt.line === origin.range.start.line ? origin.insertAt.character : line.length;

@@ -7,31 +7,13 @@ import type { DesignSource, ParsedDocument } from './model';
 import { parseStatement } from './parseStatement';
 import { editDistance, STATEMENT_KEYWORDS } from './vocabulary';
 import type { SourceRange } from './source';
+import { splitLines } from '../text/lines';
 import type { DesignSyntax, Statement } from './syntax';
 
 /** `ed`, `edn`, `ned`: one edit away from `end`, or its letters swapped. */
 const nearEnd = (w: string): boolean => editDistance(w, 'end') <= 1 || [...w].sort().join('') === 'den';
 
 const isKeyword = (w: string): boolean => (STATEMENT_KEYWORDS as readonly string[]).includes(w);
-
-/** Splits on \n, \r\n and \r, as the editor does. */
-function splitLines(text: string): { lines: string[]; offsets: number[] } {
-  const lines: string[] = [];
-  const offsets: number[] = [];
-  let start = 0;
-  for (let i = 0; i < text.length; i++) {
-    const c = text.charCodeAt(i);
-    if (c === 10 || c === 13) {
-      lines.push(text.slice(start, i));
-      offsets.push(start);
-      if (c === 13 && text.charCodeAt(i + 1) === 10) i++;
-      start = i + 1;
-    }
-  }
-  lines.push(text.slice(start));
-  offsets.push(start);
-  return { lines, offsets };
-}
 
 interface OpenDesign {
   readonly keyword: Token;
