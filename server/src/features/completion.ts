@@ -12,12 +12,11 @@ import {
   STATEMENT_KEYWORDS,
   UNIT_SPELLINGS,
 } from '../../../shared/src/language';
+import { endsAfterNumber } from '../../../shared/src/language/lexer';
 import type { SourcePosition } from '../../../shared/src/language/source';
 import { DIM, lookupUnit, sameDimension } from '../../../shared/src/language/unitTable';
 import type { DocumentReport } from '../../../shared/src/report';
 import { designAt } from '../../../shared/src/service';
-
-const AFTER_NUMBER = /(?<![A-Za-z_µΩ\d.])(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?\s*[A-Za-zµΩ%/]*$/;
 
 const keyword = (label: string, detail?: string): CompletionItem => ({
   label,
@@ -38,7 +37,7 @@ export function completion(
   const design = designAt(report, position);
 
   // After a number (`1.1 `, `1.1p`), not after a name that ends in a digit (`gm1 `): units.
-  if (AFTER_NUMBER.test(before)) {
+  if (endsAfterNumber(before)) {
     // Units of the field's own dimension first (`cc = 1.2 ` → farads), then the rest.
     const field = /\b([A-Za-z_]\w*)\s*=\s*[^=]*$/.exec(before)?.[1];
     const dim = field ? FIELD_DIMENSIONS[field] : undefined;

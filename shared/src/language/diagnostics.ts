@@ -41,6 +41,10 @@ export class DiagnosticSink implements Reporter {
 
 export const quote = (s: string): string => `\`${s}\``;
 
+/** Quotes text the user typed that may be arbitrarily long (a 100 000-digit number), keeping messages short. */
+export const quoteShort = (s: string, max = 24): string =>
+  quote(s.length > max ? `${s.slice(0, max - 1)}…` : s);
+
 const within = (r: SourceRange, outer: SourceRange): boolean =>
   (r.start.line > outer.start.line ||
     (r.start.line === outer.start.line && r.start.character >= outer.start.character)) &&

@@ -1,21 +1,19 @@
-// Expressions: a small recursive-descent parser over + - * / ^ and parentheses, numbers with SI prefixes
-// and units, and parameter references; and an evaluator that carries a dimension with every value.
+// Expressions: a small recursive-descent parser over + - || * / ^, parentheses, function calls, numbers with
+// their units (see unitLiteral.ts) and parameter references. Evaluation is in evaluateExpression.ts.
 import { quote, type Reporter } from './diagnostics';
+import { closest } from './vocabulary';
+import {
+  FUNCTION_NAMES,
+  FUNCTION_SIGNATURES,
+  isFunctionName,
+  type FunctionName,
+} from './expressionFunctions';
 import { spanRange, tokenRange, type Token } from './lexer';
 import type { SourceRange } from './source';
-import {
-  DIMENSIONLESS,
-  describeDimension,
-  divDim,
-  isDimensionless,
-  lookupUnit,
-  mulDim,
-  scaleLiteral,
-  powDim,
-  sameDimension,
-  unitsLike,
-  type Dimension,
-} from './unitTable';
+import { parseLiteral, skipUnit } from './unitLiteral';
+import type { Dimension } from './unitTable';
+
+export type BinaryOp = '+' | '-' | '*' | '/' | '^' | '||';
 
 export type Expr =
   | {
@@ -24,6 +22,7 @@ export type Expr =
       readonly value: number;
       readonly dim: Dimension;
       readonly numberText: string;
+      /** The unit as written, without spaces (`pF`, `uA/V^2`, `/V`). */
       readonly unitText?: string;
       readonly range: SourceRange;
     }
@@ -32,9 +31,15 @@ export type Expr =
   | { readonly kind: 'group'; readonly inner: Expr; readonly range: SourceRange }
   | {
       readonly kind: 'binary';
-      readonly op: '+' | '-' | '*' | '/' | '^';
+      readonly op: BinaryOp;
       readonly left: Expr;
       readonly right: Expr;
+      readonly range: SourceRange;
+    }
+  | {
+      readonly kind: 'call';
+      readonly fn: FunctionName;
+      readonly args: readonly Expr[];
       readonly range: SourceRange;
     }
   /** A part already reported as an error (bad number, unknown unit): evaluates to nothing, silently. */
@@ -109,8 +114,8 @@ export function parseExpression(c: Cursor, ctx: ExpressionContext): Expr | undef
 }
 
 /**
- * Every operator and parenthesis spends one unit, so an expression tree is never deeper than this and
- * neither parsing nor evaluating it can exhaust the stack, whatever the text.
+ * Every operator, parenthesis and argument separator spends one unit, so an expression tree is never deeper
+ * than this and neither parsing nor evaluating it can exhaust the stack, whatever the text.
  */
 const MAX_OPERATORS = 400;
 let budget = MAX_OPERATORS;
@@ -131,13 +136,26 @@ function operand(c: Cursor, ctx: ExpressionContext, after: Token, parse: () => E
   return { kind: 'invalid', range: tokenRange(after) };
 }
 
+// Precedence, loosest first: + -, then || (so `a / b || c / d` is (a/b) || (c/d) and `r1 || r2 + r3` is
+// (r1 || r2) + r3), then * /, then unary minus, then ^.
 function parseSum(c: Cursor, ctx: ExpressionContext): Expr {
-  let left = parseProduct(c, ctx);
+  let left = parseParallel(c, ctx);
   while (c.isOp('+') || c.isOp('-')) {
     const op = c.next()!;
     spend(op);
-    const right = operand(c, ctx, op, () => parseProduct(c, ctx));
+    const right = operand(c, ctx, op, () => parseParallel(c, ctx));
     left = { kind: 'binary', op: op.text as '+' | '-', left, right, range: join(left.range, right.range) };
+  }
+  return left;
+}
+
+function parseParallel(c: Cursor, ctx: ExpressionContext): Expr {
+  let left = parseProduct(c, ctx);
+  while (c.isOp('||')) {
+    const op = c.next()!;
+    spend(op);
+    const right = operand(c, ctx, op, () => parseProduct(c, ctx));
+    left = { kind: 'binary', op: '||', left, right, range: join(left.range, right.range) };
   }
   return left;
 }
@@ -181,8 +199,11 @@ function parsePrimary(c: Cursor, ctx: ExpressionContext): Expr {
     skipUnit(c, ctx);
     return { kind: 'invalid', range: tokenRange(t) };
   }
-  if (t.kind === 'number') return parseUnit(c, ctx, t);
-  if (t.kind === 'ident') return { kind: 'ref', name: t.text, range: tokenRange(t) };
+  if (t.kind === 'number') return parseLiteral(c, ctx, t);
+  if (t.kind === 'ident') {
+    if (c.isOp('(')) return parseCall(c, ctx, t);
+    return { kind: 'ref', name: t.text, range: tokenRange(t) };
+  }
   // `(`
   spend(t);
   const inner = operand(c, ctx, t, () => parseSum(c, ctx));
@@ -194,173 +215,70 @@ function parsePrimary(c: Cursor, ctx: ExpressionContext): Expr {
   return { kind: 'invalid', range: join(tokenRange(t), inner.range) };
 }
 
-/** After a bad number, a unit that follows belongs to it; swallow it so it is not reported again. */
-function skipUnit(c: Cursor, ctx: ExpressionContext): void {
-  const u = c.peek();
-  if (u?.kind === 'ident' && !ctx.stopWords.has(u.text) && !c.isOp('=', 1)) c.next();
-  else if (c.isOp('%') || c.isOp('\u00b0')) c.next();
+/** `name(arg, …)`: a known function, or a reported mistake whose arguments are still read (and checked). */
+function parseCall(c: Cursor, ctx: ExpressionContext, name: Token): Expr {
+  const open = c.next()!;
+  spend(open);
+  const args: Expr[] = [operand(c, ctx, open, () => parseSum(c, ctx))];
+  while (c.isOp(',')) {
+    const comma = c.next()!;
+    spend(comma);
+    args.push(operand(c, ctx, comma, () => parseSum(c, ctx)));
+  }
+  if (!c.isOp(')')) {
+    ctx.sink.error('syntax', 'Missing `)` to close this `(`.', tokenRange(open));
+    return { kind: 'invalid', range: join(tokenRange(name), args[args.length - 1]!.range) };
+  }
+  const range = spanRange(name, c.next()!);
+  if (!isFunctionName(name.text)) {
+    const near = closest(name.text, FUNCTION_NAMES);
+    ctx.sink.error(
+      'syntax',
+      `Unknown function ${quote(name.text)}.${near ? ` Did you mean ${quote(near)}?` : ''} The functions are ${FUNCTION_NAMES.join(', ')}; to multiply, write ${quote(`${name.text} * (…)`)}.`,
+      tokenRange(name),
+    );
+    return { kind: 'invalid', range };
+  }
+  const sig = FUNCTION_SIGNATURES[name.text];
+  if (args.length < sig.min || args.length > sig.max) {
+    const want = sig.min === sig.max ? 'one value' : `${sig.min} or more values`;
+    ctx.sink.error('syntax', `${quote(name.text)} takes ${want}: ${quote(sig.usage)}.`, range);
+    return { kind: 'invalid', range };
+  }
+  return { kind: 'call', fn: name.text, args, range };
 }
 
-function parseUnit(c: Cursor, ctx: ExpressionContext, num: Token): Expr {
-  const value = Number(num.text);
-  const plain: Expr = {
-    kind: 'number',
-    value,
-    dim: DIMENSIONLESS,
-    numberText: num.text,
-    range: tokenRange(num),
-  };
-  const u = c.peek();
-  if (!u) return plain;
-  if (u.kind === 'op' && (u.text === '%' || u.text === '\u00b0')) {
-    c.next();
-    const info = lookupUnit(u.text)!;
-    return {
-      ...plain,
-      value: scaleLiteral(num.text, info.exp10),
-      dim: info.dim,
-      unitText: u.text,
-      range: spanRange(num, u),
-    };
-  }
-  if (u.kind !== 'ident') return plain;
-  const info = lookupUnit(u.text);
-  if (!info) {
-    // A word right after a number is its unit, unless it is the next field, a flag, or a name being
-    // assigned (`gm1 = 1, load.cap = …` in a corner).
-    if (ctx.stopWords.has(u.text) || c.isOp('=', 1) || c.isOp('.', 1)) return plain;
-    c.next();
-    const like = unitsLike(u.text);
-    const hint =
-      u.text === 'ugf'
-        ? ` Write ${quote(`${num.text} * ugf`)}.`
-        : like.length
-          ? ` Did you mean ${like.map(quote).join(' or ')}?`
-          : lookupUnit(u.text.replace(/^./, ''))
-            ? ` ${quote(u.text[0]!)} is not an SI prefix (a f p n u µ m k M G T).`
-            : '';
-    ctx.sink.error('unit', `Unknown unit ${quote(u.text)}.${hint}`, tokenRange(u));
-    return { kind: 'invalid', range: spanRange(num, u) };
-  }
-  c.next();
-  let unitText = u.text;
-  let exp10 = info.exp10;
-  let dim = info.dim;
-  let last = u;
-  // A compound unit is written without spaces: `V/us`, `A/V`.
-  const slash = c.peek();
-  const den = c.peek(1);
-  if (
-    slash?.kind === 'op' &&
-    slash.text === '/' &&
-    slash.start === u.end &&
-    den?.kind === 'ident' &&
-    den.start === slash.end
-  ) {
-    const denInfo = lookupUnit(den.text);
-    if (!denInfo || isDimensionless(denInfo.dim)) {
-      c.next();
-      c.next();
-      ctx.sink.error(
-        'unit',
-        `Unknown unit ${quote(den.text)} in ${quote(`${u.text}/${den.text}`)}.`,
-        tokenRange(den),
-      );
-      return { kind: 'invalid', range: spanRange(num, den) };
-    }
-    c.next();
-    c.next();
-    unitText = `${u.text}/${den.text}`;
-    exp10 -= denInfo.exp10;
-    dim = divDim(dim, denInfo.dim);
-    last = den;
-  }
-  return {
-    kind: 'number',
-    value: scaleLiteral(num.text, exp10),
-    dim,
-    numberText: num.text,
-    unitText,
-    range: spanRange(num, last),
-  };
-}
-
-export interface Quantity {
-  readonly value: number;
-  readonly dim: Dimension;
-}
-
-/** Resolves a name to its value; returns `undefined` after reporting (or when already reported). */
-export type Resolver = (name: string, range: SourceRange) => Quantity | undefined;
-
-/** Evaluates an expression; `undefined` means an error was reported somewhere inside. */
-export function evaluate(e: Expr, resolve: Resolver, sink: Reporter): Quantity | undefined {
+/** Calls `visit` on every node of the expression, parents before children. */
+export function walkExpr(e: Expr, visit: (e: Expr) => void): void {
+  visit(e);
   switch (e.kind) {
-    case 'number':
-      return { value: e.value, dim: e.dim };
-    case 'invalid':
-      return undefined;
-    case 'ref':
-      return resolve(e.name, e.range);
-    case 'group':
-      return evaluate(e.inner, resolve, sink);
-    case 'neg': {
-      const v = evaluate(e.operand, resolve, sink);
-      return v && { value: -v.value, dim: v.dim };
-    }
-    case 'binary': {
-      const a = evaluate(e.left, resolve, sink);
-      const b = evaluate(e.right, resolve, sink);
-      if (!a || !b) return undefined;
-      switch (e.op) {
-        case '+':
-        case '-':
-          if (!sameDimension(a.dim, b.dim)) {
-            const verb = e.op === '+' ? 'add' : 'subtract';
-            sink.error(
-              'unit',
-              `Cannot ${verb} ${describeDimension(b.dim)} ${e.op === '+' ? 'to' : 'from'} ${describeDimension(a.dim)}.`,
-              e.range,
-            );
-            return undefined;
-          }
-          return { value: e.op === '+' ? a.value + b.value : a.value - b.value, dim: a.dim };
-        case '*':
-          return { value: a.value * b.value, dim: mulDim(a.dim, b.dim) };
-        case '/':
-          return { value: a.value / b.value, dim: divDim(a.dim, b.dim) };
-        case '^':
-          if (!isDimensionless(b.dim)) {
-            sink.error(
-              'unit',
-              `An exponent must be a plain number, not ${describeDimension(b.dim)}.`,
-              e.right.range,
-            );
-            return undefined;
-          }
-          return { value: a.value ** b.value, dim: powDim(a.dim, b.value) };
-      }
-    }
-  }
-}
-
-/** Calls `visit` on every name reference in the expression. */
-export function forEachRef(e: Expr, visit: (name: string, range: SourceRange) => void): void {
-  switch (e.kind) {
-    case 'ref':
-      visit(e.name, e.range);
-      return;
     case 'neg':
-      forEachRef(e.operand, visit);
+      walkExpr(e.operand, visit);
       return;
     case 'group':
-      forEachRef(e.inner, visit);
+      walkExpr(e.inner, visit);
       return;
     case 'binary':
-      forEachRef(e.left, visit);
-      forEachRef(e.right, visit);
+      walkExpr(e.left, visit);
+      walkExpr(e.right, visit);
       return;
-    default:
+    case 'call':
+      for (const a of e.args) walkExpr(a, visit);
       return;
+    case 'number':
+    case 'ref':
+    case 'invalid':
+      return;
+    default: {
+      const never: never = e;
+      return never;
+    }
   }
+}
+
+/** Calls `visit` on every name reference in the expression (a function's name is not a reference). */
+export function forEachRef(e: Expr, visit: (name: string, range: SourceRange) => void): void {
+  walkExpr(e, (x) => {
+    if (x.kind === 'ref') visit(x.name, x.range);
+  });
 }

@@ -39,7 +39,7 @@ const IDENT_PART = {
 };
 const DIGIT = { test: (ch: string): boolean => ch.length > 0 && isDigitCode(ch.charCodeAt(0)) };
 const NUMBER = /(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?/y;
-const TWO_CHAR_OPS = new Set(['->', '>=', '<=']);
+const TWO_CHAR_OPS = new Set(['->', '>=', '<=', '||']);
 const ONE_CHAR_OPS = new Set(['=', ',', '+', '-', '*', '/', '^', '(', ')', '.', '%', '>', '<', '\u00b0']);
 
 export function lexLine(text: string, line: number): LexedLine {
@@ -105,6 +105,12 @@ export function lexLine(text: string, line: number): LexedLine {
       i++;
       continue;
     }
+    if (c === '\u2225') {
+      // The parallel sign reads as `||`.
+      push('op', i, i + 1, '||');
+      i++;
+      continue;
+    }
     if (c === '\u00d7' || c === '\u00b7') {
       push('op', i, i + 1, '*');
       i++;
@@ -125,6 +131,27 @@ export function lexLine(text: string, line: number): LexedLine {
 }
 
 export const tokenRange = (t: Token): SourceRange => t.range;
+
+// Letters a unit may be typed with, and `/` and `%`: what may follow a number while its unit is typed.
+const isUnitChar = (c: number): boolean =>
+  (c >= 65 && c <= 90) || (c >= 97 && c <= 122) || c === 0xb5 || c === 0x3a9 || c === 0x2f || c === 0x25;
+
+/**
+ * True when `before` (a line up to the cursor) ends in a number, then optional spaces, then possibly the
+ * start of a unit (`1.1 `, `1.1p`, `6 V/u`), not a name that ends in a digit (`gm1 `). Made with the lexer,
+ * so it takes time linear in the line however long its number is.
+ */
+export function endsAfterNumber(before: string): boolean {
+  let end = before.length;
+  while (end > 0 && isUnitChar(before.charCodeAt(end - 1))) end--;
+  while (end > 0 && /\s/.test(before[end - 1]!)) end--;
+  // Lex only the last word (and the number's sign or operator before it): enough to see a number token.
+  let from = end;
+  while (from > 0 && !/\s/.test(before[from - 1]!)) from--;
+  const tokens = lexLine(before.slice(from, end), 0).tokens;
+  const last = tokens[tokens.length - 1];
+  return last !== undefined && last.kind === 'number' && last.end === end - from;
+}
 
 /** The range from the start of `a` to the end of `b` (both on the same line). */
 export const spanRange = (a: Token, b: Token): SourceRange =>

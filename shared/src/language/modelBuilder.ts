@@ -4,7 +4,8 @@
 import { si, type Amperes, type Farads, type Ohms } from '../units';
 import { CornerReporter, quote, type Reporter } from './diagnostics';
 import { node, type DesignScope, type StatementOf } from './designScope';
-import { evaluate, forEachRef, type Expr, type Quantity } from './expression';
+import { evaluate, type Quantity, type Related } from './evaluateExpression';
+import { forEachRef, walkExpr, type Expr } from './expression';
 import { spanRange, tokenRange, type Token } from './lexer';
 import type {
   BufferedCap,
@@ -22,7 +23,7 @@ import type {
   Stage,
 } from './model';
 import type { Overrides } from './overrides';
-import { checkValue, type ValueRole, type ViaParam } from './plausibility';
+import { checkValue, type ViaParam } from './plausibility';
 import type { SourceRange } from './source';
 import type { Statement } from './syntax';
 import {
@@ -35,6 +36,7 @@ import {
   type Dimension,
   type NamedDimension,
 } from './unitTable';
+import type { ValueRole } from './valueRanges';
 import { closest, REQUIRED_FIELDS, REQUIREMENT_DIMENSIONS } from './vocabulary';
 
 interface Produced {
@@ -167,6 +169,7 @@ export class ModelBuilder {
           'unit',
           `Parameter ${quote(name)} is ${describeDimension(want)}; this corner gives ${describeDimension(q.dim)}.`,
           override.expr.range,
+          this.dimensionSources(override.expr),
         );
         q = undefined;
       }
@@ -206,8 +209,40 @@ export class ModelBuilder {
   eval(expr: Expr, ugfAllowed: boolean): Quantity | undefined {
     // A plain number needs no resolver; and the two resolvers are made once per builder, not per value.
     if (expr.kind === 'number') return { value: expr.value, dim: expr.dim };
-    return evaluate(expr, ugfAllowed ? this.resolveWithUgf : this.resolveValue, this.sink);
+    return evaluate(
+      expr,
+      ugfAllowed ? this.resolveWithUgf : this.resolveValue,
+      this.sink,
+      this.dimensionSources,
+    );
   }
+
+  /**
+   * The literals whose units give an expression its dimension, following parameters (as this evaluation
+   * sees them, overrides included): a dimension error is reported at the use and points at these, since a
+   * wrong unit is usually written somewhere else (`param kp = 50 uA/V` for a kp meant in A/V^2).
+   */
+  readonly dimensionSources = (e: Expr): Related => {
+    const out: Related = [];
+    const seen = new Set<string>();
+    const visit = (x: Expr, param?: string): void =>
+      walkExpr(x, (n) => {
+        if (n.kind === 'number' && n.unitText !== undefined && !isDimensionless(n.dim)) {
+          const text = quote(`${n.numberText} ${n.unitText}`);
+          (out as Related[number][]).push({
+            range: n.range,
+            message: `${text}${param ? ` (in ${quote(param)})` : ''} is ${describeDimension(n.dim)}`,
+          });
+        } else if (n.kind === 'ref' && this.scope.params.has(n.name) && !seen.has(n.name)) {
+          seen.add(n.name);
+          const source =
+            this.overrides.params.get(n.name)?.expr ?? this.scope.params.get(n.name)!.fields[0]?.expr;
+          if (source) visit(source, n.name);
+        }
+      });
+    visit(e);
+    return out;
+  };
 
   private readonly resolveValue = (name: string, range: SourceRange): Quantity | undefined =>
     this.resolve(name, range, false);
@@ -261,6 +296,7 @@ export class ModelBuilder {
         'unit',
         `${quote(displayName)} expects ${describeDimension(want)}, but this is ${describeDimension(q.dim)}.`,
         expr.range,
+        this.dimensionSources(expr).slice(0, 6),
       );
       return fail();
     }

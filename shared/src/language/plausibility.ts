@@ -1,61 +1,17 @@
-// Physical range of each field: values that cannot exist (negative capacitance, zero resistance, NaN) are
-// errors; values many decades off the usual range are warnings, because a missing SI prefix is the usual
-// cause (`cc = 1.2 F` meant `1.2 pF`). The usual ranges are common practice for integrated amplifiers,
-// kept wide enough for board-level loads.
+// The one place that judges a value against its field's range (valueRanges.ts): values that cannot exist
+// (negative capacitance, zero resistance) or that no circuit has (beyond ANALYSABLE_MAGNITUDE) are errors and
+// keep the value from the model; values many decades off the usual range are warnings, because a missing SI
+// prefix is the usual cause (`cc = 1.2 F` meant `1.2 pF`).
 import { formatSi } from '../format/si';
-import { quote, type Reporter } from './diagnostics';
+import { quote, quoteShort, type Reporter } from './diagnostics';
 import type { Expr } from './expression';
 import type { SourceRange } from './source';
 import { PREFIX_SCALES } from './unitTable';
+import { ANALYSABLE_MAGNITUDE, VALUE_RANGES, type ValueRange, type ValueRole } from './valueRanges';
 
-export type ValueRole =
-  | 'gm'
-  | 'gm-buffer'
-  | 'rout'
-  | 'rz'
-  | 'res'
-  | 'cap'
-  | 'cap-board'
-  | 'bias'
-  | 'beta'
-  | 'ugf'
-  | 'pm'
-  | 'gainmargin'
-  | 'dcgain'
-  | 'zero'
-  | 'slew'
-  | 'tolerance'
-  | 'within';
+export type { ValueRole } from './valueRanges';
 
-interface Rule {
-  readonly unit: string;
-  /** Below `low` or above `high` (absolute SI) draws a warning. */
-  readonly low: number;
-  readonly high: number;
-  /** A typical value, to pick the prefix a suggestion uses. */
-  readonly typical: number;
-  readonly what: string;
-}
-
-const RULES: Readonly<Record<ValueRole, Rule>> = {
-  gm: { unit: 'S', low: 1e-9, high: 1, typical: 1e-4, what: 'a transconductance' },
-  'gm-buffer': { unit: 'S', low: 1e-9, high: 1, typical: 1e-4, what: 'a transconductance' },
-  rout: { unit: 'ohm', low: 10, high: 1e12, typical: 1e5, what: 'a stage output resistance' },
-  rz: { unit: 'ohm', low: 1, high: 1e8, typical: 1e3, what: 'a nulling resistor' },
-  res: { unit: 'ohm', low: 1e-3, high: 1e13, typical: 1e4, what: 'a resistance' },
-  cap: { unit: 'F', low: 1e-18, high: 1e-6, typical: 1e-12, what: 'an on-chip capacitance' },
-  'cap-board': { unit: 'F', low: 1e-18, high: 1e-2, typical: 1e-12, what: 'a capacitance' },
-  bias: { unit: 'A', low: 1e-12, high: 10, typical: 1e-5, what: 'a bias current' },
-  beta: { unit: '', low: 1e-9, high: 1, typical: 1, what: 'a feedback factor' },
-  ugf: { unit: 'Hz', low: 1, high: 1e12, typical: 1e7, what: 'a unity-gain frequency' },
-  pm: { unit: 'deg', low: 0, high: 180, typical: 60, what: 'a phase margin' },
-  gainmargin: { unit: 'dB', low: 0, high: 100, typical: 10, what: 'a gain margin' },
-  dcgain: { unit: 'dB', low: -40, high: 250, typical: 80, what: 'a DC gain' },
-  zero: { unit: '', low: 0, high: 1e4, typical: 10, what: 'a zero-to-UGF ratio' },
-  slew: { unit: 'V/s', low: 1e3, high: 1e13, typical: 1e6, what: 'a slew rate' },
-  tolerance: { unit: '', low: 1e-9, high: 0.5, typical: 1e-3, what: 'a settling tolerance' },
-  within: { unit: 's', low: 1e-13, high: 1e3, typical: 1e-6, what: 'a settling time' },
-};
+type Rule = ValueRange;
 
 const SLEW_SPELLINGS: readonly [string, number][] = [
   ['V/s', 1],
@@ -92,16 +48,37 @@ function suggestPrefix(expr: Expr, rule: Rule): string | undefined {
 const show = (v: number, unit: string): string =>
   unit ? formatSi(v, unit) : String(Number(v.toPrecision(3)));
 
-/**
- * Checks one evaluated value; returns false when it is physically impossible (reported as an error), in which
- * case the statement is left out of the model.
- */
+/** A role's usual range as people read it (`1 nS to 1 S`): in messages and in the docs' table. */
+export function usualRange(role: ValueRole): string {
+  const r = VALUE_RANGES[role];
+  return `${show(r.low, r.unit)} to ${show(r.high, r.unit)}`;
+}
+
+/** `1e308 F`: as written for a literal, else the value in exponent form (a prefix would hide its size). */
+function written(value: number, expr: Expr, rule: Rule): string {
+  // A plain literal takes the field's unit, so it is shown with it.
+  const unit = expr.kind === 'number' ? (expr.unitText ?? rule.unit) : rule.unit;
+  if (expr.kind === 'number') return quoteShort(`${expr.numberText}${unit ? ` ${unit}` : ''}`, 40);
+  return `${exponent(value)}${unit ? ` ${unit}` : ''}`;
+}
+
+/** `1e308`, `2.5e-31`: three significant digits in exponent form. */
+const exponent = (v: number): string =>
+  v
+    .toExponential(2)
+    .replace(/\.?0+e/, 'e')
+    .replace('e+', 'e');
+
 /** The parameter a field names, when the field is exactly that parameter and it is set by a literal. */
 export interface ViaParam {
   readonly name: string;
   readonly literal: Expr;
 }
 
+/**
+ * Checks one evaluated value; returns false when it is impossible or beyond analysis (reported as an error),
+ * in which case the statement is left out of the model.
+ */
 export function checkValue(
   role: ValueRole,
   field: string,
@@ -111,7 +88,7 @@ export function checkValue(
   sink: Reporter,
   via?: ViaParam,
 ): boolean {
-  const rule = RULES[role];
+  const rule = VALUE_RANGES[role];
   const name = quote(field);
   if (!Number.isFinite(value)) {
     sink.error(
@@ -121,10 +98,16 @@ export function checkValue(
     );
     return false;
   }
+  const setBy = via ? [{ range: via.literal.range, message: `${quote(via.name)} is set here` }] : undefined;
   const impossible = (message: string): false => {
-    sink.error('plausibility', message, range);
+    sink.error('plausibility', message, range, setBy);
     return false;
   };
+  const magnitude = Math.abs(value);
+  if (value !== 0 && (magnitude < ANALYSABLE_MAGNITUDE.low || magnitude > ANALYSABLE_MAGNITUDE.high))
+    return impossible(
+      `${written(value, via?.literal ?? expr, rule)} is not a plausible ${rule.noun}: values this far beyond any circuit cannot be analysed (magnitudes from ${exponent(ANALYSABLE_MAGNITUDE.low)} to ${exponent(ANALYSABLE_MAGNITUDE.high)} are accepted).`,
+    );
   switch (role) {
     case 'gm':
       if (value < 0)
@@ -194,14 +177,14 @@ export function checkValue(
   const mag = role === 'gainmargin' || role === 'dcgain' ? value : Math.abs(value);
   if (mag < rule.low || mag > rule.high) {
     const suggestion = suggestPrefix(via?.literal ?? expr, rule);
-    const usual = `${show(rule.low, rule.unit)} to ${show(rule.high, rule.unit)}`;
+    const usual = usualRange(role);
     const meant = suggestion && (via ? `${via.name} = ${suggestion}` : suggestion);
     sink.warning(
       'plausibility',
       `${show(value, rule.unit)} is far outside the usual range for ${rule.what} (${usual}).` +
         (meant ? ` A missing prefix? Did you mean ${quote(meant)}?` : ''),
       range,
-      via ? [{ range: via.literal.range, message: `${quote(via.name)} is set here` }] : undefined,
+      setBy,
     );
   }
   return true;

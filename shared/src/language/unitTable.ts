@@ -85,7 +85,8 @@ export interface UnitInfo {
  */
 export function scaleLiteral(literal: string, exp10: number): number {
   const m = /^([^eE]*)(?:[eE]([+-]?\d+))?$/.exec(literal);
-  if (!m) return Number(literal) * 10 ** exp10;
+  // A fractional power of ten (a unit to the power 0.5) has no exact decimal form: scale in floating point.
+  if (!m || !Number.isInteger(exp10)) return Number(literal) * 10 ** exp10;
   const exp = Number(m[2] ?? 0) + exp10;
   return Number(`${m[1]}e${exp}`);
 }
@@ -160,6 +161,8 @@ export const UNIT_SPELLINGS: readonly string[] = [
   'A/V',
   'mA/V',
   'uA/V',
+  'A/V^2',
+  'uA/V^2',
   'V/s',
   'V/ms',
   'V/us',
