@@ -94,8 +94,10 @@ async function applySuggestedCompensation(): Promise<void> {
       range,
       vscode.CodeActionKind.QuickFix.value,
     )) ?? [];
+  // Disabled actions only say why no value meets a rule: nothing to apply.
   const fixes = actions.filter(
-    (a): a is vscode.CodeAction => 'title' in a && !('command' in a && typeof a.command === 'string'),
+    (a): a is vscode.CodeAction =>
+      'title' in a && !('command' in a && typeof a.command === 'string') && !('disabled' in a && a.disabled),
   );
   let chosen = fixes.find((a) => a.isPreferred);
   if (!chosen && fixes.length > 0) {

@@ -2,8 +2,8 @@
 import { formatDb, formatHz } from '../format/si';
 import type { DesignAnalysis } from '../analysis/types';
 import { acrossRuns, type Hit } from './acrossRuns';
-import { ccForMarginFix } from './ccForMargin';
-import { defined } from './fixes';
+import { compensationFixes } from './compensationFixes';
+import type { RuleSlack } from './solveKnob';
 import type { Check, CheckInput } from './context';
 import {
   compensationRange,
@@ -57,13 +57,30 @@ export const complexPolesCheck: Check = (input: CheckInput) =>
       }
       return hits;
     },
-    ({ worstRun }) => defined([ccForMarginFix(input, worstRun, (a) => calm(a, input), 'calmer poles')]),
+    () => compensationFixes(input, calmSlack(input), 'calm enough poles'),
   );
 
-/** No non-dominant pair below the damping limit and no peaking above the limit. */
-function calm(a: DesignAnalysis, input: CheckInput): boolean {
-  const pair = sortedPoles(a.poles)
-    .slice(1)
-    .some((p) => p.s.im > 0 && p.damping < input.settings.complexDamping);
-  return !pair && a.loop.peakingDb <= input.settings.peakingDb;
+/**
+ * How far the run is from ringing: the least damped non-dominant pair's ζ over the limit, and the peaking
+ * limit over the peaking, each as a relative slack; the smaller one decides.
+ */
+function calmSlack(input: CheckInput): RuleSlack {
+  const least = (a: DesignAnalysis) =>
+    sortedPoles(a.poles)
+      .slice(1)
+      .filter((p) => p.s.im > 0)
+      .sort((x, y) => x.damping - y.damping)[0];
+  return {
+    slack: (run) => {
+      const pair = least(run.analysis);
+      const damping = pair ? pair.damping / input.settings.complexDamping - 1 : Infinity;
+      const peaking = 1 - run.analysis.loop.peakingDb / input.settings.peakingDb;
+      return Math.min(damping, peaking);
+    },
+    describe: (run) => {
+      const pair = least(run.analysis);
+      const zeta = pair ? `least damping ζ = ${pair.damping.toFixed(2)}, ` : '';
+      return `${zeta}peaking ${formatDb(run.analysis.loop.peakingDb)}`;
+    },
+  };
 }

@@ -8,6 +8,7 @@ import type { SourcePosition } from '../language/source';
 import type { CornerRun } from '../report';
 import { lineStarts } from '../text/lines';
 import type { CheckEngine, CheckInput } from './context';
+import { knobsOf } from './knobs';
 import { measure } from './measure';
 import type { FixSuggestion, TextEditSpec } from './types';
 
@@ -30,18 +31,19 @@ export function roundedCandidates(value: number, prefer: 'up' | 'down' | 'neares
   return [...new Set(list)].filter((v) => v > 0);
 }
 
-/** The edit that sets a value: of the parameter when the expression is exactly one parameter. */
+/**
+ * The edit that sets a value written as a literal, or as a parameter that holds one (the parameter is
+ * edited). Undefined for a derived value: an expression the designer wrote is never replaced by a number
+ * (a fix changes the literals it is derived from instead; see knobs.ts).
+ */
 export function setValueEdit(
   model: DesignModel,
   value: FieldOrigin,
   newText: string,
 ): TextEditSpec | undefined {
-  if (value.param) {
-    const param = model.params.find((p) => p.name === value.param);
-    const target = param?.origin.fields['value'];
-    return target ? { range: target.range, newText } : undefined;
-  }
-  return { range: value.range, newText };
+  const knobs = knobsOf(model, value, '');
+  const own = knobs.length === 1 && !knobs[0]!.derived ? knobs[0] : undefined;
+  return own ? { range: own.range, newText } : undefined;
 }
 
 /** Set `name` when the statement has it, else insert ` name = text` at the statement's end. */
@@ -54,22 +56,6 @@ export function setOrInsertField(
   const existing = origin.fields[name];
   if (existing) return setValueEdit(model, existing, text);
   return { range: { start: origin.insertAt, end: origin.insertAt }, newText: ` ${name} = ${text}` };
-}
-
-/** Insert a `require` line after the design's last requirement (or before its `end`), same indentation. */
-export function addRequirementEdit(source: DesignSource, model: DesignModel, line: string): TextEditSpec {
-  const statements = [...model.stages, ...model.loads, ...model.millers, ...model.buffered].map(
-    (s) => s.origin,
-  );
-  const indent = statements.length ? statements[0]!.range.start.character : 2;
-  const pad = ' '.repeat(indent);
-  const last = model.requirements[model.requirements.length - 1];
-  if (last) {
-    const at = { line: last.origin.range.start.line + 1, character: 0 };
-    return { range: { start: at, end: at }, newText: `${pad}${line}\n` };
-  }
-  const at = { line: source.range.end.line, character: 0 };
-  return { range: { start: at, end: at }, newText: `${pad}${line}\n` };
 }
 
 export interface SolvedFixSpec {

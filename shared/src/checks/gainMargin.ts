@@ -1,11 +1,10 @@
 // Gain margin where the loop phase reaches −180°, and loops that cross unity more than once.
 import { formatDb, formatHz } from '../format/si';
-import type { DesignAnalysis } from '../analysis/types';
-import type { CornerRun } from '../report';
 import { acrossRuns, type Hit } from './acrossRuns';
-import { ccForMarginFix } from './ccForMargin';
+import { compensationFixes } from './compensationFixes';
+import type { RuleSlack } from './solveKnob';
 import type { Check } from './context';
-import { addRequirementEdit, defined } from './fixes';
+import { defined } from './fixes';
 import { compensationRange, primaryCompensation, requirementOf, violates, judgedAsLoop } from './locate';
 
 export const gainMarginCheck: Check = (input) =>
@@ -55,22 +54,26 @@ export const gainMarginCheck: Check = (input) =>
       }
       return hits;
     },
-    ({ worst, worstRun }) => {
-      if (worst.key !== 'margin') return [];
-      const enough = (a: DesignAnalysis, run: CornerRun) => {
-        const req = requirementOf(run.model, 'gain-margin');
-        const gm = a.loop.gainMarginDb;
-        return gm === undefined || !violates(req?.op ?? '>=', gm, req?.value ?? input.settings.gainMargin);
-      };
-      const line = `require gainmargin >= ${input.settings.gainMargin} dB`;
-      return defined([
-        ccForMarginFix(input, worstRun, enough, 'more gain margin'),
-        requirementOf(worstRun.model, 'gain-margin')
-          ? undefined
-          : {
-              title: `Add \`${line}\` (the default, stated)`,
-              edits: [addRequirementEdit(input.source, worstRun.model, line)],
-            },
-      ]);
-    },
+    ({ worst }) =>
+      worst.key === 'margin'
+        ? compensationFixes(input, gainMarginSlack(input.settings.gainMargin), 'the required gain margin')
+        : [],
   );
+
+/** The gain-margin rule's slack in one run, in dB; a phase that never reaches −180° meets any minimum. */
+export function gainMarginSlack(fallback: number): RuleSlack {
+  return {
+    slack: (run) => {
+      const req = requirementOf(run.model, 'gain-margin');
+      const op = req?.op ?? '>=';
+      const required = req?.value ?? fallback;
+      const gm = run.analysis.loop.gainMarginDb;
+      if (gm === undefined) return op === '>=' ? Infinity : NaN;
+      return op === '>=' ? gm - required : required - gm;
+    },
+    describe: (run) => {
+      const gm = run.analysis.loop.gainMarginDb;
+      return gm === undefined ? 'phase never reaches −180°' : `gain margin ${formatDb(gm)}`;
+    },
+  };
+}

@@ -1,16 +1,26 @@
 // gm2 against gm1 when nothing controls the Miller zero: with Rz = 0, z/GBW = gm2/gm1 (AH).
 import { formatSi } from '../format/si';
-import type { DesignAnalysis } from '../analysis/types';
 import type { CornerRun } from '../report';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { defined, setOrInsertField, setValueEdit, solvedFix } from './fixes';
+import { defined, setOrInsertField, solvedFix } from './fixes';
+import type { RuleSlack } from './solveKnob';
+import { stageGmFixes } from './stageGmFixes';
+import { statedPhaseMarginHolds } from './proxy';
 import { stageAt } from './locate';
-import { offendingRhpZero, zeroFactor } from './rhpZero';
+import { offendingRhpZero, rhpZeroSlack, zeroFactor } from './rhpZero';
 import type { FixSuggestion } from './types';
 
-export const gmRatioCheck: Check = (input: CheckInput) =>
-  acrossRuns(
+export const gmRatioCheck: Check = (input: CheckInput) => {
+  // A rule of thumb for the zero's place: information only when the zero (or the phase margin it
+  // protects) is judged exactly and holds.
+  const factorOf = (run: CornerRun) => zeroFactor(run.model, input.settings.rhpZeroFactor);
+  const proxy =
+    statedPhaseMarginHolds(input) ||
+    input.runs.every(
+      (run) => run.analysis.problems.length > 0 || !offendingRhpZero(run.analysis, factorOf(run)),
+    );
+  return acrossRuns(
     input,
     'gm-ratio',
     (run): Hit[] => {
@@ -28,7 +38,7 @@ export const gmRatioCheck: Check = (input: CheckInput) =>
         const gm1Field = first.stage.origin.fields['gm'];
         hits.push({
           key: `miller${index}`,
-          severity: 'warning',
+          severity: proxy ? 'info' : 'warning',
           message:
             `gm2 = ${formatSi(second.stage.gm, 'S')} is only ${+ratio.toPrecision(3)} × gm1 ` +
             `(${formatSi(first.stage.gm, 'S')}); with no nulling resistor the right-half-plane zero gm2/Cc sits ` +
@@ -45,8 +55,12 @@ export const gmRatioCheck: Check = (input: CheckInput) =>
       });
       return hits;
     },
-    ({ worst, worstRun }) => gmRatioFixes(input, worstRun, Number(worst.key.slice('miller'.length))),
+    ({ worst, worstRun }) =>
+      worst.severity === 'info'
+        ? []
+        : gmRatioFixes(input, worstRun, Number(worst.key.slice('miller'.length))),
   );
+};
 
 function gmRatioFixes(input: CheckInput, worstRun: CornerRun, index: number): FixSuggestion[] {
   const model = worstRun.model;
@@ -56,36 +70,24 @@ function gmRatioFixes(input: CheckInput, worstRun: CornerRun, index: number): Fi
   const second = miller && stageAt(model, miller.to);
   if (!miller || !first || !second) return [];
   const factor = zeroFactor(model, input.settings.rhpZeroFactor);
-  const gmField = nominal.stages[second.index]?.origin.fields['gm'];
-  // The rule holds in the edited design's run: gm2 ≥ ratio·gm1 there, and no RHP zero below k·UGF.
-  const ratioMet = (run: CornerRun, a: DesignAnalysis) => {
-    const f = stageAt(run.model, miller.from);
-    const s2 = stageAt(run.model, miller.to);
-    return (
-      !!f &&
-      !!s2 &&
-      s2.stage.gm >= input.settings.gmRatio * f.stage.gm * (1 - 1e-9) &&
-      !offendingRhpZero(a, factor)
-    );
+  const zero = rhpZeroSlack(input.settings.rhpZeroFactor);
+  // The rule holds in a run when gm2 ≥ ratio·gm1 there and no RHP zero lies below k·UGF.
+  const ratioSlack: RuleSlack = {
+    slack: (run) => {
+      const f = stageAt(run.model, miller.from);
+      const s2 = stageAt(run.model, miller.to);
+      if (!f || !s2) return NaN;
+      const ratio = Math.log(s2.stage.gm / (input.settings.gmRatio * f.stage.gm * (1 - 1e-9)));
+      return Math.min(ratio, zero.slack(run));
+    },
+    describe: (run) => {
+      const f = stageAt(run.model, miller.from);
+      const s2 = stageAt(run.model, miller.to);
+      const ratio = f && s2 ? `gm2 = ${+(s2.stage.gm / f.stage.gm).toPrecision(3)} × gm1, ` : '';
+      return `${ratio}${zero.describe(run)}`;
+    },
   };
-  const raise = gmField
-    ? solvedFix(input, {
-        title: (v) => `Raise gm of stage ${second.stage.name} to ${v}`,
-        // The exact gm2 that puts the zero at k·UGF, but never less than the ratio rule asks.
-        solve: (engine) => {
-          const solved = engine.solveGmForZero(model, second.index, factor);
-          const floor = input.settings.gmRatio * first.stage.gm;
-          return solved.ok
-            ? { ...solved, value: Math.max(solved.value, floor) }
-            : { ok: true, value: floor, achieved: floor, note: solved.reason };
-        },
-        meets: (a, run) => ratioMet(run, a),
-        prefer: 'up',
-        unit: 'S',
-        edits: (v) => defined([setValueEdit(nominal, gmField, v)]),
-        preferred: true,
-      })
-    : undefined;
+  const raise = stageGmFixes(input, second.index, ratioSlack);
   const nominalMiller = nominal.millers[index] ?? miller;
   const rz = solvedFix(input, {
     title: (v) => `Add rz = ${v} (moves the zero to infinity)`,
@@ -95,5 +97,5 @@ function gmRatioFixes(input: CheckInput, worstRun: CornerRun, index: number): Fi
     unit: 'ohm',
     edits: (v) => defined([setOrInsertField(nominal, nominalMiller.origin, 'rz', v)]),
   });
-  return defined([raise, rz]);
+  return [...raise, ...defined([rz])];
 }

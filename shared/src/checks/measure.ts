@@ -26,10 +26,19 @@ const OP = { '>=': '≥', '<=': '≤' } as const;
 export function measure(req: Requirement, a: DesignAnalysis): Measurement {
   switch (req.kind) {
     case 'ugf': {
-      const v = a.loop.ugfHz;
+      // With several downward crossings the conservative reading is the lowest one for a minimum and the
+      // highest for a maximum, and the text names it.
+      const v = req.op === '>=' ? (a.loop.lowestUgfHz ?? a.loop.ugfHz) : a.loop.ugfHz;
+      const several = a.loop.lowestUgfHz !== undefined && a.loop.lowestUgfHz !== a.loop.ugfHz;
+      const which = req.op === '>=' ? 'lowest' : 'highest';
       return {
         label: 'unity-gain frequency',
-        measured: v === undefined ? 'loop gain never reaches 0 dB' : formatHz(v),
+        measured:
+          v === undefined
+            ? 'loop gain never reaches 0 dB'
+            : several
+              ? `${formatHz(v)} (the ${which} of several downward 0 dB crossings)`
+              : formatHz(v),
         required: `${OP[req.op]} ${formatHz(req.value)}`,
         pass: v !== undefined && !violates(req.op, v, req.value),
         ...(v !== undefined

@@ -3,7 +3,9 @@ import type { DesignAnalysis, Pole } from '../analysis/types';
 import { formatHz } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { defined, setValueEdit, solvedFix } from './fixes';
+import { compensationFixes } from './compensationFixes';
+import { PROXY_NOTE, isMillerCompensated, statedPhaseMarginHolds } from './proxy';
+import type { RuleSlack } from './solveKnob';
 import {
   compensationRange,
   participationText,
@@ -28,12 +30,15 @@ export function firstNondominantPole(analysis: DesignAnalysis): Pole | undefined
     );
 }
 
-export const nondominantPoleCheck: Check = (input: CheckInput) =>
-  acrossRuns(
+export const nondominantPoleCheck: Check = (input: CheckInput) => {
+  const proxy = statedPhaseMarginHolds(input);
+  return acrossRuns(
     input,
     'nondominant-pole',
     (run): Hit[] => {
-      if (!judgedAsLoop(run.model)) return [];
+      // A rule of Miller compensation: a loop compensated at its output (a regulator's output capacitor
+      // and its ESR zero) is judged by its margins alone.
+      if (!judgedAsLoop(run.model) || !isMillerCompensated(run.model)) return [];
       const ugf = run.analysis.loop.ugfHz;
       const p2 = firstNondominantPole(run.analysis);
       const factor = input.settings.nondominantFactor;
@@ -42,10 +47,11 @@ export const nondominantPoleCheck: Check = (input: CheckInput) =>
       return [
         {
           key: 'p2',
-          severity: 'warning',
+          severity: proxy ? 'info' : 'warning',
           message:
             `Non-dominant pole at ${formatHz(p2.hz)} is only ${+(p2.hz / ugf).toPrecision(3)} × the UGF ` +
-            `(${formatHz(ugf)}); it should lie at or above ${factor} × UGF (${formatHz(factor * ugf)})`,
+            `(${formatHz(ugf)}); it should lie at or above ${factor} × UGF (${formatHz(factor * ugf)})` +
+            (proxy ? PROXY_NOTE : ''),
           range: compensationRange(input.source, comp, run),
           related: p2.participation.length
             ? [
@@ -59,26 +65,32 @@ export const nondominantPoleCheck: Check = (input: CheckInput) =>
         },
       ];
     },
-    ({ worstRun }) => {
-      const model = worstRun.model;
-      const comp = primaryCompensation(model);
-      const nominal = input.source.nominal ?? model;
-      const ccField = comp ? nominal.millers[comp.index]?.origin.fields['cc'] : undefined;
-      if (comp?.kind !== 'miller' || !ccField) return [];
-      const factor = input.settings.nondominantFactor;
-      return defined([
-        solvedFix(input, {
-          title: (v) => `Set cc = ${v} (smallest Cc with the non-dominant pole at ${factor} × UGF)`,
-          solve: (engine) => engine.solveCcForNondominantPole(model, comp.index, factor),
-          meets: (a) => {
-            const p = firstNondominantPole(a);
-            return a.loop.ugfHz !== undefined && (!p || p.hz >= factor * a.loop.ugfHz);
-          },
-          prefer: 'up',
-          unit: 'F',
-          edits: (v) => defined([setValueEdit(nominal, ccField, v)]),
-          preferred: true,
-        }),
-      ]);
-    },
+    ({ worst }) =>
+      worst.severity === 'info'
+        ? []
+        : compensationFixes(
+            input,
+            nondominantSlack(input.settings.nondominantFactor),
+            'the non-dominant pole placement',
+          ),
   );
+};
+
+/** ln(p2 / (factor · UGF)): ≥ 0 where the first non-dominant pole lies at or above factor × UGF. */
+function nondominantSlack(factor: number): RuleSlack {
+  return {
+    slack: (run) => {
+      const ugf = run.analysis.loop.ugfHz;
+      if (ugf === undefined) return NaN;
+      const p = firstNondominantPole(run.analysis);
+      return p ? Math.log(p.hz / (factor * ugf)) : Infinity;
+    },
+    describe: (run) => {
+      const ugf = run.analysis.loop.ugfHz;
+      const p = firstNondominantPole(run.analysis);
+      return ugf === undefined || !p
+        ? 'no non-dominant pole below the crossover'
+        : `non-dominant pole at ${+(p.hz / ugf).toPrecision(3)} × UGF`;
+    },
+  };
+}

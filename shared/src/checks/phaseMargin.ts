@@ -3,9 +3,10 @@ import { formatDeg, formatHz } from '../format/si';
 import type { DesignModel } from '../language/model';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { addRequirementEdit, defined, setValueEdit, solvedFix } from './fixes';
+import { defined } from './fixes';
+import { compensationFixes } from './compensationFixes';
+import type { RuleSlack } from './solveKnob';
 import { compensationRange, primaryCompensation, requirementOf, violates, judgedAsLoop } from './locate';
-import type { FixSuggestion } from './types';
 
 export function requiredPhaseMargin(
   model: DesignModel,
@@ -52,38 +53,21 @@ export const phaseMarginCheck: Check = (input: CheckInput) =>
         },
       ];
     },
-    ({ worstRun }) => {
-      const model = worstRun.model;
-      const comp = primaryCompensation(model);
-      const fixes: (FixSuggestion | undefined)[] = [];
-      if (comp?.kind === 'miller' && requiredPhaseMargin(model, input.settings.phaseMargin).op === '>=') {
-        const target = requiredPhaseMargin(model, input.settings.phaseMargin).value;
-        const ccField = (input.source.nominal ?? model).millers[comp.index]?.origin.fields['cc'];
-        fixes.push(
-          solvedFix(input, {
-            title: (v) => `Set cc = ${v} for ${formatDeg(target)} phase margin`,
-            solve: (engine) => engine.solveCcForPhaseMargin(model, comp.index, target),
-            meets: (a, run) => {
-              const need = requiredPhaseMargin(run.model, input.settings.phaseMargin);
-              return (
-                a.loop.phaseMarginDeg !== undefined && !violates(need.op, a.loop.phaseMarginDeg, need.value)
-              );
-            },
-            prefer: 'up',
-            unit: 'F',
-            edits: (v) =>
-              defined([ccField ? setValueEdit(input.source.nominal ?? model, ccField, v) : undefined]),
-            preferred: true,
-          }),
-        );
-      }
-      if (!requirementOf(model, 'pm')) {
-        const line = `require pm >= ${input.settings.phaseMargin} deg`;
-        fixes.push({
-          title: `Add \`${line}\` (the default, stated)`,
-          edits: [addRequirementEdit(input.source, model, line)],
-        });
-      }
-      return defined(fixes);
-    },
+    () => compensationFixes(input, phaseMarginSlack(input.settings.phaseMargin), 'the required phase margin'),
   );
+
+/** The phase-margin rule's slack in one run, in degrees. */
+export function phaseMarginSlack(fallback: number): RuleSlack {
+  return {
+    slack: (run) => {
+      const pm = run.analysis.loop.phaseMarginDeg;
+      if (pm === undefined) return NaN;
+      const { op, value } = requiredPhaseMargin(run.model, fallback);
+      return op === '>=' ? pm - value : value - pm;
+    },
+    describe: (run) => {
+      const pm = run.analysis.loop.phaseMarginDeg;
+      return pm === undefined ? 'no unity crossing' : `phase margin ${formatDeg(pm)}`;
+    },
+  };
+}

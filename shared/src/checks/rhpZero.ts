@@ -5,9 +5,19 @@ import type { DesignModel } from '../language/model';
 import type { CornerRun } from '../report';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { addRequirementEdit, defined, setOrInsertField, setValueEdit, solvedFix } from './fixes';
+import { defined, setOrInsertField, solvedFix } from './fixes';
+import type { RuleSlack } from './solveKnob';
+import { stageGmFixes } from './stageGmFixes';
 import { requirementOf, stageAt, judgedAsLoop } from './locate';
 import type { FixSuggestion } from './types';
+
+/**
+ * What a right-half-plane zero does to the loop: its phase lags like a left-half-plane pole's, −arctan(ω/z),
+ * while its magnitude rises like a left-half-plane zero's (GHLM; AH), so it flattens the roll-off, pushes
+ * the crossover out and lowers the phase margin.
+ */
+export const RHP_ZERO_EFFECT =
+  'it adds phase lag like a pole while lifting the gain like a zero, which flattens the roll-off and pushes the crossover out';
 
 export function zeroFactor(model: DesignModel, fallback: number): number {
   return requirementOf(model, 'zero')?.factor ?? fallback;
@@ -61,10 +71,10 @@ export const rhpZeroCheck: Check = (input: CheckInput) =>
           severity: req ? 'error' : 'warning',
           message:
             `Right-half-plane zero at ${formatHz(zero.hz)} lies below ${factor} × UGF (${formatHz(factor * ugf)}): ` +
-            'it adds phase lag like a pole while the gain keeps falling' +
+            RHP_ZERO_EFFECT +
             (miller
               ? miller.rz === undefined
-                ? '; this Miller capacitor has no nulling resistor (in a two-stage design the zero is gm2/Cc)'
+                ? `; this Miller capacitor has no nulling resistor (the zero lies near gm/Cc of the stage it wraps${second ? `, ${second.stage.name}` : ''})`
                 : `; rz = ${formatSi(miller.rz, 'ohm')} is below 1/gm2`
               : '; it comes from a feed-forward path of the network'),
           range: miller ? miller.origin.range : input.source.nameRange,
@@ -119,26 +129,30 @@ function rhpZeroFixes(input: CheckInput, worstRun: CornerRun): FixSuggestion[] {
       }),
     );
     const second = stageAt(model, miller.to);
-    const gmField = second ? nominal.stages[second.index]?.origin.fields['gm'] : undefined;
-    if (second && gmField) {
-      fixes.push(
-        solvedFix(input, {
-          title: (v) => `Raise gm of stage ${second.stage.name} to ${v} (zero at ${factor} × UGF)`,
-          solve: (engine) => engine.solveGmForZero(model, second.index, factor),
-          meets,
-          prefer: 'up',
-          unit: 'S',
-          edits: (v) => defined([setValueEdit(nominal, gmField, v)]),
-        }),
-      );
-    }
-  }
-  if (!requirementOf(model, 'zero')) {
-    const line = `require zero >= ${input.settings.rhpZeroFactor} * ugf`;
-    fixes.push({
-      title: `Add \`${line}\` (the default, stated)`,
-      edits: [addRequirementEdit(input.source, model, line)],
-    });
+    if (second) fixes.push(...stageGmFixes(input, second.index, rhpZeroSlack(input.settings.rhpZeroFactor)));
   }
   return defined(fixes);
+}
+
+/** ln(lowest RHP zero / (k · UGF)): ≥ 0 where every right-half-plane zero lies at or above k × UGF. */
+export function rhpZeroSlack(fallback: number): RuleSlack {
+  const lowest = (run: CornerRun) =>
+    run.analysis.zeros.filter((z) => z.rhp && Number.isFinite(z.hz)).sort((a, b) => a.hz - b.hz)[0];
+  return {
+    slack: (run) => {
+      const ugf = run.analysis.loop.ugfHz;
+      if (ugf === undefined) return NaN;
+      const z = lowest(run);
+      return z ? Math.log(z.hz / (zeroFactor(run.model, fallback) * ugf)) : Infinity;
+    },
+    describe: (run) => {
+      const ugf = run.analysis.loop.ugfHz;
+      const z = lowest(run);
+      return !z
+        ? 'no right-half-plane zero'
+        : ugf === undefined
+          ? `zero at ${formatHz(z.hz)}`
+          : `zero at ${+(z.hz / ugf).toPrecision(3)} × UGF`;
+    },
+  };
 }

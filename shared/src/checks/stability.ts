@@ -1,7 +1,7 @@
 // Stability from the closed loop itself: any closed-loop pole in the right half-plane is an error, whatever
 // the margins read. When the open loop has right-half-plane poles of its own, margins read from a Bode
 // plot do not decide stability (Nyquist criterion), and the finding says so.
-import type { Pole, Stability } from '../analysis/types';
+import type { Pole } from '../analysis/types';
 import { formatHz } from '../format/si';
 import { formatRootHz } from '../format/root';
 import type { DesignModel, Origin } from '../language/model';

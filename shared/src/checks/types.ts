@@ -37,6 +37,11 @@ export interface FixSuggestion {
   readonly edits: readonly TextEditSpec[];
   /** True for the fix the tool recommends first. */
   readonly preferred?: boolean;
+  /**
+   * Set when no value of this kind meets the rule: why, in words (the edits are then empty). The editor
+   * shows it as a disabled action, so the designer learns why no fix is offered.
+   */
+  readonly disabled?: string;
 }
 
 export interface Finding {

@@ -2,14 +2,17 @@
 import { formatHz, formatSi } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { compensationRange, primaryCompensation, requirementOf, stageAt, violates } from './locate';
+import { compensationRange, primaryCompensation, requirementOf, stageAt } from './locate';
+import { measure } from './measure';
 
 export const unityGainCheck: Check = (input: CheckInput) =>
   acrossRuns(input, 'ugf', (run): Hit[] => {
     const req = requirementOf(run.model, 'ugf');
     if (!req) return [];
-    const ugf = run.analysis.loop.ugfHz;
-    if (ugf !== undefined && !violates(req.op, ugf, req.value)) return [];
+    // Judged as `measure` reads it: on the conservative crossing when the loop gain crosses 0 dB twice.
+    const m = measure(req, run.analysis);
+    if (m.pass) return [];
+    const ugf = m.value;
     const comp = primaryCompensation(run.model);
     const first = comp ? stageAt(run.model, comp.item.from) : undefined;
     const gm1 = first?.stage.origin.fields['gm'];
@@ -20,7 +23,7 @@ export const unityGainCheck: Check = (input: CheckInput) =>
         message:
           ugf === undefined
             ? `The loop gain never reaches 0 dB, so there is no unity-gain frequency (required ${req.op} ${formatHz(req.value)})`
-            : `Unity-gain frequency ${formatHz(ugf)} misses the required ${req.op} ${formatHz(req.value)}`,
+            : `Unity-gain frequency ${m.measured} misses the required ${req.op} ${formatHz(req.value)}`,
         range: compensationRange(input.source, comp, run),
         related: [
           { range: req.origin.range, message: `required UGF ${req.op} ${formatHz(req.value)}` },

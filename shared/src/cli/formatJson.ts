@@ -31,6 +31,8 @@ export interface FindingJson extends PlaceJson {
   readonly fixes: readonly {
     readonly title: string;
     readonly preferred: boolean;
+    /** Present when no value meets the rule: why (edits are then empty). */
+    readonly disabled?: string;
     readonly edits: readonly (PlaceJson & { readonly newText: string })[];
   }[];
 }
@@ -72,6 +74,7 @@ export function findingJson(f: Finding): FindingJson {
       title: fix.title,
       preferred: fix.preferred === true,
       edits: fix.edits.map((e) => ({ ...placeJson(e.range), newText: e.newText })),
+      ...(fix.disabled !== undefined ? { disabled: fix.disabled } : {}),
     })),
   };
 }

@@ -102,8 +102,9 @@ function result(f: Finding, location: Sarif.ArtifactLocation, ruleIndex: Map<str
       message: { text: r.message },
     }));
   }
-  if (f.fixes.length > 0) {
-    out.fixes = f.fixes.map((fix) => ({
+  const offered = f.fixes.filter((fix) => fix.disabled === undefined);
+  if (offered.length > 0) {
+    out.fixes = offered.map((fix) => ({
       description: { text: fix.title },
       artifactChanges: [
         {

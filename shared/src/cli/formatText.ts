@@ -16,7 +16,13 @@ export function formatFindingText(path: string, f: Finding): string[] {
     const rel = oneBased(r.range);
     lines.push(`  ${path}:${rel.startLine}:${rel.startColumn}: note: ${oneLine(r.message)}`);
   }
-  for (const fix of f.fixes) lines.push(`  fix${fix.preferred ? ' (preferred)' : ''}: ${oneLine(fix.title)}`);
+  for (const fix of f.fixes) {
+    lines.push(
+      fix.disabled !== undefined
+        ? `  no fix: ${oneLine(fix.title)}: ${oneLine(fix.disabled)}`
+        : `  fix${fix.preferred ? ' (preferred)' : ''}: ${oneLine(fix.title)}`,
+    );
+  }
   return lines;
 }
 

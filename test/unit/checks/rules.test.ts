@@ -8,7 +8,6 @@ import { gmRatioCheck } from '../../../shared/src/checks/gmRatio';
 import { languageFindings, runChecks } from '../../../shared/src/checks/index';
 import { nondominantPoleCheck } from '../../../shared/src/checks/nondominantPole';
 import { phaseMarginCheck } from '../../../shared/src/checks/phaseMargin';
-import { plausibilityCheck } from '../../../shared/src/checks/plausibility';
 import { rhpZeroCheck } from '../../../shared/src/checks/rhpZero';
 import { secondStageBandwidthCheck, stageUnityHz } from '../../../shared/src/checks/secondStageBandwidth';
 import { settlingCheck, settlingTimeFor } from '../../../shared/src/checks/settling';
@@ -33,7 +32,7 @@ import {
 const TWO_PI = 2 * Math.PI;
 
 describe('phase margin', () => {
-  it('flags a margin below the default on the Miller capacitor, as a warning with an add-requirement fix', () => {
+  it('flags a margin below the default on the Miller capacitor, as a warning', () => {
     const model = twoStage(BASE);
     const found = phaseMarginCheck(
       input([{ model, analysis: analysis({ loop: { ugfHz: 20e6, phaseMarginDeg: 45 } }) }]),
@@ -44,8 +43,8 @@ describe('phase margin', () => {
     expect(found[0]!.range).toEqual(model.millers[0]!.origin.fields['cc']!.range);
     expect(found[0]!.message).toContain('45.0°');
     expect(found[0]!.message).toContain('60.0°');
-    expect(found[0]!.fixes.map((f) => f.title)).toEqual(['Add `require pm >= 60 deg` (the default, stated)']);
-    expect(found[0]!.fixes[0]!.edits[0]!.range.start).toEqual({ line: 12, character: 0 });
+    // Without an engine no fix is solved, and stating the default would change nothing in the design.
+    expect(found[0]!.fixes).toEqual([]);
   });
 
   it('passes at the default, and a stated requirement overrides the default', () => {
@@ -379,7 +378,7 @@ describe('settling', () => {
   });
 });
 
-describe('approximation, plausibility, UGF, DC gain', () => {
+describe('approximation, UGF, DC gain', () => {
   it('flags a hand formula more than 20 % off the exact root', () => {
     const a = analysis({
       extra: {
@@ -405,15 +404,6 @@ describe('approximation, plausibility, UGF, DC gain', () => {
     expect(found).toHaveLength(1);
     expect(found[0]!.severity).toBe('info');
     expect(found[0]!.message).toContain('30 % off');
-  });
-  it('flags a value many decades off and a zero gm', () => {
-    const model = twoStage({ ...BASE, cc: 1.2, gm1: 0 });
-    const found = plausibilityCheck(input([{ model, analysis: analysis({}) }]));
-    expect(found.map((f) => [f.severity, f.range])).toEqual([
-      ['error', model.stages[0]!.origin.fields['gm']!.range],
-      ['warning', model.millers[0]!.origin.fields['cc']!.range],
-    ]);
-    expect(found[1]!.message).toContain('1.2 F');
   });
   it('flags a missed UGF and DC gain requirement', () => {
     const model = twoStage({
