@@ -91,11 +91,14 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
   });
   const tolerance = options.settleTolerance ?? settleRequirement(model) ?? DEFAULT_TOLERANCE;
   let step;
+  let stepUnavailable: string | undefined;
   if (options.step !== false) {
     const a0 = r.sign * r.dcGain;
     const final = Number.isFinite(a0) ? a0 / (1 + r.beta * a0) : 1 / r.beta;
     const stable = r.closedPoles.every((p) => p.re < 0);
-    step = stepResponse(r.closed, r.closedPoles, stable ? final : NaN, tolerance);
+    const outcome = stepResponse(r.closed, r.closedPoles, stable ? final : NaN, tolerance);
+    if (outcome.ok) step = outcome.step;
+    else stepUnavailable = outcome.reason;
   }
   const analysis: DesignAnalysis = {
     poles,
@@ -104,6 +107,7 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     openLoopUgfHz: r.openLoopUgfHz,
     loop: r.loop,
     step,
+    ...(stepUnavailable !== undefined ? { stepUnavailable } : {}),
     slew: slewEstimate(model),
     hand: handEstimates(model, r.open.poles, r.open.zeros),
     problems: [],

@@ -152,6 +152,8 @@ export interface DesignAnalysis {
   readonly openLoopUgfHz?: number;
   readonly loop: LoopMetrics;
   readonly step?: StepResponse;
+  /** Why the step response was asked for but not computed (a refused tolerance, a value out of range). */
+  readonly stepUnavailable?: string;
   readonly slew?: SlewEstimate;
   /** Present for designs that are the classic two-stage Miller case. */
   readonly hand?: readonly HandEstimate[];

@@ -10,6 +10,8 @@ export interface Eigenvalues {
 
 export class EigenvalueFailure extends Error {}
 
+const MAX_BALANCE_STEPS = 1100;
+
 const ortPool = new ScratchPool();
 const workPool = new ScratchPool();
 
@@ -29,19 +31,22 @@ export function balance(a: Float64Array, n: number): void {
         c += Math.abs(a[j * n + i]);
         r += Math.abs(a[i * n + j]);
       }
-      if (c === 0 || r === 0) continue;
+      if (c === 0 || r === 0 || !Number.isFinite(c + r)) continue;
       let g = r / radix;
       let f = 1;
       const s = c + r;
-      while (c < g) {
+      // Each step moves c by a factor of 4; norms of finite matrices span fewer than 2·1075 binary
+      // orders, so the count bounds both loops without cutting a reachable balance short.
+      for (let k = 0; c < g && k < MAX_BALANCE_STEPS; k++) {
         f *= radix;
         c *= sqrdx;
       }
       g = r * radix;
-      while (c > g) {
+      for (let k = 0; c > g && k < MAX_BALANCE_STEPS; k++) {
         f /= radix;
         c /= sqrdx;
       }
+      if (!Number.isFinite(f) || f === 0) continue;
       if ((c + r) / f < 0.95 * s) {
         done = false;
         const inv = 1 / f;
