@@ -182,8 +182,12 @@ function sampleWithLogs(pz: PoleZeroForm, grid: readonly number[], us: Float64Ar
  * gain²·|H|² − 1 on the grid are refined by Brent on ln|gain·H|²; a grid extremum close to unity is refined
  * by golden search so that a narrow excursion through unity between two grid points is not missed.
  */
-export function crossingsOf(s: Samples, gain2 = 1): { omega: number; down: boolean }[] {
-  const { us, ms } = s;
+export function crossingsOf(
+  s: Samples,
+  gain2 = 1,
+  probes: readonly number[] = [],
+): { omega: number; down: boolean }[] {
+  const { us, ms } = mergeProbes(s, probes);
   const offset = Math.log(gain2);
   const f = (u: number) => s.f(u) + offset;
   const out: { omega: number; down: boolean }[] = [];
@@ -217,6 +221,47 @@ export function crossingsOf(s: Samples, gain2 = 1): { omega: number; down: boole
     bracket(ext.x, us[i + 1], fe, Math.log(r));
   }
   out.sort((a, b) => a.omega - b.omega);
+  return out;
+}
+
+/**
+ * The samples with extra points at `probes` (rad/s) inserted in order. A lightly damped pole pair lifts
+ * |H| in a band about 2ζ|p| wide around ω = Im p, which a grid of ten points a decade can step over
+ * entirely: a sample there makes its crossings visible to the bracketing (and a lightly damped zero pair's
+ * notch likewise).
+ */
+function mergeProbes(s: Samples, probes: readonly number[]): { us: Float64Array; ms: Float64Array } {
+  const inside = probes
+    .map(Math.log)
+    .filter((u) => u > s.us[0]! && u < s.us[s.us.length - 1]!)
+    .sort((a, b) => a - b);
+  if (!inside.length) return s;
+  const n = s.us.length + inside.length;
+  const us = new Float64Array(n);
+  const ms = new Float64Array(n);
+  let i = 0;
+  let j = 0;
+  for (let k = 0; k < n; k++) {
+    if (j < inside.length && (i >= s.us.length || inside[j]! < s.us[i]!)) {
+      us[k] = inside[j]!;
+      ms[k] = Math.exp(s.f(inside[j]!));
+      j++;
+    } else {
+      us[k] = s.us[i]!;
+      ms[k] = s.ms[i]!;
+      i++;
+    }
+  }
+  return { us, ms };
+}
+
+/** Frequencies (rad/s) of the lightly damped complex roots, where |H| has a narrow peak or notch. */
+export function resonanceProbes(pz: PoleZeroForm): number[] {
+  const out: number[] = [];
+  for (const r of [...pz.poles, ...pz.zeros]) {
+    const m = Math.hypot(r.re, r.im);
+    if (r.im > 0 && Math.abs(r.re) < 0.5 * m) out.push(r.im);
+  }
   return out;
 }
 
@@ -403,7 +448,7 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
   const { open, beta, sign, grid, tiny } = input;
   const loop: PoleZeroForm = { ...open, k: open.k * beta * sign };
   const dcLoop = Math.abs(beta * input.dcGain);
-  const crossings: Crossing[] = crossingsOf(input.samples, beta * beta)
+  const crossings: Crossing[] = crossingsOf(input.samples, beta * beta, resonanceProbes(open))
     .filter((c) => !dcRoundingCrossing(c.omega, dcLoop, open, tiny))
     .map((c) => ({
       hz: c.omega / (2 * Math.PI),
