@@ -14,7 +14,6 @@ import type { CheckEngine } from './checks/context';
 import { setOrInsertField, setValueEdit } from './checks/fixes';
 import { withLazyFixes } from './checks/acrossRuns';
 import { languageFindings, rangeContains, runChecks } from './checks/index';
-import { plausibilityCheck } from './checks/plausibility';
 import { resolveCheckSettings, type CheckSettings } from './checks/settings';
 import type { Finding, TextEditSpec } from './checks/types';
 import { formatSi } from './format/si';
@@ -132,11 +131,8 @@ export function analyzeDesignSource(
     token,
   );
   const input = { source, runs, settings, engine: ENGINE, token };
-  // A zero or negative R, C or gm makes every other rule's verdict meaningless: report only that.
-  const invalid = plausibilityCheck(input).filter((f) => f.severity === 'error');
-  const findings = incomplete
-    ? []
-    : [...problemFindings(source, runs), ...(invalid.length ? invalid : runChecks(input))];
+  // Impossible values (a zero or negative R, C or gm) are language errors: such a design is `incomplete`.
+  const findings = incomplete ? [] : [...problemFindings(source, runs), ...runChecks(input)];
   return { source, runs, worst, findings };
 }
 

@@ -11,7 +11,6 @@ import { gainMarginCheck } from './gainMargin';
 import { gmRatioCheck } from './gmRatio';
 import { nondominantPoleCheck } from './nondominantPole';
 import { phaseMarginCheck } from './phaseMargin';
-import { plausibilityCheck } from './plausibility';
 import { rhpZeroCheck } from './rhpZero';
 import { secondStageBandwidthCheck } from './secondStageBandwidth';
 import { settlingCheck } from './settling';
@@ -24,7 +23,6 @@ export type { Check, CheckEngine, CheckInput, CompensationTarget } from './conte
 
 /** Every design rule with its code, in the order findings are listed. */
 export const ALL_CHECKS: readonly (readonly [CheckCode, Check])[] = [
-  ['plausibility', plausibilityCheck],
   ['stability', stabilityCheck],
   ['phase-margin', phaseMarginCheck],
   ['gain-margin', gainMarginCheck],

@@ -23,20 +23,24 @@ export function collectOverrides(
   const fields = new Map<Statement, Map<string, OverrideSyntax>>();
   const sink = scope.sink;
   let ok = true;
+  // `load.cap` means the load at the output; the other kinds mean the design's only statement of that kind.
+  // Either way exactly one statement must qualify: overriding the first of several would silently leave the
+  // others at their nominal values.
   const unique = (kind: Statement['kind'], o: OverrideSyntax): Statement | undefined => {
     const all = scope.design.statements.filter((s) => s.kind === kind && !scope.skipped.has(s));
-    if (kind === 'load') {
-      const output = scope.outputName();
-      const atOutput = all.filter((s) => s.kind === 'load' && (!s.at || s.at.text === output));
-      if (atOutput.length >= 1) return atOutput[0];
-    }
-    if (all.length === 1) return all[0];
+    const output = scope.outputName();
+    const atOutput =
+      kind === 'load' ? all.filter((s) => s.kind === 'load' && (!s.at || s.at.text === output)) : [];
+    const candidates = atOutput.length ? atOutput : all;
+    if (candidates.length === 1) return candidates[0];
+    const where = atOutput.length ? ' at the output' : '';
     sink.error(
       'reference',
-      all.length === 0
+      candidates.length === 0
         ? `There is no \`${kind}\` statement for ${quote(o.targetText)} to override.`
-        : `There are ${all.length} \`${kind}\` statements, so ${quote(o.targetText)} is ambiguous: put the value in a \`param\` and override that.`,
+        : `There are ${candidates.length} \`${kind}\` statements${where}, so ${quote(o.targetText)} is ambiguous: put the value in a \`param\` and override that.`,
       o.targetRange,
+      candidates.map((s) => ({ range: tokenRange(s.keyword), message: `a \`${kind}\` statement${where}` })),
     );
     return undefined;
   };

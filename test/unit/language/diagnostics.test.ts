@@ -406,6 +406,13 @@ const cases: Case[] = [
     'There are 2 `miller` statements, so `miller.cc` is ambiguous: put the value in a `param` and override that.',
   ],
   [
+    'corner: two loads at the output',
+    d('  load cap = 1 pF\n  load at s cap = 2 pF\n  corner heavy ⟦load.cap⟧ = 20 pF'),
+    'reference',
+    'error',
+    'There are 2 `load` statements at the output, so `load.cap` is ambiguous: put the value in a `param` and override that.',
+  ],
+  [
     'corner: unknown target with a field',
     d('  corner c ⟦t⟧.gm = 1 mS'),
     'reference',
@@ -521,7 +528,7 @@ const cases: Case[] = [
     d('  load cap = ⟦1e20⟧'),
     'plausibility',
     'warning',
-    '100000000 TF is far outside the usual range for a capacitance (1 aF to 10 mF).',
+    '1e20 F is far outside the usual range for a capacitance (1 aF to 10 mF).',
   ],
   [
     'a plain tolerance above 1 %',
@@ -640,5 +647,38 @@ describe('related information', () => {
     expect(m.stages.find((x) => x.name === 't')!.gm).toBe(1e-3);
     expect(m.output).toBe('s');
     expect(m.beta).toBe(1);
+  });
+});
+
+describe('an override that could mean several statements', () => {
+  it('points at every load it could mean, and the corner gets no model', () => {
+    const { text, ranges } = marked(
+      d(
+        '  ⟦load⟧ cap = 1 pF\n  ⟦load⟧ res = 10 kohm\n  load at in cap = 5 pF\n  corner heavy ⟦load.cap⟧ = 20 pF',
+      ),
+    );
+    const doc = parseDocument(text);
+    expect(doc.diagnostics).toEqual([
+      {
+        code: 'reference',
+        severity: 'error',
+        message:
+          'There are 2 `load` statements at the output, so `load.cap` is ambiguous: put the value in a `param` and override that.',
+        range: ranges[2],
+        related: [
+          { range: ranges[0], message: 'a `load` statement at the output' },
+          { range: ranges[1], message: 'a `load` statement at the output' },
+        ],
+      },
+    ]);
+    expect(doc.designs[0]!.corners[0]!.model).toBeUndefined();
+  });
+
+  it('takes the one load at the output when others sit elsewhere', () => {
+    const doc = parseDocument(
+      d('  load cap = 1 pF\n  load at in cap = 5 pF\n  corner heavy load.cap = 20 pF'),
+    );
+    expect(doc.diagnostics).toEqual([]);
+    expect(doc.designs[0]!.corners[0]!.model!.loads.map((l) => l.cap)).toEqual([20e-12, 5e-12]);
   });
 });

@@ -13,6 +13,7 @@ import {
   REQUIREMENT_KINDS,
   STATEMENT_KEYWORDS,
 } from '../../../shared/src/language';
+import { FUNCTION_NAMES } from '../../../shared/src/language/expressionFunctions';
 
 const doc = readFileSync(join(__dirname, '../../../docs/language.md'), 'utf8');
 const blocks = [...doc.matchAll(/```ampnote\n([\s\S]*?)```/g)].map((m) => m[1]!);
@@ -47,6 +48,7 @@ describe('docs/language.md covers the vocabulary', () => {
     ...BUILTIN_NODES,
     ...Object.values(FIELDS_BY_STATEMENT).flat(),
     ...Object.values(FLAGS_BY_STATEMENT).flat(),
+    ...FUNCTION_NAMES,
   ]);
   const fenced = [...doc.matchAll(/```[a-z]*\n([\s\S]*?)```/g)].map((m) => m[1]!);
   const prose = doc.replace(/```[a-z]*\n[\s\S]*?```/g, '');

@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import * as oniguruma from 'vscode-oniguruma';
 import { INITIAL, Registry, parseRawGrammar, type IGrammar } from 'vscode-textmate';
+import { FUNCTION_NAMES } from '../../../shared/src/language/expressionFunctions';
 
 const root = join(__dirname, '../../..');
 let grammar: IGrammar;
@@ -68,4 +69,33 @@ describe('TextMate grammar', () => {
     expect(scopesAt('  param x = 2 * gm1', 'gm1')).not.toContain('keyword.other.unit.ampnote');
     expect(scopesAt('  param x = 3 pFoo', 'pFoo')).not.toContain('keyword.other.unit.ampnote');
   });
+
+  it('colours units with powers and reciprocal units as one unit', () => {
+    const line = '  param kp = 50 uA/V^2 # note';
+    expect(scopesAt(line, 'uA/V^2')).toContain('keyword.other.unit.ampnote');
+    expect(scopesAt(line, '^2')).toContain('keyword.other.unit.ampnote');
+    expect(scopesAt('  param l = 0.04 /V', '/V')).toContain('keyword.other.unit.ampnote');
+    expect(scopesAt('  param l = 0.04 V^-1', 'V^-1')).toContain('keyword.other.unit.ampnote');
+    expect(scopesAt('  param c = 4 pF/V', 'pF/V')).toContain('keyword.other.unit.ampnote');
+    // a spaced slash divides by a name
+    expect(scopesAt('  param x = 2 / k', 'k')).not.toContain('keyword.other.unit.ampnote');
+  });
+
+  it('colours the parallel operator and every function the language has', () => {
+    const line = '  stage s gm = sqrt(2 * kp * id) rout = ro_n || ro_p';
+    expect(scopesAt(line, '||')).toContain('keyword.operator.ampnote');
+    expect(scopesAt('  param r = a ∥ b', '∥')).toContain('keyword.operator.ampnote');
+    for (const fn of FUNCTION_NAMES)
+      expect(scopesAt(`  param x = ${fn}(1, 2)`, fn), fn).toContain('support.function.ampnote');
+    // a parameter that happens to share a function's name is a name where it is not called
+    expect(scopesAt('  param x = 2 * min', 'min')).not.toContain('support.function.ampnote');
+  });
+
+  it('tokenises a 100 000-digit number as one number', () => {
+    const digits = '7'.repeat(100_000);
+    const { tokens } = grammar.tokenizeLine(`  param x = ${digits} pF`, INITIAL);
+    const numeric = tokens.filter((t) => t.scopes.includes('constant.numeric.ampnote'));
+    expect(numeric).toHaveLength(1);
+    expect(numeric[0]!.endIndex - numeric[0]!.startIndex).toBe(100_000);
+  }, 30_000);
 });
