@@ -22,7 +22,7 @@ import type {
   WebviewToHost,
 } from '../../shared/src/protocol/webviewMessages';
 import { panelHtml } from './panelHtml';
-import { isChartId, parseWebviewMessage } from './webviewGuard';
+import { applyRefusal, isChartId, parseWebviewMessage } from './webviewGuard';
 import type { ServerRequests } from './requests';
 
 const sameTarget = (a: CompensationTarget, b: CompensationTarget) => a.kind === b.kind && a.index === b.index;
@@ -368,9 +368,19 @@ export class PanelHost implements vscode.Disposable {
     }
   }
 
+  /** Tell the user why nothing was written: a notification, and the panel's status line. */
+  private refuse(design: string, why: string): void {
+    const text = `The values were not written into design ${design}: ${why}.`;
+    this.output.appendLine(`[panel] apply: ${text}`);
+    this.post({ type: 'status', text, error: true });
+    void vscode.window.showWarningMessage(`Ampnote: ${text}`);
+  }
+
   private async apply(cc: number | undefined, rz: number | undefined): Promise<void> {
     const data = this.last;
-    if (!data || (cc === undefined && rz === undefined)) return;
+    if (!data) return;
+    const why = applyRefusal(cc, rz);
+    if (why) return this.refuse(data.design, why);
     // Into the element the panel shows, whose sliders made these values.
     const params: CompensationEditParams = {
       uri: data.uri,
@@ -386,6 +396,7 @@ export class PanelHost implements vscode.Disposable {
         CompensationEditRequest.method,
         params,
       );
+      if (result?.refused) return this.refuse(data.design, result.refused);
       if (!result || result.edits.length === 0) {
         void vscode.window.showWarningMessage(
           `Ampnote: the values could not be written into design ${data.design}.`,

@@ -31,6 +31,9 @@ export function panelHtml(input: PanelHtmlInput): string {
     `style-src ${input.cspSource}`,
     `img-src ${input.cspSource} data:`,
     `font-src ${input.cspSource}`,
+    // Not covered by default-src: without these a <base> or <form> could point the page elsewhere.
+    "base-uri 'none'",
+    "form-action 'none'",
   ].join('; ');
   const cards = CHARTS.map(
     (c) => `

@@ -1,9 +1,19 @@
 // Messages from the webview are checked before the host acts on them: the page is ours, but what it sends
 // carries user input (slider values, exported bytes). Pure, so it is tested without an editor.
 import type { ChartId, WebviewToHost } from '../../shared/src/protocol/webviewMessages';
+import { unwritableValue } from '../../shared/src/writtenValues';
 
 function isNonNegative(v: unknown): v is number {
   return typeof v === 'number' && Number.isFinite(v) && v >= 0;
+}
+
+/** Why the panel's values must not be written into the file, or undefined when they may be. */
+export function applyRefusal(cc: number | undefined, rz: number | undefined): string | undefined {
+  if (cc === undefined && rz === undefined) return 'there is no value to write';
+  return (
+    (cc !== undefined ? unwritableValue(cc, 'cc') : undefined) ??
+    (rz !== undefined ? unwritableValue(rz, 'rz', true) : undefined)
+  );
 }
 
 export function isChartId(v: unknown): v is ChartId {
@@ -23,7 +33,13 @@ export function parseWebviewMessage(raw: unknown): WebviewToHost | undefined {
     case 'slider':
       return { type: 'slider', ...values() };
     case 'apply':
-      return { type: 'apply', ...values() };
+      // Every number is passed on, so that the host can refuse an unusable one with its reason (see
+      // applyRefusal) rather than write the other value alone.
+      return {
+        type: 'apply',
+        cc: typeof m.cc === 'number' ? m.cc : undefined,
+        rz: typeof m.rz === 'number' ? m.rz : undefined,
+      };
     case 'compensation': {
       const t = m.target as { kind?: unknown; index?: unknown } | null | undefined;
       if (!t || typeof t !== 'object') return undefined;

@@ -61,5 +61,11 @@ const before = (a: { line: number; character: number }, b: { line: number; chara
 export const rangesMeet = (a: Range | SourceRange, b: Range | SourceRange): boolean =>
   before(a.start, b.end) && before(b.start, a.end);
 
+export const sameRange = (a: Range | SourceRange, b: Range | SourceRange): boolean =>
+  a.start.line === b.start.line &&
+  a.start.character === b.start.character &&
+  a.end.line === b.end.line &&
+  a.end.character === b.end.character;
+
 export const contains = (r: Range | SourceRange, p: { line: number; character: number }): boolean =>
   before(r.start, p) && before(p, r.end);

@@ -3,7 +3,9 @@
 import {
   createConnection,
   DidChangeConfigurationNotification,
+  ErrorCodes,
   ProposedFeatures,
+  ResponseError,
   TextDocuments,
   TextDocumentSyncKind,
   type CancellationToken,
@@ -27,7 +29,7 @@ import {
   type PanelDataParams,
 } from '../../shared/src/protocol/requests';
 import { DocumentStore, type Analysed } from './documentStore';
-import { codeActions } from './features/codeActions';
+import { cancelled, codeActions } from './features/codeActions';
 import { codeLenses } from './features/codeLens';
 import { completion } from './features/completion';
 import { compensationEdit, designSummary, panelData } from './features/custom';
@@ -37,6 +39,7 @@ import { hover } from './features/hover';
 import { inlayHints } from './features/inlayHints';
 import { prepareRename, rename } from './features/rename';
 import { documentSymbols } from './features/symbols';
+import { checkedDocumentSync } from './documentSync';
 import { guarded } from './log';
 import { createSettingsSource } from './settings';
 
@@ -51,21 +54,45 @@ const store = new DocumentStore(
   (uri) => documents.get(uri),
   (uri) => settings.known(uri),
 );
-const diagnostics = createDiagnosticsScheduler(connection, store, settings, log);
+/** Validation waits this long after an edit; a client may choose another delay when it initializes. */
+let validationDelayMs = 200;
+const diagnostics = createDiagnosticsScheduler(connection, store, settings, log, () => validationDelayMs);
 
-/** The analysed current version of a document named by a request, if it is open. */
-const analysed = (params: unknown): Analysed | undefined => {
+/** After `shutdown` the protocol allows only `exit`: every other request is an invalid request. */
+let shutDown = false;
+const refuseAfterShutdown = () => {
+  if (shutDown) throw new ResponseError(ErrorCodes.InvalidRequest, 'the server is shutting down');
+};
+
+/** The URI a request names (`textDocument.uri`, or `uri` for the extension's own requests). */
+const uriOf = (params: unknown): string | undefined => {
   const uri =
     (params as { textDocument?: { uri?: unknown }; uri?: unknown } | undefined)?.textDocument?.uri ??
-    (params as { uri?: unknown })?.uri;
-  return typeof uri === 'string' ? store.current(uri) : undefined;
+    (params as { uri?: unknown } | undefined)?.uri;
+  return typeof uri === 'string' ? uri : undefined;
 };
 /** A feature run on the document its request names (guarded; `fallback` when the document is not open). */
 const on =
   <P, R>(feature: string, fallback: R, run: (a: Analysed, p: P, token: CancellationToken) => R) =>
   (p: P, token: CancellationToken) =>
     guarded(log, feature, fallback, () => {
-      const a = analysed(p);
+      refuseAfterShutdown();
+      const uri = uriOf(p);
+      const a = uri === undefined ? undefined : store.current(uri);
+      return a ? run(a, p, token) : fallback;
+    })();
+/**
+ * As `on`, for a feature that may take long on a large document: the analysis runs in slices (see
+ * DocumentStore.analyse), so a cancellation or an edit gets through, and the feature can pause too.
+ */
+const onSliced =
+  <P, R>(feature: string, fallback: R, run: (a: Analysed, p: P, token: CancellationToken) => Promise<R>) =>
+  (p: P, token: CancellationToken) =>
+    guarded(log, feature, fallback, async () => {
+      refuseAfterShutdown();
+      const uri = uriOf(p);
+      const a = uri === undefined ? undefined : await store.analyse(uri, token);
+      if (token.isCancellationRequested) throw cancelled();
       return a ? run(a, p, token) : fallback;
     })();
 const position = (params: unknown) => {
@@ -78,6 +105,10 @@ const position = (params: unknown) => {
 connection.onInitialize((params): InitializeResult => {
   canAskConfiguration = !!params.capabilities.workspace?.configuration;
   canRegisterConfiguration = !!params.capabilities.workspace?.didChangeConfiguration?.dynamicRegistration;
+  const delay = (params.initializationOptions as { validationDelayMs?: unknown } | null | undefined)
+    ?.validationDelayMs;
+  if (typeof delay === 'number' && Number.isFinite(delay) && delay >= 0 && delay <= 600_000)
+    validationDelayMs = delay;
   return {
     capabilities: {
       textDocumentSync: { openClose: true, change: TextDocumentSyncKind.Incremental },
@@ -98,13 +129,23 @@ connection.onInitialized(() => {
     void connection.client.register(DidChangeConfigurationNotification.type, { section: 'ampnote' });
 });
 
-// Document lifecycle and settings.
-documents.onDidOpen((e) => diagnostics.schedule(e.document.uri, 0));
-documents.onDidChangeContent((e) => diagnostics.schedule(e.document.uri));
-documents.onDidClose(
-  (e) => (diagnostics.close(e.document.uri), store.evict(e.document.uri), settings.forget(e.document.uri)),
-);
+// Document lifecycle and settings. An open fires a content change as well: that first version is
+// validated at once, later ones after the debounce.
+const justOpened = new Map<string, number>();
+documents.onDidOpen((e) => justOpened.set(e.document.uri, e.document.version));
+documents.onDidChangeContent((e) => {
+  const opened = justOpened.get(e.document.uri) === e.document.version;
+  justOpened.delete(e.document.uri);
+  diagnostics.schedule(e.document.uri, opened ? 0 : undefined);
+});
+documents.onDidClose((e) => {
+  justOpened.delete(e.document.uri);
+  diagnostics.close(e.document.uri);
+  store.evict(e.document.uri);
+  settings.forget(e.document.uri);
+});
 connection.onDidChangeConfiguration((change) => {
+  if (shutDown) return;
   settings.clear();
   if (!canAskConfiguration) settings.setPushed(change.settings);
   store.invalidateAll();
@@ -116,7 +157,7 @@ connection.onDidChangeConfiguration((change) => {
 {
 connection.onHover(on('hover', null, (a, p: HoverParams) => hover(a.report, position(p))));
 connection.languages.inlayHint.on(on('inlayHints', [], (a, p: InlayHintParams) => inlayHints(a.report, a.document, p.range)));
-connection.onCodeAction(on('codeActions', [], (a, p: CodeActionParams) => codeActions(a.report, p)));
+connection.onCodeAction(onSliced('codeActions', [], (a, p: CodeActionParams, token) => codeActions(a.report, p, token)));
 connection.onCodeLens(on('codeLens', [], (a, p: CodeLensParams) => codeLenses(a.report, p.textDocument.uri)));
 connection.onCompletion(on('completion', [], (a, p: CompletionParams) => completion(a.report, a.document, position(p))));
 connection.onDocumentSymbol(on('documentSymbols', [], (a) => documentSymbols(a.report)));
@@ -128,6 +169,9 @@ connection.onRequest(DesignSummaryRequest.method, on('designSummary', null, (a, 
 connection.onRequest(CompensationEditRequest.method, on('compensationEdit', null, (a, p: CompensationEditParams) => compensationEdit(a.report, p)));
 }
 
-connection.onShutdown(() => diagnostics.dispose());
-documents.listen(connection);
+connection.onShutdown(() => {
+  shutDown = true;
+  diagnostics.dispose();
+});
+documents.listen(checkedDocumentSync(connection, log, () => shutDown));
 connection.listen();

@@ -16,6 +16,9 @@ import { documentSymbols } from '../../server/src/features/symbols';
 import { applyEdits } from './lspClient';
 import { withLazyFixes } from '../../shared/src/checks/acrossRuns';
 import { rangesMeet } from '../../server/src/convert';
+import { CancellationToken } from 'vscode-languageserver';
+
+const NEVER = CancellationToken.None;
 
 /** Split `text` at its `|` marker: the text without it and the marker's position. */
 function cursor(marked: string) {
@@ -214,27 +217,39 @@ describe('inline values, lenses and actions', () => {
       arguments: [{ uri: 'u', design: 'demo' }],
     });
   });
-  it('offers the fixes of the findings the range touches, and only those', () => {
+  it('offers the fixes of the findings the range touches, and only those', async () => {
     const c = cursor(DESIGN('').replace('gm = 1.5 mS', 'gm = 600 uS') + '|');
     const finding = c.report.findings.find((f) => f.code === 'gm-ratio')!;
-    const at = codeActions(c.report, {
-      textDocument: { uri: 'u' },
-      range: finding.range,
-      context: { diagnostics: [] },
-    });
+    const at = await codeActions(
+      c.report,
+      {
+        textDocument: { uri: 'u' },
+        range: finding.range,
+        context: { diagnostics: [] },
+      },
+      NEVER,
+    );
     expect(at.length).toBeGreaterThan(0);
     expect(at.every((a) => a.kind === 'quickfix' && a.edit?.changes?.['u']?.length)).toBe(true);
-    const refactor = codeActions(c.report, {
-      textDocument: { uri: 'u' },
-      range: finding.range,
-      context: { diagnostics: [], only: ['refactor'] },
-    });
+    const refactor = await codeActions(
+      c.report,
+      {
+        textDocument: { uri: 'u' },
+        range: finding.range,
+        context: { diagnostics: [], only: ['refactor'] },
+      },
+      NEVER,
+    );
     expect(refactor).toEqual([]);
-    const asked = codeActions(c.report, {
-      textDocument: { uri: 'u' },
-      range: finding.range,
-      context: { diagnostics: [], only: ['quickfix'] },
-    });
+    const asked = await codeActions(
+      c.report,
+      {
+        textDocument: { uri: 'u' },
+        range: finding.range,
+        context: { diagnostics: [], only: ['quickfix'] },
+      },
+      NEVER,
+    );
     expect(asked).toHaveLength(at.length);
     // Fixes are solved only for the findings the range touches.
     let solved = 0;
@@ -247,14 +262,22 @@ describe('inline values, lenses and actions', () => {
         }),
       ),
     };
-    codeActions(counted, { textDocument: { uri: 'u' }, range: finding.range, context: { diagnostics: [] } });
+    await codeActions(
+      counted,
+      { textDocument: { uri: 'u' }, range: finding.range, context: { diagnostics: [] } },
+      NEVER,
+    );
     expect(solved).toBe(c.report.findings.filter((f) => rangesMeet(f.range, finding.range)).length);
     expect(solved).toBeLessThan(c.report.findings.length);
-    const none = codeActions(c.report, {
-      textDocument: { uri: 'u' },
-      range: { start: { line: 4, character: 0 }, end: { line: 4, character: 1 } },
-      context: { diagnostics: [] },
-    });
+    const none = await codeActions(
+      c.report,
+      {
+        textDocument: { uri: 'u' },
+        range: { start: { line: 4, character: 0 }, end: { line: 4, character: 1 } },
+        context: { diagnostics: [] },
+      },
+      NEVER,
+    );
     expect(none).toEqual([]);
   });
 });

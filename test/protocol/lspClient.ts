@@ -57,13 +57,16 @@ export class LspClient {
     this.connection.listen();
   }
 
-  static async start(): Promise<{ client: LspClient; init: InitializeResult; readyMs: number }> {
+  static async start(
+    initializationOptions?: Record<string, unknown>,
+  ): Promise<{ client: LspClient; init: InitializeResult; readyMs: number }> {
     const t0 = performance.now();
     const proc = spawn(process.execPath, [resolve(ROOT, 'dist/server.js'), '--stdio'], { cwd: ROOT });
     const client = new LspClient(proc);
     const init = (await client.connection.sendRequest('initialize', {
       processId: process.pid,
       rootUri: pathToFileURL(ROOT).href,
+      ...(initializationOptions ? { initializationOptions } : {}),
       capabilities: {
         workspace: { configuration: true, didChangeConfiguration: { dynamicRegistration: true } },
         textDocument: { publishDiagnostics: { versionSupport: true, relatedInformation: true } },

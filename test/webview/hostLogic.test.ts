@@ -1,7 +1,7 @@
 // The pure parts of the client and the panel: message checks, the restart policy, the slider scale, the
 // symmetric-log transform and CSV export.
 import { describe, expect, it } from 'vitest';
-import { parseWebviewMessage } from '../../client/src/webviewGuard';
+import { applyRefusal, parseWebviewMessage } from '../../client/src/webviewGuard';
 import { boundedRestarts } from '../../client/src/restartPolicy';
 import { positionToValue, valueToPosition, STEPS } from '../../client/src/webview/sliderScale';
 import { symlog, symlogInverse, symlogKnee } from '../../client/src/webview/symlog';
@@ -21,17 +21,30 @@ describe('messages from the webview', () => {
       cc: undefined,
       rz: undefined,
     });
-    // A capacitor of 0 F is no compensation at all: never written into the file from the panel.
-    expect(parseWebviewMessage({ type: 'apply', cc: 0 })).toEqual({
+    // An apply passes every number on, so that the host refuses an unusable one with its reason instead
+    // of writing the other value alone; what is not a number is no value.
+    expect(parseWebviewMessage({ type: 'apply', cc: 0, rz: Number.POSITIVE_INFINITY })).toEqual({
       type: 'apply',
-      cc: undefined,
-      rz: undefined,
+      cc: 0,
+      rz: Number.POSITIVE_INFINITY,
     });
     expect(parseWebviewMessage({ type: 'apply', cc: '1p' })).toEqual({
       type: 'apply',
       cc: undefined,
       rz: undefined,
     });
+  });
+
+  it('refuses to apply values a design cannot hold, with the reason', () => {
+    expect(applyRefusal(1.2e-12, 2e3)).toBeUndefined();
+    expect(applyRefusal(1.2e-12, 0)).toBeUndefined(); // rz = 0 removes the nulling resistor
+    // A capacitor of 0 F is no compensation at all: never written into the file from the panel.
+    expect(applyRefusal(0, undefined)).toMatch(/cc is zero/);
+    expect(applyRefusal(Number.MAX_VALUE, undefined)).toMatch(/cc = 1\.80e\+308 lies outside/);
+    expect(applyRefusal(1e-31, undefined)).toMatch(/outside the values a design can hold/);
+    expect(applyRefusal(1e-12, Number.NaN)).toMatch(/rz is not a finite number/);
+    expect(applyRefusal(1e-12, -5)).toMatch(/rz is negative/);
+    expect(applyRefusal(undefined, undefined)).toMatch(/no value/);
   });
 
   it('keeps a well-formed compensation choice and drops any other', () => {

@@ -109,6 +109,9 @@ describe('panel page', () => {
     expect(csp).toContain("script-src 'nonce-abc123'");
     expect(csp).toContain('style-src https://x.test');
     expect(csp).toContain('img-src https://x.test data:');
+    // base-uri and form-action do not fall back to default-src (CSP Level 3, §6.3 and §6.4).
+    expect(csp).toContain("base-uri 'none'");
+    expect(csp).toContain("form-action 'none'");
     expect(csp).not.toContain('unsafe');
     expect(html.match(/<script/g)?.length).toBe(1);
     expect(html).toContain('<script nonce="abc123" src="https://x.test/p.js">');

@@ -13,6 +13,7 @@ import type { CompensationTarget } from '../../../shared/src/protocol/panelData'
 import type { CheckSettings } from '../../../shared/src/checks/settings';
 import type { DocumentReport, DesignReport } from '../../../shared/src/report';
 import { compensationEdits, designAt, designNamed } from '../../../shared/src/service';
+import { refuseEdits, unwritableValue } from '../../../shared/src/writtenValues';
 import { toEdit } from '../convert';
 import { nominal } from './describe';
 
@@ -88,6 +89,13 @@ export function compensationEdit(
   // A target sent but malformed writes nothing rather than falling back to another element.
   const target = params.compensation === undefined ? undefined : asTarget(params.compensation);
   if (params.compensation !== undefined && !target) return null;
-  const edits = compensationEdits(design, finitePositive(params.cc), finitePositive(params.rz), target);
-  return edits.length ? { edits: edits.map(toEdit) } : null;
+  // A value sent but unusable is refused with its reason, never dropped while the other one is written.
+  const bad =
+    (params.cc !== undefined ? unwritableValue(params.cc, 'cc') : undefined) ??
+    (params.rz !== undefined ? unwritableValue(params.rz, 'rz', true) : undefined);
+  if (bad) return { edits: [], refused: bad };
+  const edits = compensationEdits(design, params.cc, params.rz, target);
+  if (!edits.length) return null;
+  const refused = refuseEdits(design.source, edits);
+  return refused ? { edits: [], refused } : { edits: edits.map(toEdit) };
 }

@@ -24,7 +24,7 @@ export function createDiagnosticsScheduler(
   store: DocumentStore,
   settings: SettingsSource,
   log: Logger,
-  debounceMs = 200,
+  debounceMs: () => number = () => 200,
 ): DiagnosticsScheduler {
   const timers = new Map<string, NodeJS.Timeout>();
   const running = new Map<string, CancellationTokenSource>();
@@ -60,7 +60,7 @@ export function createDiagnosticsScheduler(
   };
 
   return {
-    schedule(uri, delayMs = debounceMs) {
+    schedule(uri, delayMs = debounceMs()) {
       stop(uri);
       timers.set(
         uri,

@@ -30,8 +30,11 @@ export function rename(
   report: DocumentReport,
   uri: string,
   position: SourcePosition,
-  newName: string,
+  newName: unknown,
 ): WorkspaceEdit | null {
+  // Checked before anything else: `IDENTIFIER.test(null)` would read the text "null".
+  if (typeof newName !== 'string')
+    throw new ResponseError(ErrorCodes.InvalidParams, 'the new name is missing or not a string');
   const r = renameable(report, position);
   if (!r) return null;
   if (!IDENTIFIER.test(newName))

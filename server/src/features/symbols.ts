@@ -4,6 +4,12 @@ import type { DocumentReport } from '../../../shared/src/report';
 import type { SymbolInfo } from '../../../shared/src/language/model';
 import { toRange } from '../convert';
 
+/**
+ * The editor rejects a whole outline when one symbol's name is empty, which a design has while its name is
+ * still being typed: such a symbol is shown under a placeholder instead.
+ */
+const shownName = (name: string, kind: string) => (name.trim() ? name : `(unnamed ${kind})`);
+
 const KIND: Record<SymbolInfo['kind'], SymbolKind> = {
   design: SymbolKind.Module,
   param: SymbolKind.Constant,
@@ -30,7 +36,7 @@ export function documentSymbols(report: DocumentReport): DocumentSymbol[] {
       .map((s) => {
         const range = statementRange(s);
         return {
-          name: s.name,
+          name: shownName(s.name, s.kind),
           detail: s.kind,
           kind: KIND[s.kind],
           range: toRange(range),
@@ -49,7 +55,7 @@ export function documentSymbols(report: DocumentReport): DocumentSymbol[] {
       (a, b) => a.range.start.line - b.range.start.line || a.range.start.character - b.range.start.character,
     );
     return {
-      name: design.name,
+      name: shownName(design.name, 'design'),
       detail: 'design',
       kind: SymbolKind.Module,
       range: toRange(design.range),

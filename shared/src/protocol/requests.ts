@@ -53,4 +53,6 @@ export type CompensationEditResult = {
     readonly range: { start: { line: number; character: number }; end: { line: number; character: number } };
     readonly newText: string;
   }[];
+  /** Set (with no edits) when the values cannot be written: why, in words for the user. */
+  readonly refused?: string;
 } | null;
