@@ -2,6 +2,8 @@
 // within a few thousand ulps of it, so roundoff in the propagated state (each step adds a few ulps) decides
 // whether a sample is "in the band" rather than the circuit; a band of the final value or wider says nothing.
 
+import { formatTolerance } from '../format/quantities';
+
 /** Smallest tolerance (fraction of the final value) the settling time is computed for. */
 export const MIN_SETTLE_TOLERANCE = 1e-12;
 /** Tolerances at or above this fraction of the final value are refused. */
@@ -13,8 +15,8 @@ export function settleToleranceProblem(tolerance: number): string | undefined {
   if (tolerance <= 0) return 'the settling tolerance must be positive';
   if (tolerance < MIN_SETTLE_TOLERANCE) {
     return (
-      `the settling tolerance ${tolerance.toPrecision(3)} (as a fraction) is finer than ` +
-      `${MIN_SETTLE_TOLERANCE}, below what double precision resolves around the final value`
+      `the settling tolerance ${formatTolerance(tolerance)} is finer than ${formatTolerance(MIN_SETTLE_TOLERANCE)}, ` +
+      'below what double precision resolves around the final value'
     );
   }
   if (tolerance >= MAX_SETTLE_TOLERANCE) {
