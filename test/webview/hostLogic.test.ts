@@ -147,7 +147,7 @@ describe('CSV export and colours', () => {
     locus: { poles: [{ label: 'pole "1", lowest', cc: [0, 1e-12], hz: [5, 4] }], zeros: [] },
     bode: { hz: [1, 10], magDb: [20, 0], phaseDeg: [0, -45], crossings: [] },
     step: { t: [0, 1], y: [0, 1], final: 1, tolerance: 0.01, overshootPct: 0 },
-    summary: { dcGainDb: 20 },
+    summary: { closedLoop: 'stable', dcGainDb: 20 },
     problems: [],
     caution: CAUTION,
   };

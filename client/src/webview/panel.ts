@@ -94,9 +94,10 @@ function fileName(uri: string): string {
 function renderSummary(d: PanelData): void {
   ui.summary.replaceChildren();
   const items: [string, string][] = [
+    ['closed loop', d.summary.closedLoop],
     ['UGF', isNum(d.summary.ugfHz) ? formatHz(d.summary.ugfHz) : '—'],
-    ['PM', isNum(d.summary.phaseMarginDeg) ? formatDeg(d.summary.phaseMarginDeg) : '—'],
-    ['GM', isNum(d.summary.gainMarginDb) ? formatDb(d.summary.gainMarginDb) : '—'],
+    ['phase margin', isNum(d.summary.phaseMarginDeg) ? formatDeg(d.summary.phaseMarginDeg) : '—'],
+    ['gain margin', isNum(d.summary.gainMarginDb) ? formatDb(d.summary.gainMarginDb) : '—'],
     ['DC gain', Number.isFinite(d.summary.dcGainDb) ? formatDb(d.summary.dcGainDb) : '—'],
     ['slew', isNum(d.summary.slewVperUs) ? `${d.summary.slewVperUs.toPrecision(3)} V/µs` : '—'],
   ];

@@ -1,5 +1,6 @@
 // Hover: what an element is, its value in display units, the poles and zeros it takes part in (with each
 // node's share), the hand estimate beside the exact value; for a requirement, measured against required.
+import { closedLoopSummary } from '../../../shared/src/format/closedLoop';
 import type { Hover } from 'vscode-languageserver';
 import type { DesignAnalysis } from '../../../shared/src/analysis/types';
 import { formatSi } from '../../../shared/src/format/si';
@@ -193,6 +194,8 @@ function body(design: DesignReport, target: Target): string[] | undefined {
       lines.push(
         `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, phase margin ${loop.phaseMarginDeg !== undefined ? `${loop.phaseMarginDeg.toFixed(1)}°` : '—'}, ` +
           `gain margin ${loop.gainMarginDb !== undefined ? `${loop.gainMarginDb.toFixed(1)} dB` : '—'}, DC gain ${gainDb(run.analysis.dcGain).toFixed(1)} dB`,
+        '',
+        closedLoopSummary(run.analysis),
       );
       const w = design.worst;
       if (design.runs.length > 1) {

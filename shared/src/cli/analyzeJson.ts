@@ -29,9 +29,25 @@ export interface CornerJson {
   readonly zeros: readonly { readonly re: Num; readonly im: Num; readonly hz: Num; readonly rhp: boolean }[];
   readonly dcGain: GainJson;
   readonly openLoopUgfHz: Num;
+  /** The closed loop's own poles and the stability verdict they give (null verdict: not computed). */
+  readonly closedLoop: {
+    readonly stability: 'stable' | 'unstable' | 'marginal' | null;
+    /** Right-half-plane poles of the open loop: when > 0, Bode margins do not decide stability. */
+    readonly openLoopRhpPoles: number | null;
+    readonly poles: readonly {
+      readonly re: Num;
+      readonly im: Num;
+      readonly hz: Num;
+      readonly damping: Num;
+    }[];
+  };
   readonly loop: {
     readonly dcGain: GainJson;
     readonly ugfHz: Num;
+    /** The lowest downward 0 dB crossing (equal to ugfHz unless the loop gain crosses 0 dB several times). */
+    readonly lowestUgfHz: Num;
+    /** Where the phase margin is read: the crossing with the smallest margin. */
+    readonly phaseMarginHz: Num;
     readonly phaseMarginDeg: Num;
     readonly gainMarginDb: Num;
     readonly phaseCrossoverHz: Num;
@@ -120,9 +136,24 @@ export function cornerJson(run: CornerRun): CornerJson {
     zeros: a.zeros.map((z) => ({ re: num(z.s.re), im: num(z.s.im), hz: num(z.hz), rhp: z.rhp })),
     dcGain: gain(a.dcGain),
     openLoopUgfHz: num(a.openLoopUgfHz),
+    closedLoop: {
+      stability: a.stability?.verdict ?? null,
+      openLoopRhpPoles: a.stability?.openLoopRhpPoles ?? null,
+      poles: (a.closedLoopPoles ?? []).map((p) => {
+        const m = Math.hypot(p.re, p.im);
+        return {
+          re: num(p.re),
+          im: num(p.im),
+          hz: num(m / (2 * Math.PI)),
+          damping: num(m === 0 ? 1 : -p.re / m),
+        };
+      }),
+    },
     loop: {
       dcGain: gain(a.loop.dcGain),
       ugfHz: num(a.loop.ugfHz),
+      lowestUgfHz: num(a.loop.lowestUgfHz),
+      phaseMarginHz: num(a.loop.phaseMarginHz),
       phaseMarginDeg: num(a.loop.phaseMarginDeg),
       gainMarginDb: num(a.loop.gainMarginDb),
       phaseCrossoverHz: num(a.loop.phaseCrossoverHz),

@@ -1,4 +1,5 @@
 // `analyze` without --json: readable tables of the exact results, one block per design.
+import { closedLoopVerdict } from '../format/closedLoop';
 import type { DesignAnalysis, Pole, Zero } from '../analysis/types';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
 import { CAUTION } from '../protocol/panelData';
@@ -65,7 +66,10 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
         ? DASH
         : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'}${formatHz(c.hz)}`).join(' '),
     ),
-    row('closed-loop peaking', (a) => dbText(a.loop.peakingDb)),
+    row('closed loop', (a) => closedLoopVerdict(a)),
+    row('closed-loop peaking', (a) =>
+      a.stability && a.stability.verdict !== 'stable' ? DASH : dbText(a.loop.peakingDb),
+    ),
     row('slew rate', (a) => opt(a.slew?.rate, slewText)),
     row(`settling${tol !== undefined ? ` (±${roundSignificant(tol * 100)} %)` : ''}`, (a) =>
       a.step
@@ -73,7 +77,9 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
           (a.step.tolerance !== tol ? ` (±${roundSignificant(a.step.tolerance * 100)} %)` : '')
         : DASH,
     ),
-    row('overshoot', (a) => (a.step ? `${roundSignificant(a.step.overshootPct)} %` : DASH)),
+    row('overshoot', (a) =>
+      a.step && a.stability?.verdict !== 'unstable' ? `${roundSignificant(a.step.overshootPct)} %` : DASH,
+    ),
   ];
 }
 
@@ -89,6 +95,19 @@ function rootsBlock(run: CornerRun): string[] {
   if (a.poles.length === 0) rows.push(['poles', 'none', '', '', '']);
   a.zeros.forEach((z, i) => rows.push([i === 0 ? 'zeros' : '', ...zeroCells(z)]));
   if (a.zeros.length === 0) rows.push(['zeros', 'none (finite)', '', '', '']);
+  // The closed loop's poles decide stability; shown beside the open loop's, upper half of each pair.
+  (a.closedLoopPoles ?? [])
+    .filter((p) => p.im >= 0)
+    .forEach((p, i) => {
+      const m = Math.hypot(p.re, p.im);
+      rows.push([
+        i === 0 ? 'closed-loop poles' : '',
+        rootText(p.re, p.im),
+        formatHz(m / (2 * Math.PI)),
+        roundSignificant(m === 0 ? 1 : -p.re / m, 3).toString(),
+        p.re > 0 ? 'right half-plane: unstable' : '',
+      ]);
+    });
   out.push(...table(['', 's / 2π', '|s| / 2π', 'ζ', 'where'], rows).map((l) => '    ' + l));
   const hand = a.hand ?? [];
   if (hand.length > 0) {

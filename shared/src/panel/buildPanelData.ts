@@ -1,6 +1,7 @@
 // Everything the pole-split panel draws, computed by the engine for one design: the locus of poles and
 // zeros against the compensation capacitor (from Cc = 0 to far past the written value), the loop gain, the
 // closed-loop step, and the roots with their node participation. Pure; the server calls it per request.
+import { closedLoopVerdict } from '../format/closedLoop';
 import { analyzeDesign, loopResponse, sweepCompensation, withValue } from '../analysis';
 import type { CancelToken, Complex, LocusPoint } from '../analysis/types';
 import type { DesignModel } from '../language/model';
@@ -220,7 +221,7 @@ export function buildPanelData(
       locus: { poles: [], zeros: [] },
       bode: { hz: [], magDb: [], phaseDeg: [], crossings: [] },
       step: { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
-      summary: { dcGainDb: gainDb(analysis.dcGain) },
+      summary: { closedLoop: 'not analysed', dcGainDb: gainDb(analysis.dcGain) },
       problems: analysis.problems.map((p) =>
         p.node && !p.message.includes(`'${p.node}'`) ? `${p.message} (node ${p.node})` : p.message,
       ),
@@ -247,7 +248,7 @@ export function buildPanelData(
   if (token?.isCancellationRequested) return undefined;
 
   const step = analysis.step;
-  const stable = analysis.closedLoopPoles?.every((p) => p.re < 0);
+  const stable = analysis.stability ? analysis.stability.verdict === 'stable' : undefined;
   return {
     ...base,
     poles: analysis.poles.map((p) => ({
@@ -282,6 +283,7 @@ export function buildPanelData(
         }
       : { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
     summary: {
+      closedLoop: closedLoopVerdict(analysis),
       ugfHz: analysis.loop.ugfHz,
       phaseMarginDeg: analysis.loop.phaseMarginDeg,
       gainMarginDb: analysis.loop.gainMarginDb,

@@ -93,6 +93,8 @@ export interface PanelData {
     readonly stable?: boolean;
   };
   readonly summary: {
+    /** The closed loop's verdict from its own poles, in words (`stable`, `UNSTABLE`, …). */
+    readonly closedLoop: string;
     readonly ugfHz?: number;
     readonly phaseMarginDeg?: number;
     readonly gainMarginDb?: number;
