@@ -17,7 +17,7 @@ export const RULES: Readonly<Record<CheckCode, RuleInfo>> = {
   'phase-margin': {
     name: 'PhaseMargin',
     short: 'Phase margin below the requirement',
-    help: "The phase margin, read from the exact loop gain at its last downward unity crossing, is below the design's `require pm` (or the phaseMargin setting). Raise the compensation capacitor, move the non-dominant pole up, or control the zero.",
+    help: "The phase margin, read from the exact loop gain at every unity crossing (the smallest, in (−180°, 180°]), is below the design's `require pm` (or the phaseMargin setting). Fixes solve a compensation capacitor on the phase margin itself.",
   },
   'gain-margin': {
     name: 'GainMargin',
@@ -27,7 +27,7 @@ export const RULES: Readonly<Record<CheckCode, RuleInfo>> = {
   'rhp-zero': {
     name: 'RightHalfPlaneZero',
     short: 'Right-half-plane zero too close to the unity-gain frequency',
-    help: 'A right-half-plane zero lies below rhpZeroFactor times the unity-gain frequency; it adds phase lag like a pole while raising the gain. With a Miller capacitor it sits at gm2/Cc; a series nulling resistor moves it to 1/(Cc(1/gm2 − Rz)).',
+    help: 'A right-half-plane zero lies below rhpZeroFactor times the unity-gain frequency; it adds phase lag like a pole while lifting the gain like a zero, which flattens the roll-off and pushes the crossover out. With a Miller capacitor it sits near gm/Cc of the stage it wraps; a series nulling resistor moves it to 1/(Cc(1/gm2 − Rz)).',
   },
   'gm-ratio': {
     name: 'SecondStageTransconductance',
