@@ -26,6 +26,9 @@ export function evaluate(
   sink: Reporter,
   sources: DimensionSources = () => [],
 ): Quantity | undefined {
+  // The common leaves first, before any helper is made for the operations below.
+  if (e.kind === 'number') return { value: e.value, dim: e.dim };
+  if (e.kind === 'ref') return resolve(e.name, e.range);
   const evalIn = (x: Expr): Quantity | undefined => evaluate(x, resolve, sink, sources);
   const dimensionError = (message: string, range: SourceRange, ...parts: Expr[]): undefined => {
     sink.error('unit', message, range, parts.flatMap(sources).slice(0, MAX_RELATED));
@@ -44,12 +47,8 @@ export function evaluate(
     return undefined;
   };
   switch (e.kind) {
-    case 'number':
-      return { value: e.value, dim: e.dim };
     case 'invalid':
       return undefined;
-    case 'ref':
-      return resolve(e.name, e.range);
     case 'group':
       return evalIn(e.inner);
     case 'neg': {

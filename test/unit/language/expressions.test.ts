@@ -356,6 +356,20 @@ describe('values at the limits of double precision', () => {
     expect(parseDocument(text).designs[0]!.nominal!.loads).toEqual([]);
   });
 
+  it('refuses it in a corner: at the override, and that corner alone has no model', () => {
+    const { text, ranges } = marked(
+      wrap(`${STAGE}\n  load cap = 1 pF\n  corner big load.cap = ⟦1e308 F⟧\n  corner fine load.cap = 2 pF`),
+    );
+    const doc = parseDocument(text);
+    expect(doc.diagnostics.map((d) => [d.code, d.severity, d.range])).toEqual([
+      ['plausibility', 'error', ranges[0]],
+    ]);
+    const [big, fine] = doc.designs[0]!.corners;
+    expect(big!.model).toBeUndefined();
+    expect(fine!.model!.loads[0]!.cap).toBe(2e-12);
+    expect(doc.designs[0]!.nominal!.loads[0]!.cap).toBe(1e-12);
+  });
+
   it('refuses an operation whose result a double cannot hold, at that operation', () => {
     const overflow = limit('  param p = ⟦1e200 * 1e200⟧');
     expect(overflow.message).toContain('too large to compute with');
