@@ -1,4 +1,6 @@
 // Check thresholds. Keys match the editor settings `ampnote.checks.<key>` and the CLI's --config file.
+import { settleToleranceProblem } from '../analysis/settleTolerance';
+
 export interface CheckSettings {
   /** Minimum phase margin, degrees, when the design states no `require pm`. */
   readonly phaseMargin: number;
@@ -36,12 +38,24 @@ export const DEFAULT_CHECK_SETTINGS: CheckSettings = {
   settleTolerance: 0.001,
 };
 
-/** Merge user values over the defaults, ignoring anything that is not a finite positive number. */
+/** Why `value` cannot be used for the setting `key` (words after the setting's name), or undefined. */
+export function settingProblem(key: keyof CheckSettings, value: unknown): string | undefined {
+  if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) return 'must be a positive number';
+  if (key === 'settleTolerance') {
+    const problem = settleToleranceProblem(value);
+    return problem === undefined ? undefined : `is refused: ${problem}`;
+  }
+  return undefined;
+}
+
+/** Merge user values over the defaults, ignoring any value settingProblem refuses. */
 export function resolveCheckSettings(partial: unknown): CheckSettings {
   const out: Record<string, number> = { ...DEFAULT_CHECK_SETTINGS };
   if (partial && typeof partial === 'object') {
     for (const [key, value] of Object.entries(partial as Record<string, unknown>)) {
-      if (key in out && typeof value === 'number' && Number.isFinite(value) && value > 0) out[key] = value;
+      if (key in out && settingProblem(key as keyof CheckSettings, value) === undefined) {
+        out[key] = value as number;
+      }
     }
   }
   return out as unknown as CheckSettings;

@@ -1,5 +1,10 @@
 // The --config file: check thresholds with the editor settings' keys. Pure: the caller reads the file.
-import { DEFAULT_CHECK_SETTINGS, resolveCheckSettings, type CheckSettings } from '../checks/settings';
+import {
+  DEFAULT_CHECK_SETTINGS,
+  resolveCheckSettings,
+  settingProblem,
+  type CheckSettings,
+} from '../checks/settings';
 
 export type ConfigResult =
   | { readonly ok: true; readonly settings: CheckSettings; readonly warnings: readonly string[] }
@@ -52,10 +57,13 @@ export function parseConfig(text: string): ConfigResult {
       if (where !== '' || !key.includes('.')) {
         warnings.push(`unknown setting "${where}${key}" ignored (known: ${KEYS.join(', ')})`);
       }
-    } else if (typeof value !== 'number' || !Number.isFinite(value) || value <= 0) {
-      warnings.push(
-        `setting "${where}${key}" must be a positive number; using the default ${DEFAULT_CHECK_SETTINGS[key as keyof CheckSettings]}`,
-      );
+    } else {
+      const problem = settingProblem(key as keyof CheckSettings, value);
+      if (problem !== undefined) {
+        warnings.push(
+          `setting "${where}${key}" ${problem}; using the default ${DEFAULT_CHECK_SETTINGS[key as keyof CheckSettings]}`,
+        );
+      }
     }
   }
   return { ok: true, settings: resolveCheckSettings(section), warnings };
