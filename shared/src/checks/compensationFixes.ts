@@ -4,6 +4,7 @@
 import type { DesignModel } from '../language/model';
 import type { CheckInput } from './context';
 import { knobsOf, type Knob } from './knobs';
+import { dominantPoleElement } from './locate';
 import { fixesFromKnobs, solveKnob, type RuleSlack } from './solveKnob';
 import type { FixSuggestion } from './types';
 
@@ -29,7 +30,15 @@ export function compensationKnobs(nominal: DesignModel): Knob[] {
 export function compensationFixes(input: CheckInput, rule: RuleSlack, goal: string): FixSuggestion[] {
   const nominal = input.source.nominal;
   if (!nominal || !input.engine) return [];
+  // A loop with no compensation capacitor is compensated where its dominant pole sits (a regulator's
+  // output capacitor): that capacitance is the knob.
   const knobs = compensationKnobs(nominal);
+  const nominalRun = input.runs.find((r) => r.corner === 'nominal');
+  if (!knobs.length && nominalRun) {
+    const element = dominantPoleElement(nominal, nominalRun.analysis);
+    const cap = element?.origin.fields['cap'];
+    if (element && cap) knobs.push(...knobsOf(nominal, cap, `cap of ${element.label}`));
+  }
   if (!knobs.length) return [];
   const outcomes = knobs.map((knob) =>
     solveKnob(input, knob, rule, (v, achieved) => `Set ${knob.name} = ${v} (${achieved})`),

@@ -66,18 +66,22 @@ export function compensationRange(
   run?: { readonly model: DesignModel; readonly analysis: DesignAnalysis },
 ): SourceRange {
   if (comp) return fieldRange(comp.item.origin, 'cc');
-  const origin = run && dominantPoleElement(run.model, run.analysis);
-  return origin ? fieldRange(origin, 'cap') : source.nameRange;
+  const element = run && dominantPoleElement(run.model, run.analysis);
+  return element ? fieldRange(element.origin, 'cap') : source.nameRange;
 }
 
 /** The statement (a load or a stage) at the node that takes the largest part in the lowest pole. */
-export function dominantPoleElement(model: DesignModel, analysis: DesignAnalysis): Origin | undefined {
+export function dominantPoleElement(
+  model: DesignModel,
+  analysis: DesignAnalysis,
+): { readonly origin: Origin; readonly label: string } | undefined {
   const lowest = sortedPoles(analysis.poles)[0];
   const node = lowest?.participation[0]?.node;
   if (node === undefined) return undefined;
   const load = model.loads.find((l) => l.node === node && l.cap !== undefined);
-  if (load) return load.origin;
-  return model.stages.find((s) => s.name === node)?.origin;
+  if (load) return { origin: load.origin, label: `load at ${node}` };
+  const stage = model.stages.find((s) => s.name === node);
+  return stage ? { origin: stage.origin, label: `stage ${stage.name}` } : undefined;
 }
 
 /** Poles sorted by magnitude, lowest first. */

@@ -67,9 +67,22 @@ export function solveKnob(
     memo.set(v, result);
     return result;
   };
-  const lo = knob.value / SPAN;
-  const hi = knob.value * SPAN;
-  const scan = feasibleWindows((v) => evaluate(v).slack, lo, hi, PER_DECADE);
+  let lo = knob.value / SPAN;
+  let hi = knob.value * SPAN;
+  const f = (v: number) => evaluate(v).slack;
+  let scan = feasibleWindows(f, lo, hi, PER_DECADE);
+  // The best value at an end of the scan means the rule improves beyond it: look once more that way.
+  if (!scan.windows.length && scan.best && scan.best.f > -Infinity) {
+    const atTop = scan.best.x >= hi / 1.5;
+    const atBottom = scan.best.x <= lo * 1.5;
+    if (atTop || atBottom) {
+      const [a, b] = atTop ? [hi, hi * SPAN] : [lo / SPAN, lo];
+      const more = feasibleWindows(f, a, b, PER_DECADE);
+      lo = Math.min(lo, a);
+      hi = Math.max(hi, b);
+      if (more.windows.length || (more.best && more.best.f > scan.best.f)) scan = more;
+    }
+  }
   const candidates: { x: number; towards: 'up' | 'down' }[] = [];
   for (const w of scan.windows) {
     if (w.loIsEdge) candidates.push({ x: w.lo, towards: 'up' });
