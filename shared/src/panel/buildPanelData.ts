@@ -1,9 +1,14 @@
 // Everything the pole-split panel draws, computed by the engine for one design: the locus of poles and
 // zeros against the compensation capacitor (from Cc = 0 to far past the written value), the loop gain, the
 // closed-loop step, and the roots with their node participation. Pure; the server calls it per request.
+import { hasCompensation, primaryCompensation } from '../analysis/compensation';
 import { closedLoopVerdict } from '../format/closedLoop';
 import { analyzeDesign, loopResponse, sweepCompensation, withValue } from '../analysis';
-import type { CancelToken, Complex, LocusPoint } from '../analysis/types';
+import { emptyAnalysis } from '../analysis/analyzeDesign';
+import type { CancelToken, Complex, DesignAnalysis, LocusPoint } from '../analysis/types';
+import { formatDcGain } from '../format/quantities';
+import { formatSi } from '../format/si';
+import { ANALYSABLE_MAGNITUDE } from '../language/valueRanges';
 import type { DesignModel } from '../language/model';
 import {
   CAUTION,
@@ -35,21 +40,16 @@ const BODE_MAX_POINTS = 600;
 
 type Target = CompensationTarget;
 
-/** Whether the design has that element (a choice kept from an earlier text may no longer exist). */
-export function hasCompensation(model: DesignModel, t: CompensationTarget): boolean {
-  const list = t.kind === 'miller' ? model.millers : model.buffered;
-  return Number.isInteger(t.index) && t.index >= 0 && t.index < list.length;
-}
+export { hasCompensation };
 
 /**
- * The element the sliders move: the requested one when the design has it, else the first Miller
- * capacitor, else the first buffered one.
+ * The element the sliders move: the requested one when the design has it, else the capacitor that the
+ * quick fixes treat as the design's compensation (primaryCompensation: the one into the output first).
  */
 export function sweptCompensation(model: DesignModel, requested?: CompensationTarget): Target | undefined {
   if (requested && hasCompensation(model, requested)) return { kind: requested.kind, index: requested.index };
-  if (model.millers.length > 0) return { kind: 'miller', index: 0 };
-  if (model.buffered.length > 0) return { kind: 'buffered', index: 0 };
-  return undefined;
+  const primary = primaryCompensation(model);
+  return primary ? { kind: primary.kind, index: primary.index } : undefined;
 }
 
 /** Every compensation element in the order the selector lists them: Miller capacitors, then buffered. */
@@ -167,6 +167,28 @@ function sliderRanges(model: DesignModel, target: Target, ccWritten: number, rzW
 }
 
 /**
+ * Why the slider values cannot be shown, or undefined when they can: a value must be finite and within the
+ * magnitudes a design may hold (the language's own limit), so that no request reaches the engine with a
+ * number it cannot represent.
+ */
+function sliderProblem(options: PanelOptions): string | undefined {
+  // Zero is allowed: for Cc it means "as written", for Rz "no nulling resistor".
+  const check = (value: number | undefined, what: 'Cc' | 'Rz') => {
+    if (value === undefined) return undefined;
+    if (!Number.isFinite(value)) return `the ${what} from the slider is not a finite number`;
+    if (value < 0) return `the ${what} from the slider must not be negative`;
+    if (value !== 0 && (value < ANALYSABLE_MAGNITUDE.low || value > ANALYSABLE_MAGNITUDE.high)) {
+      return (
+        `the ${what} from the slider (${formatSi(value, what === 'Cc' ? 'F' : 'ohm')}) lies outside the ` +
+        `magnitudes a design can hold (${ANALYSABLE_MAGNITUDE.low} to ${ANALYSABLE_MAGNITUDE.high} in SI units)`
+      );
+    }
+    return undefined;
+  };
+  return check(options.cc, 'Cc') ?? check(options.rz, 'Rz');
+}
+
+/**
  * PanelData for one design. `cc`/`rz` override the swept element as the sliders ask. Returns undefined when
  * the token is cancelled part-way (the caller drops the request).
  */
@@ -182,24 +204,38 @@ export function buildPanelData(
   let compensation: PanelData['compensation'];
   let ccShown: number | undefined;
   let rzShown: number | undefined;
+  // Slider values the engine cannot represent are refused (the sliders stay at the written values).
+  const refused = sliderProblem(options);
+  const cc = refused === undefined ? options.cc : undefined;
+  const rz = refused === undefined ? options.rz : undefined;
   if (target) {
     const written = target.kind === 'miller' ? model.millers[target.index]! : model.buffered[target.index]!;
     const rzWritten = target.kind === 'miller' ? model.millers[target.index]!.rz : undefined;
     const label = choices.find((c) => c.kind === target.kind && c.index === target.index)!.label;
     compensation = { kind: target.kind, index: target.index, ccWritten: written.cc, rzWritten, label };
-    if (options.cc !== undefined && options.cc > 0)
-      shown = withValue(shown, { ...target, field: 'cc' }, options.cc);
-    if (options.rz !== undefined && target.kind === 'miller')
-      shown = withValue(shown, { ...target, field: 'rz' }, options.rz);
-    ccShown = options.cc !== undefined && options.cc > 0 ? options.cc : written.cc;
-    rzShown = target.kind === 'miller' ? (options.rz ?? rzWritten) : undefined;
+    if (cc !== undefined && cc > 0) shown = withValue(shown, { ...target, field: 'cc' }, cc);
+    if (rz !== undefined && target.kind === 'miller')
+      shown = withValue(shown, { ...target, field: 'rz' }, rz);
+    ccShown = cc !== undefined && cc > 0 ? cc : written.cc;
+    rzShown = target.kind === 'miller' ? (rz ?? rzWritten) : undefined;
   }
 
   // The design's own settling requirement sets the band; the setting applies only when it states none.
   const stated = model.requirements.find((r) => r.kind === 'settle');
   const settleTolerance = stated?.kind === 'settle' ? stated.tolerance : options.settleTolerance;
-  const analysis = analyzeDesign(shown, settleTolerance !== undefined ? { settleTolerance } : {});
+  const analysis: DesignAnalysis =
+    refused !== undefined
+      ? emptyAnalysis([{ message: refused }])
+      : analyzeDesign(shown, settleTolerance !== undefined ? { settleTolerance } : {});
   if (token?.isCancellationRequested) return undefined;
+  const noStep = {
+    t: [],
+    y: [],
+    final: 0,
+    tolerance: settleTolerance ?? 0,
+    overshootPct: 0,
+    ...(analysis.stepUnavailable !== undefined ? { unavailable: analysis.stepUnavailable } : {}),
+  };
   const base = {
     uri,
     design: model.name,
@@ -220,7 +256,7 @@ export function buildPanelData(
       zeros: [],
       locus: { poles: [], zeros: [] },
       bode: { hz: [], magDb: [], phaseDeg: [], crossings: [] },
-      step: { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
+      step: noStep,
       summary: { closedLoop: 'not analysed', dcGainDb: gainDb(analysis.dcGain) },
       problems: analysis.problems.map((p) =>
         p.node && !p.message.includes(`'${p.node}'`) ? `${p.message} (node ${p.node})` : p.message,
@@ -281,13 +317,14 @@ export function buildPanelData(
           overshootPct: step.overshootPct,
           ...(stable !== undefined ? { stable } : {}),
         }
-      : { t: [], y: [], final: 0, tolerance: settleTolerance ?? 0, overshootPct: 0 },
+      : noStep,
     summary: {
       closedLoop: closedLoopVerdict(analysis),
       ugfHz: analysis.loop.ugfHz,
       phaseMarginDeg: analysis.loop.phaseMarginDeg,
       gainMarginDb: analysis.loop.gainMarginDb,
       dcGainDb: gainDb(analysis.dcGain),
+      dcGainText: formatDcGain(analysis.dcGain),
       slewVperUs: analysis.slew ? analysis.slew.rate / 1e6 : undefined,
     },
     problems: [],

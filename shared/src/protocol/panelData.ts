@@ -1,4 +1,5 @@
 // The panel's data, computed by the engine in the server and drawn by the webview. Plain JSON only.
+import type { CompensationElement } from '../analysis/compensation';
 import type { Complex, Crossing, Participation } from '../analysis/types';
 
 export const CAUTION =
@@ -35,12 +36,8 @@ export interface SliderRange {
   readonly max: number;
 }
 
-/** One compensation element of a design, as the panel's selector lists it. */
-export interface CompensationTarget {
-  readonly kind: 'miller' | 'buffered';
-  /** Position among the design's elements of that kind, in the order written. */
-  readonly index: number;
-}
+/** One compensation element of a design, as the panel's selector lists it (the core's one definition). */
+export type CompensationTarget = CompensationElement;
 
 export interface CompensationChoice extends CompensationTarget {
   /** The element as the designer knows it, e.g. `miller second -> third`. */
@@ -91,6 +88,8 @@ export interface PanelData {
     readonly overshootPct: number;
     /** False when a closed-loop pole lies in the right half-plane: the response grows, no band applies. */
     readonly stable?: boolean;
+    /** Why there is no step response (the arrays are then empty), in words for the designer. */
+    readonly unavailable?: string;
   };
   readonly summary: {
     /** The closed loop's verdict from its own poles, in words (`stable`, `UNSTABLE`, …). */
@@ -99,6 +98,8 @@ export interface PanelData {
     readonly phaseMarginDeg?: number;
     readonly gainMarginDb?: number;
     readonly dcGainDb: number;
+    /** The DC gain as people read it, including the exact states ±∞ dB stands for (no DC path, integrator). */
+    readonly dcGainText?: string;
     readonly slewVperUs?: number;
   };
   /** Modelling problems that stopped the analysis (then the charts are empty). */
