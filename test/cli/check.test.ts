@@ -27,7 +27,8 @@ describe('exit status', () => {
     const r = cli(['check', rel('clean.ampnote')]);
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
-    expect(r.stdout).toBe('1 file, 1 design, 0 errors, 0 warnings\n');
+    // The summary, then the small-signal caution (docs/cli.md, text format).
+    expect(r.stdout).toMatch(/^1 file, 1 design, 0 errors, 0 warnings\nNote: Small-signal[^]*practice\.\n$/);
   });
 
   it('is 1 when a finding is an error', () => {
@@ -192,11 +193,15 @@ describe('text output', () => {
       expect(shown).toContain('\r\x1b[K[1/6] checking d1.ampnote');
       expect(shown).toContain('\r\x1b[K[6/6] checking d6.ampnote');
       // Erased before the summary is printed.
-      expect(shown).toMatch(/\r\x1b\[K6 files, 6 designs, 0 errors, 0 warnings\r?\n$/);
+      expect(shown).toMatch(
+        /\r\x1b\[K6 files, 6 designs, 0 errors, 0 warnings\r?\nNote: Small-signal[^\x1b]*$/,
+      );
       expect(onTerminal(' --quiet')).toBe('');
       const piped = cli(['check', '.'], dir.path);
       expect(piped.stderr).toBe('');
-      expect(piped.stdout).toBe('6 files, 6 designs, 0 errors, 0 warnings\n');
+      expect(piped.stdout).toMatch(
+        /^6 files, 6 designs, 0 errors, 0 warnings\nNote: Small-signal[^\r\x1b]*$/,
+      );
     } finally {
       dir.remove();
     }
@@ -247,6 +252,7 @@ describe('--format json', () => {
 
   it('has the documented top-level shape', () => {
     expect(Object.keys(json).sort()).toEqual([
+      'caution',
       'exitCode',
       'files',
       'problems',

@@ -76,7 +76,7 @@ export function runAnalyze(cmd: AnalyzeCommand, ctx: CliContext): number {
       ) + '\n'
     : fileLevelText(path, report) + formatAnalyzeText(path, report, designs);
   if (cmd.output !== undefined) {
-    const error = writeOutput(ctx.cwd, cmd.output, body, [cmd.file]);
+    const error = writeOutput(ctx.cwd, cmd.output, body, [cmd.file], cmd.config);
     if (error) {
       warn(ctx.streams, `ampnote: ${error}`);
       return EXIT_USAGE;

@@ -9,6 +9,8 @@ import { sarifLog } from './formatSarif';
 import { formatFileText } from './formatText';
 import { readText, writeOutput, warn } from './io';
 import { createProgress } from './progress';
+import { CAUTION } from '../protocol/panelData';
+import { wrapWords } from './wrap';
 import { exitCodeOf, summarize, summaryLine, EXIT_USAGE, type FileResult, type RunResult } from './run';
 
 type CheckCommand = Extract<Command, { kind: 'check' }>;
@@ -72,7 +74,9 @@ export function runCheck(cmd: CheckCommand, ctx: CliContext): number {
   let body: string;
   switch (cmd.format) {
     case 'text':
-      body = textLines.map((l) => l + '\n').join('') + (cmd.quiet ? '' : summaryLine(summary) + '\n');
+      body =
+        textLines.map((l) => l + '\n').join('') +
+        (cmd.quiet ? '' : `${summaryLine(summary)}\n${wrapWords(`Note: ${CAUTION}`).join('\n')}\n`);
       break;
     case 'json':
       body = JSON.stringify(checkJson(run, ctx.version), null, 2) + '\n';
@@ -87,7 +91,7 @@ export function runCheck(cmd: CheckCommand, ctx: CliContext): number {
       break;
   }
   if (cmd.output !== undefined) {
-    const error = writeOutput(ctx.cwd, cmd.output, body, discovery.files);
+    const error = writeOutput(ctx.cwd, cmd.output, body, discovery.files, cmd.config);
     if (error) {
       warn(ctx.streams, `ampnote: ${error}`);
       return EXIT_USAGE;

@@ -1,6 +1,7 @@
 // `check --format json`: findings as plain data (schemaVersion 1, documented in docs/cli.md).
 import type { Finding } from '../checks/types';
 import type { SourceRange } from '../language/source';
+import { CAUTION } from '../protocol/panelData';
 import { exitCodeOf, oneBased, sortedFindings, summarize, type RunResult, type Summary } from './run';
 
 export const SCHEMA_VERSION = 1;
@@ -48,6 +49,8 @@ export interface CheckJson {
   readonly problems: readonly { readonly path: string; readonly message: string }[];
   readonly summary: Summary;
   readonly exitCode: number;
+  /** What the results are and are not (the same text as `analyze --json`). */
+  readonly caution: string;
 }
 
 export function placeJson(range: SourceRange): PlaceJson {
@@ -92,5 +95,6 @@ export function checkJson(run: RunResult, version: string): CheckJson {
     problems: run.problems.map((p) => ({ path: p.path, message: p.message })),
     summary,
     exitCode: exitCodeOf(summary),
+    caution: CAUTION,
   };
 }

@@ -4,6 +4,7 @@ import { pathToFileURL } from 'node:url';
 import type * as Sarif from 'sarif';
 import { CHECK_CODES, type Finding, type Severity } from '../checks/types';
 import type { SourceRange } from '../language/source';
+import { CAUTION } from '../protocol/panelData';
 import { RULES } from './rules';
 import { exitCodeOf, oneBased, sortedFindings, summarize, type RunResult } from './run';
 
@@ -74,6 +75,8 @@ export function sarifLog(run: RunResult, ctx: SarifContext): Sarif.Log {
         columnKind: 'utf16CodeUnits',
         artifacts,
         results,
+        // SARIF 2.1.0 §3.8: a property bag carries what the format has no field for.
+        properties: { caution: CAUTION },
       },
     ],
   };

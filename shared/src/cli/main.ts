@@ -14,6 +14,11 @@ import { EXIT_OK, EXIT_USAGE } from './run';
 import { usage } from './usage';
 
 export function main(argv: readonly string[], streams: Streams, cwd: string, packageRoot: string): number {
+  // No command at all is a mistake in a script: the usage goes where errors go, with the usage status.
+  if (argv.length === 0) {
+    streams.stderr.write(usage());
+    return EXIT_USAGE;
+  }
   const parsed = parseArgs(argv);
   if (!parsed.ok) {
     warn(streams, `ampnote: ${parsed.error}`);

@@ -15,7 +15,8 @@ type ReportCommand = Extract<Command, { kind: 'report' }>;
 export function runReport(cmd: ReportCommand, ctx: CliContext): number {
   // The chart bundle first: without it there is no report to write, and nothing should be analysed in vain.
   const bundlePath = join(ctx.packageRoot, 'dist', 'charts.js');
-  const bundle = readText(bundlePath);
+  // Our own file, not an input: no size limit.
+  const bundle = readText(bundlePath, Number.POSITIVE_INFINITY);
   if (!bundle.ok) {
     warn(
       ctx.streams,
@@ -57,7 +58,7 @@ export function runReport(cmd: ReportCommand, ctx: CliContext): number {
     fileFindings: report.findings.filter((f) => f.design === undefined),
     chartsScript: bundle.text,
   });
-  const error = writeOutput(ctx.cwd, cmd.output, html, [cmd.file]);
+  const error = writeOutput(ctx.cwd, cmd.output, html, [cmd.file], cmd.config);
   if (error) {
     warn(ctx.streams, `ampnote: ${error}`);
     return EXIT_USAGE;

@@ -1,4 +1,8 @@
 // Help texts for `ampnote --help` and `ampnote <command> --help`.
+import { CAUTION } from '../protocol/panelData';
+import { wrapWords } from './wrap';
+
+const wrap = (text: string) => wrapWords(text).join('\n');
 
 const OVERVIEW = `ampnote — checks amplifier design-intent files (.ampnote) from the terminal
 
@@ -12,7 +16,7 @@ Usage:
 Exit status: 0 no error-level finding, 1 at least one error-level finding,
              2 bad usage, an unreadable input or an output that could not be written.
 
-Results are small-signal, linear estimates at one operating point.
+${wrap(CAUTION)}
 See docs/cli.md for every option and the JSON shapes.
 `;
 
@@ -29,6 +33,9 @@ Options:
   -o, --output FILE     write the output to FILE instead of standard output
   -q, --quiet           no progress line and no summary
   -h, --help            this help
+
+The summary, the JSON (\`caution\`) and the SARIF run (properties.caution) carry this caution:
+${wrap(CAUTION)}
 `;
 
 const ANALYZE = `Usage: ampnote analyze FILE [options]
