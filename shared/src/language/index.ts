@@ -12,6 +12,7 @@ export {
   FIELD_DIMENSIONS,
 } from './vocabulary';
 export { UNIT_SPELLINGS, PREFIX_SCALES } from './unitTable';
+export { FUNCTION_NAMES, FUNCTION_SIGNATURES } from './expressionFunctions';
 /** Words that cannot be declared as a parameter, stage, node or corner name. */
 export { RESERVED_NAMES } from './parseStatement';
 export type * from './model';

@@ -450,7 +450,7 @@ export class ModelBuilder {
         if (!live(s) || !own) return;
         const input: NodeRef | undefined = s.from ? this.resolveNode(s.from) : { kind: 'node', name: prev };
         const f = fieldsOf(s, [
-          ['gm', 'S', 'gm'],
+          ['gm', 'S', 'gm-stage'],
           ['rout', 'ohm', 'rout'],
           ['cap', 'F', 'cap'],
           ['bias', 'A', 'bias'],

@@ -110,9 +110,15 @@ export function checkValue(
     );
   switch (role) {
     case 'gm':
+    case 'gm-stage':
       if (value < 0)
         return impossible(
           `A transconductance cannot be negative: write ${name} as a positive value and add \`inverting\`.`,
+        );
+      // A stage without gain leaves the amplifier without gain: no rule's verdict on it would mean anything.
+      if (value === 0 && role === 'gm-stage')
+        return impossible(
+          `A stage's ${name} of zero leaves the amplifier without gain; it must be positive.`,
         );
       if (value === 0) {
         sink.warning('plausibility', `${name} is zero: this path carries no signal.`, range);

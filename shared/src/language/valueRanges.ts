@@ -3,6 +3,7 @@
 // common practice for integrated amplifiers, kept wide enough for board-level loads.
 
 export type ValueRole =
+  | 'gm-stage'
   | 'gm'
   | 'gm-buffer'
   | 'rout'
@@ -38,6 +39,15 @@ export interface ValueRange {
 }
 
 export const VALUE_RANGES: Readonly<Record<ValueRole, ValueRange>> = {
+  'gm-stage': {
+    unit: 'S',
+    low: 1e-9,
+    high: 1,
+    typical: 1e-4,
+    what: 'a transconductance',
+    noun: 'transconductance',
+    fields: '`gm` of a stage',
+  },
   gm: {
     unit: 'S',
     low: 1e-9,
@@ -45,7 +55,7 @@ export const VALUE_RANGES: Readonly<Record<ValueRole, ValueRange>> = {
     typical: 1e-4,
     what: 'a transconductance',
     noun: 'transconductance',
-    fields: '`gm` of a stage and of `feedforward`, `element gm`',
+    fields: '`gm` of `feedforward`, `element gm`',
   },
   'gm-buffer': {
     unit: 'S',

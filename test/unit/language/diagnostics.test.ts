@@ -428,6 +428,13 @@ const cases: Case[] = [
     'A transconductance cannot be negative: write `gm` as a positive value and add `inverting`.',
   ],
   [
+    'zero gm of a stage',
+    d('  stage t gm = ⟦0 mS⟧ rout = 1 Mohm'),
+    'plausibility',
+    'error',
+    "A stage's `gm` of zero leaves the amplifier without gain; it must be positive.",
+  ],
+  [
     'zero gm',
     d('  feedforward in -> s gm = ⟦0⟧'),
     'plausibility',
