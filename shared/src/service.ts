@@ -3,9 +3,6 @@
 import {
   analyzeCorners,
   analyzeDesign,
-  solveCcForNondominantPole,
-  solveCcForPhaseMargin,
-  solveGmForZero,
   solveRzForZeroAtInfinity,
   solveRzToCancelPole,
 } from './analysis';
@@ -29,11 +26,8 @@ import { splitLines } from './text/lines';
 export const ENGINE: CheckEngine = {
   // Fix re-checks read poles, zeros and loop margins only: no step response, no participation.
   analyze: (model) => analyzeDesign(model, { step: false, participation: false }),
-  solveCcForPhaseMargin,
-  solveCcForNondominantPole,
   solveRzForZeroAtInfinity,
   solveRzToCancelPole,
-  solveGmForZero,
 };
 
 export interface AnalysisCacheOptions {

@@ -9,15 +9,9 @@ export {
   loopResponsePz,
   type BodeResult,
 } from './responses';
-export { withValue, withStageGm, valueOf, type CompensationTarget } from './variants';
+export { withValue, valueOf, type CompensationTarget } from './variants';
 export { sweepCompensation } from './sweep';
-export {
-  solveCcForPhaseMargin,
-  solveCcForNondominantPole,
-  solveRzForZeroAtInfinity,
-  solveRzToCancelPole,
-  solveGmForZero,
-} from './synthesis';
+export { solveRzForZeroAtInfinity, solveRzToCancelPole } from './synthesis';
 export { analyzeCorners, worstCase } from './corners';
 export { classicTwoStage, type ClassicTwoStage } from './handEstimates';
 export type * from './types';

@@ -1,9 +1,11 @@
 // Pure variants of a model with one value changed: what the sweeps, the synthesis and quick fixes vary.
 import type { DesignModel } from '../language/model';
-import type { Farads, Ohms, Siemens } from '../units';
+import type { Farads, Ohms } from '../units';
 
-/** A compensation value of the model: a Miller capacitor's cc or rz, or a buffered capacitor's cc. */
-export type CompensationTarget = { kind: 'miller' | 'buffered'; index: number; field: 'cc' | 'rz' };
+import type { CompensationValue } from './compensation';
+
+/** A compensation value of the model (kept under the name the sweeps and synthesis use). */
+export type CompensationTarget = CompensationValue;
 
 /** The model with one compensation value replaced; the model itself is not changed. */
 export function withValue(model: DesignModel, target: CompensationTarget, value: number): DesignModel {
@@ -18,13 +20,6 @@ export function withValue(model: DesignModel, target: CompensationTarget, value:
   if (!model.buffered[target.index] || target.field !== 'cc') return model;
   const buffered = model.buffered.map((b, i) => (i === target.index ? { ...b, cc: value as Farads } : b));
   return { ...model, buffered };
-}
-
-/** The model with stage `stageIndex`'s transconductance replaced. */
-export function withStageGm(model: DesignModel, stageIndex: number, gm: number): DesignModel {
-  if (!model.stages[stageIndex]) return model;
-  const stages = model.stages.map((s, i) => (i === stageIndex ? { ...s, gm: gm as Siemens } : s));
-  return { ...model, stages };
 }
 
 /** The current value of a compensation target (undefined when the target does not exist). */

@@ -5,13 +5,6 @@ import type { CornerRun } from '../report';
 import type { CheckSettings } from './settings';
 import type { Finding } from './types';
 
-/** One compensation value of a design: the `cc` or `rz` of its `index`-th Miller or buffered capacitor. */
-export interface CompensationTarget {
-  readonly kind: 'miller' | 'buffered';
-  readonly index: number;
-  readonly field: 'cc' | 'rz';
-}
-
 /**
  * The exact-model operations fixes are solved and re-checked with. The facade hands in the analysis
  * engine; without one, checks still report findings but offer no fixes (a fix is never estimated by a
@@ -19,11 +12,8 @@ export interface CompensationTarget {
  */
 export interface CheckEngine {
   analyze(model: DesignModel, token?: CancelToken): DesignAnalysis;
-  solveCcForPhaseMargin(model: DesignModel, millerIndex: number, deg: number): SynthesisResult;
-  solveCcForNondominantPole(model: DesignModel, millerIndex: number, factor: number): SynthesisResult;
   solveRzForZeroAtInfinity(model: DesignModel, millerIndex: number): SynthesisResult;
   solveRzToCancelPole(model: DesignModel, millerIndex: number): SynthesisResult;
-  solveGmForZero(model: DesignModel, stageIndex: number, factor: number): SynthesisResult;
 }
 
 export interface CheckInput {

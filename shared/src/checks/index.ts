@@ -19,7 +19,7 @@ import { stabilityCheck } from './stability';
 import type { CheckCode, Finding } from './types';
 import { unityGainCheck } from './unityGain';
 
-export type { Check, CheckEngine, CheckInput, CompensationTarget } from './context';
+export type { Check, CheckEngine, CheckInput } from './context';
 
 /** Every design rule with its code, in the order findings are listed. */
 export const ALL_CHECKS: readonly (readonly [CheckCode, Check])[] = [

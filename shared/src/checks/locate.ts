@@ -1,10 +1,8 @@
 // Where a finding goes: the compensation element, the stages around it, a requirement, a field's range.
 import type {
-  BufferedCap,
   DesignModel,
   DesignSource,
   FieldOrigin,
-  Miller,
   NodeName,
   Origin,
   Requirement,
@@ -14,18 +12,8 @@ import type {
 import type { SourceRange } from '../language/source';
 import type { DesignAnalysis } from '../analysis/types';
 
-export type Compensation =
-  | { readonly kind: 'miller'; readonly index: number; readonly item: Miller }
-  | { readonly kind: 'buffered'; readonly index: number; readonly item: BufferedCap };
-
-/** The capacitor that sets the dominant pole: a Miller capacitor into the output, else the first one. */
-export function primaryCompensation(model: DesignModel): Compensation | undefined {
-  const intoOutput = model.millers.findIndex((m) => m.to === model.output);
-  if (intoOutput >= 0) return { kind: 'miller', index: intoOutput, item: model.millers[intoOutput]! };
-  if (model.millers.length) return { kind: 'miller', index: 0, item: model.millers[0]! };
-  if (model.buffered.length) return { kind: 'buffered', index: 0, item: model.buffered[0]! };
-  return undefined;
-}
+export { primaryCompensation, type Compensation } from '../analysis/compensation';
+import type { Compensation } from '../analysis/compensation';
 
 /** The stage whose output node is `node`, with its index. */
 export function stageAt(model: DesignModel, node: NodeName): { stage: Stage; index: number } | undefined {
