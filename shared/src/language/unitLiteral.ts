@@ -94,6 +94,12 @@ function readUnit(c: Cursor, ctx: ExpressionContext, num: Token): UnitWord | und
         `Write ${quote(`${num.text} * ${u.text}(…)`)} to multiply by a function.`,
         tokenRange(u),
       );
+      // The call's arguments belong to this mistake: skip them rather than report them again.
+      for (let depth = 0; !c.atEnd();) {
+        const t = c.next()!;
+        if (t.kind === 'op' && t.text === '(') depth++;
+        else if (t.kind === 'op' && t.text === ')' && --depth === 0) break;
+      }
       return 'failed';
     }
     ctx.sink.error(

@@ -188,6 +188,9 @@ describe('functions', () => {
     expect(diagnostics('  param x = min(1)')[0]!.message).toBe(
       '`min` takes 2 or more values: `min(a, b, …)`.',
     );
+    expect(diagnostics('  param x = 2 sqrt(4)').map((d) => d.message)).toEqual([
+      'Write `2 * sqrt(…)` to multiply by a function.',
+    ]);
     expect(diagnostics('  param x = 2 sqrt(4)')[0]!.message).toBe(
       'Write `2 * sqrt(…)` to multiply by a function.',
     );
