@@ -163,6 +163,22 @@ export function rerunEdited(
 ): CornerRun[] | undefined {
   const text = editDesignText(source, edits);
   if (text === undefined) return undefined;
+  // The rules of one design scan the same knob values (the scan grid depends only on the knob), so
+  // their analyses are shared: kept per design source while its fixes are being solved.
+  let memo = RERUNS.get(source);
+  if (!memo) RERUNS.set(source, (memo = new Map()));
+  if (memo.has(text)) return memo.get(text);
+  const runs = analyzeEditedText(text, engine);
+  if (memo.size >= RERUN_MEMO_LIMIT) memo.delete(memo.keys().next().value!);
+  memo.set(text, runs);
+  return runs;
+}
+
+/** Analyses of edited design texts, per design source (dropped with it). */
+const RERUNS = new WeakMap<DesignSource, Map<string, CornerRun[] | undefined>>();
+const RERUN_MEMO_LIMIT = 400;
+
+function analyzeEditedText(text: string, engine: CheckEngine): CornerRun[] | undefined {
   const parsed = parseDocument(text);
   const design = parsed.designs[0];
   if (

@@ -24,10 +24,10 @@ export type KnobOutcome =
 /** How far from the present value the scan looks, each way (a factor). */
 const SPAN = 100;
 /**
- * Scan density: 8 a decade resolves any window wider than 0.125 decade directly; narrower ones show as a
+ * Scan density: 6 a decade resolves any window wider than 1/6 decade directly; narrower ones show as a
  * near-miss maximum, which feasibleWindows refines.
  */
-const PER_DECADE = 8;
+const PER_DECADE = 6;
 /** Window edges tried, nearest first. */
 const MAX_CANDIDATES = 4;
 
@@ -70,6 +70,18 @@ export function solveKnob(
   let lo = knob.value / SPAN;
   let hi = knob.value * SPAN;
   const f = (v: number) => evaluate(v).slack;
+  // A knob that moves nothing where the rule fails (a corner that sets its own value) needs no scan.
+  const now = worstRun(rule, input.runs);
+  const ends = [evaluate(lo), evaluate(hi)];
+  if (ends.every((e) => e.runs && sameSlack(worstRun(rule, e.runs).slack, now.slack))) {
+    return {
+      ok: false,
+      reason:
+        now.run.corner === 'nominal'
+          ? `changing ${knob.name} leaves it unchanged`
+          : `changing ${knob.name} leaves it unchanged in corner ${now.run.corner}, where it fails (a corner that overrides a value keeps its own)`,
+    };
+  }
   let scan = feasibleWindows(f, lo, hi, PER_DECADE);
   // The best value at an end of the scan means the rule improves beyond it: look once more that way.
   if (!scan.windows.length && scan.best && scan.best.f > -Infinity) {
@@ -125,6 +137,9 @@ export function solveKnob(
 }
 
 const round3 = (x: number) => Number(x.toPrecision(3));
+
+const sameSlack = (a: number, b: number) =>
+  a === b || Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b));
 
 /** 3-significant-digit values at and beyond `x` in the direction that goes into its window. */
 function roundedTowards(x: number, towards: 'up' | 'down'): number[] {
