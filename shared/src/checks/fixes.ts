@@ -164,9 +164,11 @@ export function rerunEdited(
   const text = editDesignText(source, edits);
   if (text === undefined) return undefined;
   // The rules of one design scan the same knob values (the scan grid depends only on the knob), so
-  // their analyses are shared: kept per design source while its fixes are being solved.
-  let memo = RERUNS.get(source);
-  if (!memo) RERUNS.set(source, (memo = new Map()));
+  // their analyses are shared: kept per engine and design source while its fixes are being solved.
+  let byEngine = RERUNS.get(engine);
+  if (!byEngine) RERUNS.set(engine, (byEngine = new WeakMap()));
+  let memo = byEngine.get(source);
+  if (!memo) byEngine.set(source, (memo = new Map()));
   if (memo.has(text)) return memo.get(text);
   const runs = analyzeEditedText(text, engine);
   if (memo.size >= RERUN_MEMO_LIMIT) memo.delete(memo.keys().next().value!);
@@ -174,8 +176,8 @@ export function rerunEdited(
   return runs;
 }
 
-/** Analyses of edited design texts, per design source (dropped with it). */
-const RERUNS = new WeakMap<DesignSource, Map<string, CornerRun[] | undefined>>();
+/** Analyses of edited design texts, per engine and design source (dropped with them). */
+const RERUNS = new WeakMap<CheckEngine, WeakMap<DesignSource, Map<string, CornerRun[] | undefined>>>();
 const RERUN_MEMO_LIMIT = 400;
 
 function analyzeEditedText(text: string, engine: CheckEngine): CornerRun[] | undefined {

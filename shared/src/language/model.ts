@@ -157,6 +157,23 @@ export interface Param {
   readonly value: number;
   readonly dimension: string;
   readonly origin: Origin;
+  /** Set by `free LOW .. HIGH`: the range (SI, same dimension) within which the solve may move the value. */
+  readonly free?: FreeRange;
+}
+
+export interface FreeRange {
+  readonly low: number;
+  readonly high: number;
+  /** The `free LOW .. HIGH` clause in the text. */
+  readonly range: SourceRange;
+}
+
+/** `minimize EXPR`: what the solve makes small, evaluated in this model. */
+export interface Objective {
+  readonly value: number;
+  /** The expression as written. */
+  readonly text: string;
+  readonly origin: Origin;
 }
 
 /** One evaluated variant of a design: the nominal one, or a corner with its overrides applied. */
@@ -178,6 +195,8 @@ export interface DesignModel {
   readonly betaOrigin?: Origin;
   readonly requirements: readonly Requirement[];
   readonly params: readonly Param[];
+  /** The design's `minimize` statement, when written (see solve/objective.ts for the default). */
+  readonly minimize?: Objective;
 }
 
 /** A name a design declares, with every place it is used: for hover, go to definition and rename. */
