@@ -31,7 +31,7 @@ describe('server fuzz', () => {
   it('answers random documents without a crash, a hang, a bad word or a range outside the text', async () => {
     const figures = await fuzzServer({
       seed: 20240611,
-      documents: 30,
+      documents: 40,
       requestsPerDocument: 6,
       boundMs: 20_000,
     });

@@ -3,6 +3,7 @@
 import type { DesignAnalysis, Pole, Zero } from '../../../shared/src/analysis/types';
 import { measure, type Measurement } from '../../../shared/src/checks/measure';
 import { formatHz } from '../../../shared/src/format/si';
+import { fixedNumber } from '../../../shared/src/format/special';
 import type { Requirement } from '../../../shared/src/language/model';
 import type { CornerRun, DesignReport } from '../../../shared/src/report';
 
@@ -17,7 +18,7 @@ export const shownPoles = (poles: readonly Pole[]): Pole[] =>
 
 export function poleText(p: Pole): string {
   const unstable = p.s.re > 0;
-  return `${formatHz(p.hz)}${isComplex(p) ? ` (pair, ζ = ${p.damping.toFixed(2)})` : ''}${unstable ? ' (unstable)' : ''}`;
+  return `${formatHz(p.hz)}${isComplex(p) ? ` (pair, ζ = ${fixedNumber(p.damping, 2)})` : ''}${unstable ? ' (unstable)' : ''}`;
 }
 
 export function zeroText(z: Zero): string {

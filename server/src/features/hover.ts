@@ -3,7 +3,9 @@
 import { closedLoopSummary } from '../../../shared/src/format/closedLoop';
 import type { Hover } from 'vscode-languageserver';
 import type { DesignAnalysis } from '../../../shared/src/analysis/types';
-import { formatSi } from '../../../shared/src/format/si';
+import { formatDb, formatDeg, formatSi } from '../../../shared/src/format/si';
+import { formatDcGain } from '../../../shared/src/format/quantities';
+import { fixedNumber, plainNumber } from '../../../shared/src/format/special';
 import type { SourcePosition } from '../../../shared/src/language/source';
 import { CAUTION } from '../../../shared/src/protocol/panelData';
 import type { DocumentReport, DesignReport } from '../../../shared/src/report';
@@ -12,7 +14,6 @@ import { designAt } from '../../../shared/src/service';
 import { toRange } from '../convert';
 import { nominal, poleText, polesOf, requirementAcrossRuns, sortedByHz, zeroText } from './describe';
 import { statementAt, targetAt, type Target } from './target';
-import { gainDb } from '../../../shared/src/units';
 
 const UNIT_OF_DIMENSION: Record<string, string> = {
   ohm: 'ohm',
@@ -26,12 +27,12 @@ const UNIT_OF_DIMENSION: Record<string, string> = {
 };
 
 function valueText(value: number, dimension: string): string {
-  if (dimension === 'deg') return `${+value.toPrecision(4)} deg`;
-  if (dimension === 'dB') return `${+value.toPrecision(4)} dB`;
-  if (dimension === '1') return `${+value.toPrecision(4)}`;
-  if (dimension === 'ugf') return `${+value.toPrecision(4)} × UGF`;
+  if (dimension === 'deg') return `${plainNumber(value, 4)} deg`;
+  if (dimension === 'dB') return `${plainNumber(value, 4)} dB`;
+  if (dimension === '1') return plainNumber(value, 4);
+  if (dimension === 'ugf') return `${plainNumber(value, 4)} × UGF`;
   const unit = UNIT_OF_DIMENSION[dimension];
-  return unit ? formatSi(value, unit) : `${+value.toPrecision(4)} ${dimension}`;
+  return unit ? formatSi(value, unit) : `${plainNumber(value, 4)} ${dimension}`;
 }
 
 function poleLines(analysis: DesignAnalysis, nodes: string[]): string[] {
@@ -65,7 +66,7 @@ function handLines(analysis: DesignAnalysis): string[] {
     'Hand estimate vs exact:',
     ...analysis.hand.map((h) => {
       const hand = Number.isFinite(h.hand) ? formatSi(h.hand / (2 * Math.PI), 'Hz') : '∞';
-      const pct = Number.isFinite(h.relativeError) ? ` (${(h.relativeError * 100).toFixed(1)} % off)` : '';
+      const pct = Number.isFinite(h.relativeError) ? ` (${fixedNumber(h.relativeError * 100, 1)} % off)` : '';
       return `- ${HAND_LABEL[h.quantity]}: \`${h.formula}\` = ${hand}, exact ${formatSi(h.exact / (2 * Math.PI), 'Hz')}${pct}`;
     }),
   ];
@@ -102,7 +103,7 @@ function body(design: DesignReport, target: Target): string[] | undefined {
         `**stage ${s.name}** (${s.polarity}, input ${s.input.kind === 'ground' ? 'ground' : s.input.name})`,
         `gm = ${formatSi(s.gm, 'S')}, rout = ${formatSi(s.rout, 'ohm')}, cap = ${formatSi(s.cap, 'F')}` +
           (s.bias !== undefined ? `, bias = ${formatSi(s.bias, 'A')}` : '') +
-          ` — DC gain gm·rout = ${+(s.gm * s.rout).toPrecision(3)} V/V`,
+          ` — DC gain gm·rout = ${plainNumber(s.gm * s.rout, 3)} V/V`,
       ];
       return a ? [...head, '', ...poleLines(a, [s.name]), '', ...handLines(a)] : head;
     }
@@ -192,15 +193,15 @@ function body(design: DesignReport, target: Target): string[] | undefined {
       if (!run) return [...lines, 'Not analysed: see the errors in this design.'];
       const loop = run.analysis.loop;
       lines.push(
-        `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, phase margin ${loop.phaseMarginDeg !== undefined ? `${loop.phaseMarginDeg.toFixed(1)}°` : '—'}, ` +
-          `gain margin ${loop.gainMarginDb !== undefined ? `${loop.gainMarginDb.toFixed(1)} dB` : '—'}, DC gain ${gainDb(run.analysis.dcGain).toFixed(1)} dB`,
+        `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, phase margin ${loop.phaseMarginDeg !== undefined ? formatDeg(loop.phaseMarginDeg) : '—'}, ` +
+          `gain margin ${loop.gainMarginDb !== undefined ? formatDb(loop.gainMarginDb) : '—'}, DC gain ${formatDcGain(run.analysis.dcGain)}`,
         '',
         closedLoopSummary(run.analysis),
       );
       const w = design.worst;
       if (design.runs.length > 1) {
         const parts = [
-          w.phaseMarginDeg ? `PM ${w.phaseMarginDeg.value.toFixed(1)}° (${w.phaseMarginDeg.corner})` : '',
+          w.phaseMarginDeg ? `PM ${formatDeg(w.phaseMarginDeg.value)} (${w.phaseMarginDeg.corner})` : '',
           w.ugfHz ? `UGF ${formatSi(w.ugfHz.value, 'Hz')} (${w.ugfHz.corner})` : '',
         ].filter(Boolean);
         if (parts.length) lines.push(`Worst over ${design.runs.length} runs: ${parts.join(', ')}`);
@@ -221,7 +222,7 @@ function body(design: DesignReport, target: Target): string[] | undefined {
         return [
           `**corner ${s.name}**`,
           loop
-            ? `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, PM ${loop.phaseMarginDeg !== undefined ? `${loop.phaseMarginDeg.toFixed(1)}°` : '—'}`
+            ? `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, PM ${loop.phaseMarginDeg !== undefined ? formatDeg(loop.phaseMarginDeg) : '—'}`
             : 'not analysed (its overrides could not be evaluated)',
         ];
       }
