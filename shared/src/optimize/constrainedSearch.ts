@@ -27,7 +27,7 @@ export interface Problem {
 
 export interface SearchOptions {
   readonly budget?: number;
-  /** Stop when the poll step falls below this (in the unit box). */
+  /** Stop when the poll step falls below this (in the unit box; 1e-3 is below the 3-digit rounding of a value spanning two decades). */
   readonly tolerance?: number;
   readonly isCancelled?: () => boolean;
 }
@@ -68,7 +68,7 @@ const PRIMES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29];
 export function constrainedSearch(problem: Problem, options: SearchOptions = {}): SearchResult {
   const n = problem.dimension;
   const budget = options.budget ?? 1500;
-  const tolerance = options.tolerance ?? 1e-4;
+  const tolerance = options.tolerance ?? 1e-3;
   let evaluations = 0;
   const clamp = (v: number) => (v < 0 ? 0 : v > 1 ? 1 : v);
   const memo = new Map<string, Point>();
@@ -93,14 +93,20 @@ export function constrainedSearch(problem: Problem, options: SearchOptions = {})
   const samples: Point[] = [];
   if (problem.start) samples.push(at(problem.start.map(clamp)));
   samples.push(at(Array.from({ length: n }, () => 0.5)));
-  const count = Math.min(Math.floor(budget / 3), 24 * 2 ** Math.min(n, 4));
+  const count = Math.min(Math.floor(budget / 3), 12 * 2 ** Math.min(n, 4));
   for (let i = 1; i <= count && !exhausted(); i++) {
     samples.push(at(Array.from({ length: n }, (_, d) => halton(i, PRIMES[d % PRIMES.length]!))));
   }
   const feasible = samples.filter((p) => p.worst >= 0);
-  // Feasible: lower objective is better. Infeasible: a larger smallest constraint is better.
+  // Feasible: lower objective is better, and at the same objective more room in the tightest
+  // constraint (a variable the objective does not depend on moves to where the others can go further).
+  // Infeasible: a larger smallest constraint is better.
+  const same = (a: number, b: number) => Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b));
   const better = feasible.length
-    ? (a: Point, b: Point) => a.worst >= 0 && (b.worst < 0 || a.objective < b.objective)
+    ? (a: Point, b: Point) =>
+        a.worst >= 0 &&
+        (b.worst < 0 ||
+          (same(a.objective, b.objective) ? a.worst > b.worst : a.objective < b.objective))
     : (a: Point, b: Point) => a.worst > b.worst;
   const starts = [...(feasible.length ? feasible : samples)]
     .sort((a, b) => (better(a, b) ? -1 : better(b, a) ? 1 : 0))

@@ -148,7 +148,7 @@ export function solveDesign(source: DesignSource, options: SolveOptions): Design
       },
     },
     {
-      budget: options.budget ?? 400 + 200 * variables.length,
+      budget: options.budget ?? 250 + 100 * variables.length,
       isCancelled: () => options.token?.isCancellationRequested === true,
     },
   );
