@@ -3,19 +3,19 @@
 import { quote, type DiagnosticSink } from './diagnostics';
 import { tokenRange, type Token } from './lexer';
 import type { NodeName } from './model';
+import { node } from './nodeName';
 import { RESERVED_NAMES } from './parseStatement';
+import { kindOf, type NameDeclaration, type StatementKind, type StatementOf } from './statements';
 import type { DesignSyntax, Statement } from './syntax';
 
-export type StatementOf<K extends Statement['kind']> = Extract<Statement, { kind: K }>;
+export type { StatementOf } from './statements';
+export { node } from './nodeName';
 
 export interface Declaration {
   readonly kind: 'param' | 'stage' | 'node';
   readonly token: Token;
   readonly statement: Statement;
 }
-
-/** Only the evaluator turns a checked name into a NodeName. */
-export const node = (name: string): NodeName => name as NodeName;
 
 /** Everything about a design that does not change between corners. */
 export class DesignScope {
@@ -35,37 +35,27 @@ export class DesignScope {
     this.tentative = new Set(design.tentativeNames.map((t) => t.text));
     for (const s of design.statements) {
       if (s.broken) this.skipped.add(s);
-      switch (s.kind) {
-        case 'param':
-          if (s.name && this.declare('param', s.name, s, true)) this.params.set(s.name.text, s);
-          break;
-        case 'stage':
-          if (s.name && this.declare('stage', s.name, s, false)) this.stages.push(s);
-          else this.skipped.add(s);
-          break;
-        case 'node':
-          for (const n of s.names) this.declare('node', n, s, false);
-          break;
-        case 'corner':
-          if (!s.name) break;
-          if (RESERVED_NAMES.has(s.name.text)) {
-            sink.error(
-              'syntax',
-              `${quote(s.name.text)} is a keyword and cannot name a corner.`,
-              tokenRange(s.name),
-            );
-          } else if (this.corners.has(s.name.text)) {
-            const first = this.corners.get(s.name.text)!;
-            sink.error('reference', `Corner ${quote(s.name.text)} is already declared.`, tokenRange(s.name), [
-              { range: tokenRange(first.name!), message: `first declaration of ${quote(s.name.text)}` },
-            ]);
-            this.skipped.add(s);
-          } else this.corners.set(s.name.text, s);
-          break;
-        default:
-          break;
-      }
+      for (const d of kindOf(s).declares(s)) this.declareName(d);
     }
+  }
+
+  private declareName(d: NameDeclaration): void {
+    switch (d.kind) {
+      case 'param':
+        if (this.declare('param', d.token, d.statement, true)) this.params.set(d.token.text, d.statement);
+        return;
+      case 'stage':
+        if (this.declare('stage', d.token, d.statement, false)) this.stages.push(d.statement);
+        return;
+      case 'node':
+        this.declare('node', d.token, d.statement, false);
+        return;
+      case 'corner':
+        this.declareCorner(d.token, d.statement);
+        return;
+    }
+    const _: never = d;
+    return _;
   }
 
   private declare(kind: Declaration['kind'], token: Token, statement: Statement, isParam: boolean): boolean {
@@ -95,6 +85,23 @@ export class DesignScope {
     return true;
   }
 
+  /** Corners have names of their own, apart from parameters, stages and nodes. */
+  private declareCorner(name: Token, s: StatementOf<'corner'>): void {
+    if (RESERVED_NAMES.has(name.text)) {
+      this.sink.error(
+        'syntax',
+        `${quote(name.text)} is a keyword and cannot name a corner.`,
+        tokenRange(name),
+      );
+    } else if (this.corners.has(name.text)) {
+      const first = this.corners.get(name.text)!;
+      this.sink.error('reference', `Corner ${quote(name.text)} is already declared.`, tokenRange(name), [
+        { range: tokenRange(first.name!), message: `first declaration of ${quote(name.text)}` },
+      ]);
+      this.skipped.add(s);
+    } else this.corners.set(name.text, s);
+  }
+
   /** Every node reference of the design, in text order. */
   get nodeRefs(): readonly Token[] {
     return (this.cachedRefs ??= this.design.statements.flatMap(nodeTokens));
@@ -114,31 +121,34 @@ export class DesignScope {
     return (this.cachedMentionsOut ??= this.nodeRefs.some((t) => t.text === 'out'));
   }
   private cachedMentionsOut?: boolean;
+
+  /** The first statement of a kind that is not left out: the one used where a design takes only one. */
+  firstLive<K extends StatementKind>(kind: K): StatementOf<K> | undefined {
+    return this.design.statements.find((s): s is StatementOf<K> => s.kind === kind && !this.skipped.has(s));
+  }
+
+  /**
+   * The node that drives a stage written without `from`: the stage written before it (even one with an
+   * error, so that one mistake does not rewire the rest), and `in` for the first.
+   */
+  defaultInput(s: StatementOf<'stage'>): NodeName {
+    if (!this.cachedInputs) {
+      this.cachedInputs = new Map();
+      let previous = node('in');
+      for (const t of this.design.statements) {
+        if (t.kind !== 'stage') continue;
+        this.cachedInputs.set(t, previous);
+        if (t.name && this.decls.get(t.name.text)?.statement === t) previous = node(t.name.text);
+      }
+    }
+    return this.cachedInputs.get(s)!;
+  }
+  private cachedInputs?: Map<Statement, NodeName>;
 }
 
 /** The node names a statement refers to (not the ones it declares). */
 export function nodeTokens(s: Statement): Token[] {
-  const out: (Token | undefined)[] = [];
-  switch (s.kind) {
-    case 'stage':
-      out.push(s.from);
-      break;
-    case 'load':
-      out.push(s.at);
-      break;
-    case 'miller':
-    case 'indirect':
-    case 'feedforward':
-      out.push(s.from, s.to);
-      break;
-    case 'element':
-      out.push(s.a, s.b);
-      break;
-    case 'output':
-      out.push(s.node);
-      break;
-    default:
-      break;
-  }
-  return out.filter((t): t is Token => t !== undefined);
+  return kindOf(s)
+    .nodes(s)
+    .map((m) => m.token);
 }

@@ -1,7 +1,7 @@
 // Expressions: a small recursive-descent parser over + - || * / ^, parentheses, function calls, numbers with
 // their units (see unitLiteral.ts) and parameter references. Evaluation is in evaluateExpression.ts.
 import { quote, type Reporter } from './diagnostics';
-import { closest } from './vocabulary';
+import { closest } from './closestWord';
 import {
   FUNCTION_NAMES,
   FUNCTION_SIGNATURES,

@@ -1,30 +1,29 @@
 // One evaluation of a design into a DesignModel: the nominal one, or one corner with its overrides. Errors
 // are reported where they are made, once: a statement that fails adds nothing to the model, and whatever
-// depends on it stays silent.
-import { si, type Amperes, type Farads, type Ohms } from '../units';
+// depends on it stays silent. What each statement adds is its kind's (statements/); this class evaluates
+// values and nodes for them and puts the model together.
+import { si } from '../units';
+import { closest } from './closestWord';
 import { CornerReporter, quote, type Reporter } from './diagnostics';
-import { node, type DesignScope, type StatementOf } from './designScope';
+import type { DesignScope } from './designScope';
+import { listNodes } from './designNodes';
 import { evaluate, type Quantity, type Related } from './evaluateExpression';
 import { forEachRef, walkExpr, type Expr } from './expression';
 import { spanRange, tokenRange, type Token } from './lexer';
-import type {
-  BufferedCap,
-  DesignModel,
-  Element,
-  FieldOrigin,
-  Load,
-  Miller,
-  NodeDecl,
-  NodeName,
-  NodeRef,
-  Origin,
-  Param,
-  Requirement,
-  Stage,
-} from './model';
+import type { DesignModel, FieldOrigin, NodeName, NodeRef, Origin, Param } from './model';
+import { appendParts, countParts, emptyParts, NOTHING, type Built, type PartLists } from './modelParts';
+import { node } from './nodeName';
 import type { Overrides } from './overrides';
 import { checkValue, type ViaParam } from './plausibility';
 import type { SourceRange } from './source';
+import {
+  kindOf,
+  type BuildContext,
+  type EvaluatedFields,
+  type FieldResult,
+  type FieldSpec,
+  type StatementOf,
+} from './statements';
 import type { Statement } from './syntax';
 import {
   DIM,
@@ -34,35 +33,10 @@ import {
   lookupUnit,
   sameDimension,
   type Dimension,
-  type NamedDimension,
 } from './unitTable';
-import type { ValueRole } from './valueRanges';
-import { closest, REQUIRED_FIELDS, REQUIREMENT_DIMENSIONS } from './vocabulary';
-
-interface Produced {
-  readonly stages: readonly Stage[];
-  readonly loads: readonly Load[];
-  readonly millers: readonly Miller[];
-  readonly buffered: readonly BufferedCap[];
-  readonly elements: readonly Element[];
-  readonly requirements: readonly Requirement[];
-}
-
-const count = (p: Produced): number =>
-  p.stages.length +
-  p.loads.length +
-  p.millers.length +
-  p.buffered.length +
-  p.elements.length +
-  p.requirements.length;
-
-type FieldResult =
-  | { readonly status: 'absent' }
-  | { readonly status: 'failed' }
-  | { readonly status: 'ok'; readonly value: number; readonly origin: FieldOrigin };
 
 /** One evaluation of a design: nominal, or one corner. */
-export class ModelBuilder {
+export class ModelBuilder implements BuildContext {
   private readonly paramState = new Map<string, Quantity | null | 'visiting'>();
   private readonly stack: string[] = [];
   private readonly cycleMembers = new Set<string>();
@@ -71,15 +45,12 @@ export class ModelBuilder {
 
   /** The nominal parameter dimensions, for checking corner overrides. */
   private readonly nominalDims?: ReadonlyMap<string, Dimension>;
-  /** The nominal model's statements, for a corner. */
-  private readonly reuse?: ReadonlyMap<Statement, Produced>;
-  private readonly nominalBuiltBeta: boolean;
-  /** True when a `feedback` statement gave this model its beta. */
-  builtBeta = false;
+  /** What the nominal model built from each statement, for a corner. */
+  private readonly reuse?: ReadonlyMap<Statement, Built>;
   /** What each statement added to this model, so that corners can take over what they do not change. */
-  readonly produced = new Map<Statement, Produced>();
+  readonly produced = new Map<Statement, Built>();
   /** Parameters whose value this corner may change: the overridden ones and all that depend on them. */
-  private readonly affectedParams = new Set<string>();
+  private readonly affectedParams: ReadonlySet<string>;
 
   constructor(
     readonly scope: DesignScope,
@@ -90,30 +61,11 @@ export class ModelBuilder {
   ) {
     this.nominalDims = nominal?.nominalDimensions();
     this.reuse = nominal?.produced;
-    this.nominalBuiltBeta = nominal?.builtBeta ?? false;
     this.sink =
       corner?.name !== undefined
         ? new CornerReporter(scope.sink, corner.name.text, corner.range, tokenRange(corner.name))
         : scope.sink;
-    for (const name of overrides.params.keys()) this.affectedParams.add(name);
-    if (!this.affectedParams.size) return;
-    const deps = [...scope.params].map(([name, st]) => {
-      const refs = new Set<string>();
-      for (const f of st.fields) forEachRef(f.expr, (r) => refs.add(r));
-      return [name, refs] as const;
-    });
-    for (let changed = true; changed;) {
-      changed = false;
-      for (const [name, refs] of deps) {
-        if (this.affectedParams.has(name)) continue;
-        for (const r of refs)
-          if (this.affectedParams.has(r)) {
-            this.affectedParams.add(name);
-            changed = true;
-            break;
-          }
-      }
-    }
+    this.affectedParams = paramsReachedBy(scope, overrides);
   }
 
   /** True when this corner's overrides can change what the statement builds. */
@@ -272,13 +224,8 @@ export class ModelBuilder {
 
   // ---- fields ----
 
-  field(
-    s: Statement,
-    name: string,
-    dimName: NamedDimension,
-    role: ValueRole,
-    displayName = name,
-  ): FieldResult {
+  field(s: Statement, spec: FieldSpec, displayName = spec.name): FieldResult {
+    const { name, unit: dimName, role } = spec;
     const override = this.overrides.fields.get(s)?.get(name);
     const written = s.fields.find((f) => f.name === name);
     const expr = override?.expr ?? written?.expr;
@@ -304,6 +251,39 @@ export class ModelBuilder {
       return fail();
     const param = expr.kind === 'ref' && this.scope.params.has(expr.name) ? expr.name : undefined;
     return { status: 'ok', value: q.value, origin: { range: expr.range, text, ...(param ? { param } : {}) } };
+  }
+
+  fields(s: Statement, specs: readonly FieldSpec[]): EvaluatedFields | undefined {
+    const values: Record<string, number> = {};
+    const origins: Record<string, FieldOrigin> = {};
+    let ok = true;
+    const missing: string[] = [];
+    for (const spec of specs) {
+      const r = this.field(s, spec);
+      if (r.status === 'ok') {
+        values[spec.name] = r.value;
+        origins[spec.name] = r.origin;
+      } else if (r.status === 'failed') ok = false;
+      else if (spec.required) missing.push(spec.name);
+    }
+    if (missing.length) {
+      this.reportMissing(s, missing);
+      ok = false;
+    }
+    return ok ? { values, origins } : undefined;
+  }
+
+  private reportMissing(s: Statement, missing: readonly string[]): void {
+    const blame = 'name' in s && s.name ? spanRange(s.keyword, s.name) : tokenRange(s.keyword);
+    this.sink.error(
+      'syntax',
+      `${quote(s.kind)} needs ${missing.map((m) => quote(`${m} = …`)).join(' and ')}.`,
+      blame,
+    );
+  }
+
+  writtenExpr(s: Statement, name: string): Expr | undefined {
+    return this.overrides.fields.get(s)?.get(name)?.expr ?? s.fields.find((f) => f.name === name)?.expr;
   }
 
   /** For `gm = gm1` where `param gm1 = 150` (a literal, not overridden here): that literal. */
@@ -353,297 +333,87 @@ export class ModelBuilder {
   // ---- the whole model ----
 
   build(): DesignModel | undefined {
+    const nodes = listNodes(this.scope);
+    const output = this.output();
+    const parts = this.buildStatements();
+    const params = this.listParams();
+    if (!output) return undefined;
+    const feedback = parts.feedback[0];
+    return {
+      name: this.scope.design.name,
+      nodes,
+      input: node('in'),
+      output,
+      stages: parts.stages,
+      loads: parts.loads,
+      millers: parts.millers,
+      buffered: parts.buffered,
+      elements: parts.elements,
+      beta: feedback?.beta ?? si(1),
+      ...(feedback ? { betaOrigin: feedback.origin } : {}),
+      requirements: parts.requirements,
+      params,
+    };
+  }
+
+  /** The design's output: named by `output`, else the last stage, else `out` when the text uses it. */
+  output(): NodeName | undefined {
+    this.resolvedOutput ??= { node: this.resolveOutput() };
+    return this.resolvedOutput.node;
+  }
+  private resolvedOutput?: { readonly node: NodeName | undefined };
+
+  private resolveOutput(): NodeName | undefined {
     const { scope, sink } = this;
-    const design = scope.design;
-    const live = (s: Statement): boolean => !scope.skipped.has(s);
-
-    // Nodes, in text order: the input, then every stage and declared node, then `out` when only mentioned.
-    const nodes: NodeDecl[] = [];
-    const inMention = scope.nodeRefs.find((t) => t.text === 'in');
-    nodes.push({ name: node('in'), kind: 'input', ...(inMention ? { range: tokenRange(inMention) } : {}) });
-    for (const d of scope.decls.values())
-      if (d.kind !== 'param')
-        nodes.push({
-          name: node(d.token.text),
-          kind: d.kind === 'stage' ? 'stage' : 'declared',
-          range: tokenRange(d.token),
-        });
-    if (scope.mentionsOut()) {
-      const first = scope.nodeRefs.find((t) => t.text === 'out')!;
-      nodes.push({ name: node('out'), kind: 'output', range: tokenRange(first) });
-    }
-
-    // The output: named, else the last stage, else `out` when the text uses it.
-    const outputs = design.statements.filter((s): s is StatementOf<'output'> => s.kind === 'output');
-    outputs
-      .slice(1)
-      .forEach((s) =>
-        sink.error('syntax', '`output` is given twice; the first one is used.', tokenRange(s.keyword), [
-          { range: tokenRange(outputs[0]!.keyword), message: 'first `output`' },
-        ]),
-      );
-    let output: NodeName | undefined;
-    const outStmt = outputs[0];
+    const outputs = scope.design.statements.filter((s): s is StatementOf<'output'> => s.kind === 'output');
+    for (const s of outputs.slice(1))
+      sink.error('syntax', '`output` is given twice; the first one is used.', tokenRange(s.keyword), [
+        { range: tokenRange(outputs[0]!.keyword), message: 'first `output`' },
+      ]);
     // Without an output there is no model, but every statement is still evaluated so that all of its
     // mistakes are reported.
-    if (outStmt) {
-      if (outStmt.node && live(outStmt)) output = this.resolveNodeName(outStmt.node, 'The output');
-      if (output === 'in') {
-        sink.error('reference', 'The output cannot be the driven input `in`.', tokenRange(outStmt.node!));
-        output = undefined;
-      }
-    } else if (scope.stages.length) output = node(scope.stages[scope.stages.length - 1]!.name!.text);
-    else if (scope.mentionsOut() || scope.decls.get('out')?.kind === 'node') output = node('out');
-    else {
-      sink.error(
-        'reference',
-        `Design ${quote(design.name)} has no stage and names no output: add \`output NODE\`.`,
-        design.nameToken ? tokenRange(design.nameToken) : tokenRange(design.keyword),
-      );
-    }
+    if (outputs[0]) return this.writtenOutput(outputs[0]);
+    if (scope.stages.length) return node(scope.stages[scope.stages.length - 1]!.name!.text);
+    if (scope.mentionsOut() || scope.decls.get('out')?.kind === 'node') return node('out');
+    const design = scope.design;
+    sink.error(
+      'reference',
+      `Design ${quote(design.name)} has no stage and names no output: add \`output NODE\`.`,
+      design.nameToken ? tokenRange(design.nameToken) : tokenRange(design.keyword),
+    );
+    return undefined;
+  }
 
-    const stages: Stage[] = [];
-    const loads: Load[] = [];
-    const millers: Miller[] = [];
-    const buffered: BufferedCap[] = [];
-    const elements: Element[] = [];
-    const requirements: Requirement[] = [];
-    let beta = 1;
-    let betaOrigin: Origin | undefined;
-    let feedbackSeen: Statement | undefined;
+  private writtenOutput(s: StatementOf<'output'>): NodeName | undefined {
+    if (!s.node || this.scope.skipped.has(s)) return undefined;
+    const output = this.resolveNodeName(s.node, 'The output');
+    if (output !== 'in') return output;
+    this.sink.error('reference', 'The output cannot be the driven input `in`.', tokenRange(s.node));
+    return undefined;
+  }
 
-    /** Evaluates the listed fields; reports missing required ones; undefined when any failed. */
-    const fieldsOf = (
-      s: Statement,
-      specs: readonly [string, NamedDimension, ValueRole][],
-      kind = s.kind,
-    ): { values: Record<string, number>; origins: Record<string, FieldOrigin> } | undefined => {
-      const values: Record<string, number> = {};
-      const origins: Record<string, FieldOrigin> = {};
-      let ok = true;
-      const missing: string[] = [];
-      for (const [name, dim, role] of specs) {
-        const r = this.field(s, name, dim, role);
-        if (r.status === 'ok') {
-          values[name] = r.value;
-          origins[name] = r.origin;
-        } else if (r.status === 'failed') ok = false;
-        else if (REQUIRED_FIELDS[kind]?.includes(name)) missing.push(name);
-      }
-      if (missing.length) {
-        const blame = 'name' in s && s.name ? spanRange(s.keyword, s.name) : tokenRange(s.keyword);
-        sink.error(
-          'syntax',
-          `${quote(kind)} needs ${missing.map((m) => quote(`${m} = …`)).join(' and ')}.`,
-          blame,
-        );
-        ok = false;
-      }
-      return ok ? { values, origins } : undefined;
-    };
+  /** What every statement adds, in text order. */
+  private buildStatements(): PartLists {
+    const parts = emptyParts();
+    for (const s of this.scope.design.statements) appendParts(parts, this.statementParts(s));
+    return parts;
+  }
 
-    let previous: NodeName = node('in');
-    let prev: NodeName = previous;
-    const handle = (s: Statement): void => {
-      if (s.kind === 'stage') {
-        const own = s.name && scope.decls.get(s.name.text)?.statement === s ? node(s.name.text) : undefined;
-        if (!live(s) || !own) return;
-        const input: NodeRef | undefined = s.from ? this.resolveNode(s.from) : { kind: 'node', name: prev };
-        const f = fieldsOf(s, [
-          ['gm', 'S', 'gm-stage'],
-          ['rout', 'ohm', 'rout'],
-          ['cap', 'F', 'cap'],
-          ['bias', 'A', 'bias'],
-        ]);
-        if (!f || !input) return;
-        stages.push({
-          name: own,
-          input,
-          gm: si(f.values.gm!),
-          rout: si(f.values.rout!),
-          cap: si(f.values.cap ?? 0),
-          polarity: s.polarity?.value ?? 'noninverting',
-          ...(f.values.bias !== undefined ? { bias: si<Amperes>(f.values.bias) } : {}),
-          origin: this.origin(s, f.origins),
-        });
-        return;
-      }
-      if (!live(s)) return;
-      switch (s.kind) {
-        case 'load': {
-          const at = s.at ? this.resolveNodeName(s.at, 'A load') : output;
-          const f = fieldsOf(s, [
-            ['cap', 'F', 'cap-board'],
-            ['res', 'ohm', 'res'],
-          ]);
-          if (!f || !at) break;
-          if (f.values.cap === undefined && f.values.res === undefined && !s.fields.length) {
-            sink.error('syntax', '`load` needs `cap = …` or `res = …`.', tokenRange(s.keyword));
-            break;
-          }
-          loads.push({
-            node: at,
-            ...(f.values.cap !== undefined ? { cap: si<Farads>(f.values.cap) } : {}),
-            ...(f.values.res !== undefined ? { res: si<Ohms>(f.values.res) } : {}),
-            origin: this.origin(s, f.origins),
-          });
-          break;
-        }
-        case 'miller':
-        case 'indirect': {
-          const from = s.from && this.resolveNodeName(s.from, `A ${s.kind} capacitor's node`);
-          const to = s.to && this.resolveNodeName(s.to, `A ${s.kind} capacitor's node`);
-          const f =
-            s.kind === 'miller'
-              ? fieldsOf(s, [
-                  ['cc', 'F', 'cap'],
-                  ['rz', 'ohm', 'rz'],
-                ])
-              : fieldsOf(s, [
-                  ['cc', 'F', 'cap'],
-                  ['gm', 'S', 'gm-buffer'],
-                  ['cap', 'F', 'cap'],
-                ]);
-          if (!f || !from || !to) break;
-          if (from === to) {
-            sink.error('reference', `${quote(s.kind)} needs two different nodes.`, spanRange(s.from!, s.to!));
-            break;
-          }
-          if (s.kind === 'miller')
-            millers.push({
-              from,
-              to,
-              cc: si(f.values.cc!),
-              ...(f.values.rz !== undefined ? { rz: si<Ohms>(f.values.rz) } : {}),
-              origin: this.origin(s, f.origins),
-            });
-          else
-            buffered.push({
-              from,
-              to,
-              cc: si(f.values.cc!),
-              gm: si(f.values.gm!),
-              ...(f.values.cap !== undefined ? { cap: si<Farads>(f.values.cap) } : {}),
-              origin: this.origin(s, f.origins),
-            });
-          break;
-        }
-        case 'feedforward': {
-          const control = s.from && this.resolveNode(s.from);
-          const out = s.to && this.resolveNode(s.to);
-          const f = fieldsOf(s, [['gm', 'S', 'gm']]);
-          if (!f || !control || !out) break;
-          elements.push({
-            kind: 'gm',
-            control,
-            output: out,
-            value: si(f.values.gm!),
-            polarity: s.polarity?.value ?? 'noninverting',
-            origin: this.origin(s, f.origins),
-          });
-          break;
-        }
-        case 'element': {
-          if (!s.element || !s.a || !s.b) break;
-          const a = this.resolveNode(s.a);
-          const b = this.resolveNode(s.b);
-          const spec: [string, NamedDimension, ValueRole] =
-            s.element === 'res'
-              ? ['value', 'ohm', 'res']
-              : s.element === 'cap'
-                ? ['value', 'F', 'cap-board']
-                : ['value', 'S', 'gm'];
-          const r = this.field(s, 'value', spec[1], spec[2], `element ${s.element}`);
-          if (r.status !== 'ok' || !a || !b) break;
-          const origin = this.origin(s, { value: r.origin });
-          const same = a.kind === b.kind && (a.kind === 'ground' || (b.kind === 'node' && a.name === b.name));
-          if (same && s.element !== 'gm') {
-            sink.error(
-              'reference',
-              `This ${s.element === 'res' ? 'resistor' : 'capacitor'} connects a node to itself.`,
-              spanRange(s.a, s.b),
-            );
-            break;
-          }
-          if (s.element === 'res') elements.push({ kind: 'res', a, b, value: si(r.value), origin });
-          else if (s.element === 'cap') elements.push({ kind: 'cap', a, b, value: si(r.value), origin });
-          else
-            elements.push({
-              kind: 'gm',
-              control: a,
-              output: b,
-              value: si(r.value),
-              polarity: s.polarity?.value ?? 'noninverting',
-              origin,
-            });
-          break;
-        }
-        case 'feedback': {
-          if (feedbackSeen) {
-            sink.error('syntax', '`feedback` is given twice; the first one is used.', tokenRange(s.keyword), [
-              { range: tokenRange(feedbackSeen.keyword), message: 'first `feedback`' },
-            ]);
-            break;
-          }
-          feedbackSeen = s;
-          const f = fieldsOf(s, [['beta', 'one', 'beta']]);
-          if (!f) break;
-          beta = f.values.beta!;
-          betaOrigin = this.origin(s, f.origins);
-          break;
-        }
-        case 'require': {
-          const req = this.requirement(s);
-          if (req) requirements.push(req);
-          break;
-        }
-        default:
-          break;
-      }
-    };
+  private statementParts(s: Statement): Built {
+    // A corner takes over what the nominal model built from a statement its overrides cannot reach.
+    const nominal = this.reuse?.get(s);
+    if (nominal && !this.affects(s)) return nominal;
+    const made = this.scope.skipped.has(s) ? NOTHING : kindOf(s).build(s, this);
+    this.produced.set(s, made);
+    // A statement that builds in the nominal model but not in this corner leaves the corner incomplete.
+    if (nominal && countParts(made) < countParts(nominal)) this.incomplete = true;
+    return made;
+  }
 
-    for (const s of design.statements) {
-      if (s.kind === 'stage') {
-        // The default input is the stage before, even if that stage itself has an error.
-        prev = previous;
-        if (s.name && scope.decls.get(s.name.text)?.statement === s) previous = node(s.name.text);
-      }
-      // A corner takes over what the nominal model built from a statement its overrides cannot reach.
-      const nominal = this.reuse?.get(s);
-      if (nominal && s.kind !== 'feedback' && !this.affects(s)) {
-        stages.push(...nominal.stages);
-        loads.push(...nominal.loads);
-        millers.push(...nominal.millers);
-        buffered.push(...nominal.buffered);
-        elements.push(...nominal.elements);
-        requirements.push(...nominal.requirements);
-        continue;
-      }
-      const mark = [
-        stages.length,
-        loads.length,
-        millers.length,
-        buffered.length,
-        elements.length,
-        requirements.length,
-      ];
-      handle(s);
-      const made: Produced = {
-        stages: stages.slice(mark[0]),
-        loads: loads.slice(mark[1]),
-        millers: millers.slice(mark[2]),
-        buffered: buffered.slice(mark[3]),
-        elements: elements.slice(mark[4]),
-        requirements: requirements.slice(mark[5]),
-      };
-      this.produced.set(s, made);
-      // A statement that builds in the nominal model but not in this corner leaves the corner incomplete.
-      if (nominal && count(made) < count(nominal)) this.incomplete = true;
-    }
-
+  private listParams(): Param[] {
     const params: Param[] = [];
-    for (const [name, s] of scope.params) {
-      if (scope.skipped.has(s) && !this.overrides.params.has(name)) continue;
+    for (const [name, s] of this.scope.params) {
+      if (this.scope.skipped.has(s) && !this.overrides.params.has(name)) continue;
       const q = this.param(name);
       if (!q) continue;
       const override = this.overrides.params.get(name);
@@ -658,72 +428,7 @@ export class ModelBuilder {
         origin: this.origin(s, { value: fieldOrigin }),
       });
     }
-
-    this.builtBeta = betaOrigin !== undefined;
-    if (this.nominalBuiltBeta && !this.builtBeta) this.incomplete = true;
-    if (!output) return undefined;
-    return {
-      name: design.name,
-      nodes,
-      input: node('in'),
-      output,
-      stages,
-      loads,
-      millers,
-      buffered,
-      elements,
-      beta: si(beta),
-      ...(betaOrigin ? { betaOrigin } : {}),
-      requirements,
-      params,
-    };
-  }
-
-  private requirement(s: StatementOf<'require'>): Requirement | undefined {
-    const kind = s.requirement;
-    if (!kind) return undefined;
-    if (kind === 'settle') {
-      const tol = this.field(s, 'tolerance', 'one', 'tolerance');
-      const within = this.field(s, 'within', 's', 'within');
-      if (tol.status !== 'ok' || within.status !== 'ok') return undefined;
-      const written =
-        this.overrides.fields.get(s)?.get('tolerance')?.expr ??
-        s.fields.find((f) => f.name === 'tolerance')?.expr;
-      if (written?.kind === 'number' && written.unitText === undefined && tol.value >= 0.01)
-        this.sink.warning(
-          'plausibility',
-          `A plain tolerance is a fraction: ${written.numberText} is ${Number((tol.value * 100).toPrecision(6))} %. Write ${quote(`${written.numberText} %`)} if you meant percent.`,
-          written.range,
-        );
-      return {
-        kind: 'settle',
-        tolerance: si(tol.value),
-        within: si(within.value),
-        origin: this.origin(s, { tolerance: tol.origin, within: within.origin }),
-      };
-    }
-    const op = s.op ?? '>=';
-    if (kind === 'zero') {
-      const r = this.field(s, 'factor', 'ugf', 'zero', 'zero');
-      if (r.status !== 'ok') return undefined;
-      return { kind: 'zero', op: '>=', factor: si(r.value), origin: this.origin(s, { factor: r.origin }) };
-    }
-    const role: ValueRole = kind;
-    const r = this.field(s, 'value', REQUIREMENT_DIMENSIONS[kind], role, kind);
-    if (r.status !== 'ok') return undefined;
-    const origin = this.origin(s, { value: r.origin });
-    switch (kind) {
-      case 'ugf':
-        return { kind, op, value: si(r.value), origin };
-      case 'pm':
-        return { kind, op, value: si(r.value), origin };
-      case 'gainmargin':
-        return { kind: 'gain-margin', op, value: si(r.value), origin };
-      case 'slew':
-        return { kind, op, value: si(r.value), origin };
-      case 'dcgain':
-        return { kind: 'dc-gain', op, value: si(r.value), origin };
-    }
+    return params;
   }
 
   nominalDimensions(): Map<string, Dimension> {
@@ -731,4 +436,28 @@ export class ModelBuilder {
     for (const [name, state] of this.paramState) if (state && state !== 'visiting') out.set(name, state.dim);
     return out;
   }
+}
+
+/** The parameters a corner's overrides can change: the overridden ones and all that depend on them. */
+function paramsReachedBy(scope: DesignScope, overrides: Overrides): Set<string> {
+  const reached = new Set(overrides.params.keys());
+  if (!reached.size) return reached;
+  const deps = [...scope.params].map(([name, st]) => {
+    const refs = new Set<string>();
+    for (const f of st.fields) forEachRef(f.expr, (r) => refs.add(r));
+    return [name, refs] as const;
+  });
+  for (let changed = true; changed;) {
+    changed = false;
+    for (const [name, refs] of deps) {
+      if (reached.has(name)) continue;
+      for (const r of refs)
+        if (reached.has(r)) {
+          reached.add(name);
+          changed = true;
+          break;
+        }
+    }
+  }
+  return reached;
 }

@@ -2,8 +2,9 @@
 import { quote } from './diagnostics';
 import type { DesignScope, StatementOf } from './designScope';
 import { tokenRange } from './lexer';
-import type { OverrideSyntax, Statement } from './syntax';
-import { closest, FIELDS_BY_STATEMENT } from './vocabulary';
+import type { OverrideSyntax, Statement, StatementKind } from './syntax';
+import { closest } from './closestWord';
+import { FIELDS_BY_STATEMENT, OVERRIDDEN_BY_KEYWORD } from './vocabulary';
 
 /** Overrides of one corner, sorted by what they replace. */
 export interface Overrides {
@@ -13,6 +14,13 @@ export interface Overrides {
 }
 
 export const NO_OVERRIDES: Overrides = { params: new Map(), fields: new Map() };
+
+const isOverriddenByKeyword = (name: string): name is StatementKind =>
+  (OVERRIDDEN_BY_KEYWORD as readonly string[]).includes(name);
+
+const quotedTargets = OVERRIDDEN_BY_KEYWORD.map(quote);
+/** `` `load`, `miller`, … and `feedback` `` for messages. */
+const KEYWORD_TARGETS = `${quotedTargets.slice(0, -1).join(', ')} and ${quotedTargets[quotedTargets.length - 1]}`;
 
 /** Sorts a corner's overrides by target; reports targets that do not exist. */
 export function collectOverrides(
@@ -26,7 +34,7 @@ export function collectOverrides(
   // `load.cap` means the load at the output; the other kinds mean the design's only statement of that kind.
   // Either way exactly one statement must qualify: overriding the first of several would silently leave the
   // others at their nominal values.
-  const unique = (kind: Statement['kind'], o: OverrideSyntax): Statement | undefined => {
+  const unique = (kind: StatementKind, o: OverrideSyntax): Statement | undefined => {
     const all = scope.design.statements.filter((s) => s.kind === kind && !scope.skipped.has(s));
     const output = scope.outputName();
     const atOutput =
@@ -71,13 +79,12 @@ export function collectOverrides(
     }
     let target: Statement | undefined;
     if (decl?.kind === 'stage') target = decl.statement;
-    else if (!decl && ['load', 'miller', 'indirect', 'feedforward', 'feedback'].includes(name))
-      target = unique(name as Statement['kind'], o);
+    else if (!decl && isOverriddenByKeyword(name)) target = unique(name, o);
     else {
       sink.error(
         'reference',
         decl
-          ? `${quote(name)} is a ${decl.kind}; only stages and the \`load\`, \`miller\`, \`indirect\`, \`feedforward\` and \`feedback\` statements have fields.`
+          ? `${quote(name)} is a ${decl.kind}; only stages and the ${KEYWORD_TARGETS} statements have fields.`
           : `Undefined name ${quote(name)}.`,
         tokenRange(o.target),
       );

@@ -1,10 +1,10 @@
 // The syntax tree: one statement per line, every part with its exact range. Produced by parseStatement,
-// read by the evaluator.
+// read by the evaluator. Each statement kind's own parts are declared with its descriptor in statements/.
 import type { Expr } from './expression';
 import type { Token } from './lexer';
 import type { SourcePosition, SourceRange } from './source';
-import type { ElementKind, RequirementWord } from './vocabulary';
-import type { Comparison, Polarity } from './model';
+import type { Polarity } from './model';
+import type { Statement } from './statements';
 
 export interface FieldSyntax {
   readonly name: string;
@@ -14,7 +14,8 @@ export interface FieldSyntax {
   readonly text: string;
 }
 
-interface Common {
+/** What every statement has, whatever its kind. Each kind adds its own parts (see statements/). */
+export interface StatementCommon {
   readonly keyword: Token;
   readonly range: SourceRange;
   readonly insertAt: SourcePosition;
@@ -28,43 +29,7 @@ export interface PolaritySyntax {
   readonly token: Token;
 }
 
-export type Statement = Common &
-  (
-    | { readonly kind: 'param'; readonly name?: Token }
-    | { readonly kind: 'node'; readonly names: readonly Token[] }
-    | {
-        readonly kind: 'stage';
-        readonly name?: Token;
-        readonly from?: Token;
-        readonly polarity?: PolaritySyntax;
-      }
-    | { readonly kind: 'load'; readonly at?: Token }
-    | { readonly kind: 'miller' | 'indirect'; readonly from?: Token; readonly to?: Token }
-    | {
-        readonly kind: 'feedforward';
-        readonly from?: Token;
-        readonly to?: Token;
-        readonly polarity?: PolaritySyntax;
-      }
-    | {
-        readonly kind: 'element';
-        readonly element?: ElementKind;
-        readonly a?: Token;
-        readonly b?: Token;
-        readonly polarity?: PolaritySyntax;
-      }
-    | { readonly kind: 'output'; readonly node?: Token }
-    | { readonly kind: 'feedback' }
-    | {
-        readonly kind: 'require';
-        readonly requirement?: RequirementWord;
-        readonly requirementToken?: Token;
-        readonly op?: Comparison;
-      }
-    | { readonly kind: 'corner'; readonly name?: Token; readonly overrides: readonly OverrideSyntax[] }
-  );
-
-export type StatementKind = Statement['kind'];
+export type { Statement, StatementKind, StatementOf } from './statements';
 
 /** One `target = value` of a corner: `gm1 = 120 uS` or `second.gm = 2 mS`. */
 export interface OverrideSyntax {

@@ -1,31 +1,32 @@
-// The words of the language: statement keywords, the fields each statement takes and the unit each field
-// implies. The parser, the docs and the editor's completion all read these tables.
+// The words of the language, as tables derived from the statement kinds' descriptors (statements/): the
+// parser's stop words, the names that cannot be declared, completion and the docs test all read these.
+import { STATEMENT_KINDS, type StatementKind } from './statements';
+import { ELEMENT_KINDS } from './statements/element';
+import { REQUIREMENT_KINDS } from './statements/require';
 import { DIM, type Dimension, type NamedDimension } from './unitTable';
 
-export const STATEMENT_KEYWORDS = [
-  'param',
-  'node',
-  'stage',
-  'load',
-  'miller',
-  'indirect',
-  'feedforward',
-  'element',
-  'output',
-  'feedback',
-  'require',
-  'corner',
-] as const;
-export type StatementKeyword = (typeof STATEMENT_KEYWORDS)[number];
+export { ELEMENT_KINDS, type ElementKind } from './statements/element';
+export { REQUIREMENT_KINDS, type RequirementWord } from './statements/require';
+export { closest, editDistance } from './closestWord';
 
-export const ELEMENT_KINDS = ['res', 'cap', 'gm'] as const;
-export type ElementKind = (typeof ELEMENT_KINDS)[number];
+const KINDS = Object.entries(STATEMENT_KINDS) as [StatementKind, (typeof STATEMENT_KINDS)[StatementKind]][];
 
-export const REQUIREMENT_KINDS = ['ugf', 'pm', 'gainmargin', 'zero', 'slew', 'settle', 'dcgain'] as const;
-export type RequirementWord = (typeof REQUIREMENT_KINDS)[number];
+const byKind = <T>(pick: (d: (typeof STATEMENT_KINDS)[StatementKind]) => T): Readonly<Record<string, T>> =>
+  Object.fromEntries(KINDS.map(([k, d]) => [k, pick(d)]));
+
+const unique = (words: readonly string[]): string[] => [...new Set(words)];
+
+export const STATEMENT_KEYWORDS: readonly StatementKind[] = KINDS.map(([k]) => k);
+export type StatementKeyword = StatementKind;
+
+/** Words that introduce a part of a statement (`from NODE`, `at NODE`, `within TIME`). */
+export const CONNECTORS: readonly string[] = unique(KINDS.flatMap(([, d]) => d.connectors));
+
+/** Flags (bare words) of any statement. */
+const ALL_FLAGS: readonly string[] = unique(KINDS.flatMap(([, d]) => d.flags));
 
 /** Words that are not statements: block delimiters, connectors and flags. */
-export const OTHER_KEYWORDS = ['design', 'end', 'from', 'at', 'inverting', 'noninverting', 'within'] as const;
+export const OTHER_KEYWORDS: readonly string[] = ['design', 'end', ...CONNECTORS, ...ALL_FLAGS];
 
 export const BUILTIN_NODES = ['in', 'gnd', 'out'] as const;
 
@@ -36,98 +37,37 @@ export const KEYWORDS: readonly string[] = [
   ...STATEMENT_KEYWORDS,
   ...ELEMENT_KINDS,
   ...REQUIREMENT_KINDS,
-  'from',
-  'at',
-  'inverting',
-  'noninverting',
-  'within',
+  ...CONNECTORS,
+  ...ALL_FLAGS,
 ];
 
 /** The `name = value` fields each statement accepts. */
-export const FIELDS_BY_STATEMENT: Readonly<Record<string, readonly string[]>> = {
-  param: [],
-  stage: ['gm', 'rout', 'cap', 'bias'],
-  load: ['cap', 'res'],
-  miller: ['cc', 'rz'],
-  indirect: ['cc', 'gm', 'cap'],
-  feedforward: ['gm'],
-  feedback: ['beta'],
-  element: [],
-};
+export const FIELDS_BY_STATEMENT: Readonly<Record<string, readonly string[]>> = byKind((d) =>
+  d.fields.map((f) => f.name),
+);
 
-/** Fields that must be written (the others are optional; see `FIELD_DEFAULTS`). */
-export const REQUIRED_FIELDS: Readonly<Record<string, readonly string[]>> = {
-  stage: ['gm', 'rout'],
-  miller: ['cc'],
-  indirect: ['cc', 'gm'],
-  feedforward: ['gm'],
-  feedback: ['beta'],
-};
+/** Fields that must be written (the others are optional). */
+export const REQUIRED_FIELDS: Readonly<Record<string, readonly string[]>> = byKind((d) =>
+  d.fields.filter((f) => f.required).map((f) => f.name),
+);
 
 /** Flags (bare words) each statement accepts. */
-export const FLAGS_BY_STATEMENT: Readonly<Record<string, readonly string[]>> = {
-  stage: ['inverting', 'noninverting'],
-  feedforward: ['inverting', 'noninverting'],
-  element: ['inverting', 'noninverting'],
-};
+export const FLAGS_BY_STATEMENT: Readonly<Record<string, readonly string[]>> = byKind((d) => d.flags);
+
+/** The words that may follow each keyword and choose its variant (`element res`, `require pm`). */
+export const VARIANTS_BY_STATEMENT: Readonly<
+  Record<string, { readonly words: readonly string[]; readonly detail: string }>
+> = Object.fromEntries(KINDS.flatMap(([k, d]) => (d.variants ? [[k, d.variants]] : [])));
 
 /** The unit a field implies: a plain number written there is taken in this unit. */
-export const FIELD_DIMENSIONS: Readonly<Record<string, NamedDimension>> = {
-  gm: 'S',
-  rout: 'ohm',
-  rz: 'ohm',
-  res: 'ohm',
-  cap: 'F',
-  cc: 'F',
-  bias: 'A',
-  beta: 'one',
-};
+// A field name means one quantity in every statement that has it (a test holds the kinds to that).
+export const FIELD_DIMENSIONS: Readonly<Record<string, NamedDimension>> = Object.fromEntries(
+  KINDS.flatMap(([, d]) => d.fields.map((f) => [f.name, f.unit] as const)),
+);
 
-export const ELEMENT_DIMENSIONS: Readonly<Record<ElementKind, NamedDimension>> = {
-  res: 'ohm',
-  cap: 'F',
-  gm: 'S',
-};
-
-export const REQUIREMENT_DIMENSIONS: Readonly<Record<RequirementWord, NamedDimension>> = {
-  ugf: 'Hz',
-  pm: 'deg',
-  gainmargin: 'dB',
-  zero: 'ugf',
-  slew: 'V/s',
-  settle: 'one',
-  dcgain: 'dB',
-};
+/** Statements whose fields a corner addresses by the keyword (`load.cap`), in the language's order. */
+export const OVERRIDDEN_BY_KEYWORD: readonly StatementKind[] = KINDS.filter(
+  ([, d]) => d.overriddenByKeyword,
+).map(([k]) => k);
 
 export const dimensionOf = (name: NamedDimension): Dimension => DIM[name];
-
-/** Lowercase edit distance, for "did you mean" hints. */
-export function editDistance(a: string, b: string): number {
-  a = a.toLowerCase();
-  b = b.toLowerCase();
-  const row = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let prev = row[0]!;
-    row[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const cur = row[j]!;
-      row[j] = Math.min(row[j]! + 1, row[j - 1]! + 1, prev + (a[i - 1] === b[j - 1] ? 0 : 1));
-      prev = cur;
-    }
-  }
-  return row[b.length]!;
-}
-
-/** The closest candidate within a small edit distance, if any. */
-export function closest(word: string, candidates: Iterable<string>): string | undefined {
-  let best: string | undefined;
-  let bestD = Infinity;
-  const limit = word.length <= 3 ? 1 : 2;
-  for (const c of candidates) {
-    // Lengths further apart than the limit cannot be near; skipping them keeps a huge word cheap.
-    if (Math.abs(c.length - word.length) > limit) continue;
-    const d = editDistance(word, c);
-    if (d < bestD) [best, bestD] = [c, d];
-  }
-  return bestD <= limit ? best : undefined;
-}

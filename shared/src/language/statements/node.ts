@@ -1,0 +1,26 @@
+// `node NAME, NAME …`: extra nodes for elements. Declares names only; elements attach to them.
+import type { Token } from '../lexer';
+import { NOTHING } from '../modelParts';
+import type { StatementCommon } from '../syntax';
+import type { StatementDescriptor } from './statementKind';
+
+export type NodeStatement = StatementCommon & { readonly kind: 'node'; readonly names: readonly Token[] };
+
+export const nodeKind: StatementDescriptor<NodeStatement> = {
+  fields: [],
+  flags: [],
+  connectors: [],
+  overriddenByKeyword: false,
+  parse(p, parts) {
+    const names: Token[] = [];
+    parts.names = names;
+    names.push(p.name('a node name'));
+    while (!p.c.atEnd()) {
+      if (p.c.isOp(',')) p.c.next();
+      names.push(p.name('a node name'));
+    }
+  },
+  nodes: () => [],
+  declares: (s) => s.names.map((token) => ({ kind: 'node', token, statement: s })),
+  build: () => NOTHING,
+};

@@ -1,0 +1,63 @@
+// `stage NAME [from NODE] gm = … rout = … [cap = …] [bias = …] [inverting]`: a transconductance from its input
+// into its own output node, which has `rout` and `cap` to ground.
+import { si, type Amperes } from '../../units';
+import { tokenRange, type Token } from '../lexer';
+import type { NodeRef } from '../model';
+import { NOTHING } from '../modelParts';
+import { node } from '../nodeName';
+import type { PolaritySyntax, StatementCommon } from '../syntax';
+import { sensed, type StatementDescriptor } from './statementKind';
+
+export type StageStatement = StatementCommon & {
+  readonly kind: 'stage';
+  readonly name?: Token;
+  readonly from?: Token;
+  readonly polarity?: PolaritySyntax;
+};
+
+export const stageKind: StatementDescriptor<StageStatement> = {
+  fields: [
+    { name: 'gm', unit: 'S', role: 'gm-stage', required: true },
+    { name: 'rout', unit: 'ohm', role: 'rout', required: true },
+    { name: 'cap', unit: 'F', role: 'cap' },
+    { name: 'bias', unit: 'A', role: 'bias' },
+  ],
+  flags: ['inverting', 'noninverting'],
+  connectors: ['from'],
+  overriddenByKeyword: false,
+  parse(p, parts) {
+    parts.name = p.name('a stage name');
+    p.fieldList((t) => {
+      if (t.text !== 'from') return false;
+      if (parts.from) p.fail('`from` is given twice.', tokenRange(t));
+      p.c.next();
+      parts.from = p.name('the node that drives this stage');
+      return true;
+    });
+  },
+  nodes: (s) => sensed(s.from),
+  declares: (s) => (s.name ? [{ kind: 'stage', token: s.name, statement: s }] : []),
+  build(s, ctx) {
+    // A second stage of the same name declares nothing: the first one owns the node.
+    if (!s.name || ctx.scope.decls.get(s.name.text)?.statement !== s) return NOTHING;
+    const input: NodeRef | undefined = s.from
+      ? ctx.resolveNode(s.from)
+      : { kind: 'node', name: ctx.scope.defaultInput(s) };
+    const f = ctx.fields(s, stageKind.fields);
+    if (!f || !input) return NOTHING;
+    return {
+      stages: [
+        {
+          name: node(s.name.text),
+          input,
+          gm: si(f.values.gm!),
+          rout: si(f.values.rout!),
+          cap: si(f.values.cap ?? 0),
+          polarity: s.polarity?.value ?? 'noninverting',
+          ...(f.values.bias !== undefined ? { bias: si<Amperes>(f.values.bias) } : {}),
+          origin: ctx.origin(s, f.origins),
+        },
+      ],
+    };
+  },
+};
