@@ -1,16 +1,18 @@
-// Completion from the language's own vocabulary: statement keywords at the start of a line, requirement
-// kinds after `require`, units after a number, else field names, flags and the names in scope.
+// Completion from the language's own vocabulary: statement keywords at the start of a line, a statement's
+// variants after its keyword (`require`, `element`), units after a number, else field names, flags, the
+// names in scope, and the functions where a value can start.
 import { CompletionItemKind, type CompletionItem } from 'vscode-languageserver';
 import type { TextDocument } from 'vscode-languageserver-textdocument';
 import {
   BUILTIN_NODES,
-  ELEMENT_KINDS,
   FIELD_DIMENSIONS,
   FIELDS_BY_STATEMENT,
   FLAGS_BY_STATEMENT,
-  REQUIREMENT_KINDS,
+  FUNCTION_NAMES,
+  FUNCTION_SIGNATURES,
   STATEMENT_KEYWORDS,
   UNIT_SPELLINGS,
+  VARIANTS_BY_STATEMENT,
 } from '../../../shared/src/language';
 import { endsAfterNumber } from '../../../shared/src/language/lexer';
 import type { SourcePosition } from '../../../shared/src/language/source';
@@ -23,6 +25,18 @@ const keyword = (label: string, detail?: string): CompletionItem => ({
   kind: CompletionItemKind.Keyword,
   ...(detail ? { detail } : {}),
 });
+
+/**
+ * True where a value can start: after `=`, a comparison, an operator, `(`, `settle` or `within`, with perhaps
+ * a name being typed. A `,` starts one only inside a function's parentheses (in a corner it starts a target).
+ */
+function valueCanStart(before: string): boolean {
+  const m = /(?:(\|\||[=(+\-*/^×·−∥,])|\b(settle|within))\s*(?:[A-Za-z_]\w*)?$/.exec(before);
+  if (!m) return false;
+  if (m[1] !== ',') return true;
+  const open = before.split('(').length - before.split(')').length;
+  return open > 0;
+}
 
 export function completion(
   report: DocumentReport,
@@ -54,10 +68,8 @@ export function completion(
     return items;
   }
   const statement = words[0]!;
-  if (statement === 'require' && words.length === 1)
-    return REQUIREMENT_KINDS.map((k) => keyword(k, 'requirement'));
-  if (statement === 'element' && words.length === 1)
-    return ELEMENT_KINDS.map((k) => keyword(k, 'element kind'));
+  const variants = VARIANTS_BY_STATEMENT[statement];
+  if (variants && words.length === 1) return variants.words.map((k) => keyword(k, variants.detail));
 
   const items: CompletionItem[] = [];
   for (const f of FIELDS_BY_STATEMENT[statement] ?? []) {
@@ -83,6 +95,9 @@ export function completion(
   for (const n of BUILTIN_NODES)
     items.push({ label: n, kind: CompletionItemKind.Variable, detail: 'built-in node' });
   if (statement === 'require') items.push(keyword('ugf', 'the unity-gain frequency'), keyword('within'));
+  if (valueCanStart(before))
+    for (const f of FUNCTION_NAMES)
+      items.push({ label: f, kind: CompletionItemKind.Function, detail: FUNCTION_SIGNATURES[f].usage });
   void typing;
   const seen = new Set<string>();
   return items.filter((i) => !seen.has(i.label) && seen.add(i.label));

@@ -10,6 +10,7 @@ export {
   FLAGS_BY_STATEMENT,
   REQUIRED_FIELDS,
   FIELD_DIMENSIONS,
+  VARIANTS_BY_STATEMENT,
 } from './vocabulary';
 export { UNIT_SPELLINGS, PREFIX_SCALES } from './unitTable';
 export { FUNCTION_NAMES, FUNCTION_SIGNATURES } from './expressionFunctions';

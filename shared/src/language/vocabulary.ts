@@ -11,8 +11,12 @@ export { closest, editDistance } from './closestWord';
 
 const KINDS = Object.entries(STATEMENT_KINDS) as [StatementKind, (typeof STATEMENT_KINDS)[StatementKind]][];
 
+// Without a prototype, a table looked up by any word the user typed (`constructor`) finds nothing.
+const table = <T>(entries: Iterable<readonly [string, T]>): Readonly<Record<string, T>> =>
+  Object.assign(Object.create(null) as Record<string, T>, Object.fromEntries(entries));
+
 const byKind = <T>(pick: (d: (typeof STATEMENT_KINDS)[StatementKind]) => T): Readonly<Record<string, T>> =>
-  Object.fromEntries(KINDS.map(([k, d]) => [k, pick(d)]));
+  table(KINDS.map(([k, d]) => [k, pick(d)] as const));
 
 const unique = (words: readonly string[]): string[] => [...new Set(words)];
 
@@ -57,11 +61,11 @@ export const FLAGS_BY_STATEMENT: Readonly<Record<string, readonly string[]>> = b
 /** The words that may follow each keyword and choose its variant (`element res`, `require pm`). */
 export const VARIANTS_BY_STATEMENT: Readonly<
   Record<string, { readonly words: readonly string[]; readonly detail: string }>
-> = Object.fromEntries(KINDS.flatMap(([k, d]) => (d.variants ? [[k, d.variants]] : [])));
+> = table(KINDS.flatMap(([k, d]) => (d.variants ? [[k, d.variants] as const] : [])));
 
 /** The unit a field implies: a plain number written there is taken in this unit. */
 // A field name means one quantity in every statement that has it (a test holds the kinds to that).
-export const FIELD_DIMENSIONS: Readonly<Record<string, NamedDimension>> = Object.fromEntries(
+export const FIELD_DIMENSIONS: Readonly<Record<string, NamedDimension>> = table(
   KINDS.flatMap(([, d]) => d.fields.map((f) => [f.name, f.unit] as const)),
 );
 
