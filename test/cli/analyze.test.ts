@@ -29,9 +29,19 @@ function expectedCorner(run: CornerRun) {
     zeros: a.zeros.map((z) => ({ re: n(z.s.re), im: n(z.s.im), hz: n(z.hz), rhp: z.rhp })),
     dcGain: { vv: n(a.dcGain), db: db(a.dcGain) },
     openLoopUgfHz: n(a.openLoopUgfHz),
+    closedLoop: {
+      stability: a.stability?.verdict ?? null,
+      openLoopRhpPoles: a.stability?.openLoopRhpPoles ?? null,
+      poles: (a.closedLoopPoles ?? []).map((p) => {
+        const m = Math.hypot(p.re, p.im);
+        return { re: n(p.re), im: n(p.im), hz: n(m / (2 * Math.PI)), damping: n(m === 0 ? 1 : -p.re / m) };
+      }),
+    },
     loop: {
       dcGain: { vv: n(a.loop.dcGain), db: db(a.loop.dcGain) },
       ugfHz: n(a.loop.ugfHz),
+      lowestUgfHz: n(a.loop.lowestUgfHz),
+      phaseMarginHz: n(a.loop.phaseMarginHz),
       phaseMarginDeg: n(a.loop.phaseMarginDeg),
       gainMarginDb: n(a.loop.gainMarginDb),
       phaseCrossoverHz: n(a.loop.phaseCrossoverHz),
