@@ -1,5 +1,6 @@
 // A requirement's measured value in one run, for hovers, inline hints and summaries.
 import type { DesignAnalysis } from '../analysis/types';
+import { formatDcGain, formatRatio, formatSlewRate, formatTolerance } from '../format/quantities';
 import { formatDb, formatDeg, formatHz, formatSi } from '../format/si';
 import type { Requirement } from '../language/model';
 import { violates } from './locate';
@@ -19,7 +20,6 @@ export interface Measurement {
   readonly value?: number;
 }
 
-const perMicro = (rate: number) => `${+(rate / 1e6).toPrecision(3)} V/µs`;
 const signed = (x: number, text: string) => `${x >= 0 ? '+' : '−'}${text}`;
 const OP = { '>=': '≥', '<=': '≤' } as const;
 
@@ -80,7 +80,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
           ? 'no RHP zero'
           : ratio === undefined
             ? formatHz(rhp.hz)
-            : `${formatHz(rhp.hz)} = ${+ratio.toPrecision(3)} × UGF`,
+            : `${formatHz(rhp.hz)} = ${formatRatio(ratio)} UGF`,
         required: `≥ ${req.factor} × UGF`,
         pass: !rhp || (ratio !== undefined && ratio >= req.factor),
         ...(ratio !== undefined ? { value: ratio } : {}),
@@ -90,20 +90,25 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       const v = a.slew?.rate;
       return {
         label: 'slew rate',
-        measured: v === undefined ? 'no stage states its bias' : perMicro(v),
-        required: `${OP[req.op]} ${perMicro(req.value)}`,
+        measured: v === undefined ? 'no stage states its bias' : formatSlewRate(v),
+        required: `${OP[req.op]} ${formatSlewRate(req.value)}`,
         pass: v !== undefined && !violates(req.op, v, req.value),
         ...(v !== undefined
-          ? { value: v, margin: signed(v - req.value, perMicro(Math.abs(v - req.value))) }
+          ? { value: v, margin: signed(v - req.value, formatSlewRate(Math.abs(v - req.value))) }
           : {}),
       };
     }
     case 'settle': {
       const v = a.step ? settlingTimeFor(a.step, req.tolerance) : undefined;
-      const pct = `${+(req.tolerance * 100).toPrecision(3)} %`;
+      const pct = formatTolerance(req.tolerance);
       return {
         label: `settling to ±${pct}`,
-        measured: v === undefined ? 'does not settle in the computed span' : formatSi(v, 's'),
+        measured:
+          a.stepUnavailable !== undefined
+            ? `not computed: ${a.stepUnavailable}`
+            : v === undefined
+              ? 'does not settle in the computed span'
+              : formatSi(v, 's'),
         required: `≤ ${formatSi(req.within, 's')}`,
         pass: v !== undefined && v <= req.within,
         ...(v !== undefined
@@ -115,11 +120,11 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       const v = gainDb(a.dcGain);
       return {
         label: 'open-loop DC gain',
-        measured: formatDb(v),
+        measured: formatDcGain(a.dcGain),
         required: `${OP[req.op]} ${formatDb(req.value)}`,
-        pass: !violates(req.op, v, req.value),
+        pass: !Number.isNaN(v) && !violates(req.op, v, req.value),
         value: v,
-        margin: signed(v - req.value, formatDb(Math.abs(v - req.value))),
+        ...(Number.isFinite(v) ? { margin: signed(v - req.value, formatDb(Math.abs(v - req.value))) } : {}),
       };
     }
   }

@@ -3,6 +3,7 @@
 // charge, a step response that could not be computed. Findings say so in words.
 import { describe, expect, it } from 'vitest';
 import { dcGainCheck } from '../../../shared/src/checks/dcGain';
+import { measure } from '../../../shared/src/checks/measure';
 import { doubletCheck, doubletSpread } from '../../../shared/src/checks/doublet';
 import { settlingCheck, settlingTimeFor } from '../../../shared/src/checks/settling';
 import { slewRateCheck } from '../../../shared/src/checks/slewRate';
@@ -136,6 +137,27 @@ describe('settling when the step response is missing', () => {
     const step = { t, y: t.map((x) => Math.exp(-x)), final: 0, overshootPct: 0, tolerance: 0.5 };
     expect(settlingTimeFor(step, 5e-324)).toBeUndefined();
     expect(settlingTimeFor(step, 0.1)).toBeCloseTo(Math.ceil(Math.log(10) * 10) / 10, 12);
+  });
+});
+
+describe('measurements shown in hovers, hints and summaries', () => {
+  it('an integrator passes a minimum DC gain in words, with no margin of ∞ dB', () => {
+    const m = measure(dcReq('>=', 60), analysis({ dcGain: Infinity }));
+    expect(m.measured).toBe(DC_GAIN_UNBOUNDED);
+    expect(m.pass).toBe(true);
+    expect(m.margin).toBeUndefined();
+  });
+
+  it('a blocked DC path fails a minimum DC gain in words', () => {
+    const m = measure(dcReq('>=', 20), analysis({ dcGain: 0 }));
+    expect(m.measured).toBe(DC_GAIN_ZERO);
+    expect(m.pass).toBe(false);
+  });
+
+  it('a step response that could not be computed says why instead of "does not settle"', () => {
+    const m = measure(settleReq(1e-3), analysis({ extra: { stepUnavailable: 'the reason' } }));
+    expect(m.measured).toBe('not computed: the reason');
+    expect(m.pass).toBe(false);
   });
 });
 
