@@ -36,7 +36,7 @@ export const dcGainCheck: Check = (input: CheckInput) =>
       gain === 0
         ? 'a series capacitor, or a missing path, blocks DC between the input and the output'
         : !finite
-          ? 'a pole at the origin (no resistance to ground at a gain node) makes the gain unbounded'
+          ? 'a node with no resistance to ground holds a pole at the origin'
           : req.op === '>='
             ? 'raise gm·rout of a stage'
             : 'lower gm·rout of a stage';
