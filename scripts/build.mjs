@@ -23,7 +23,7 @@ const entries = [
   },
   {
     ...common,
-    entryPoints: ['shared/src/cli/main.ts'],
+    entryPoints: ['cli/src/main.ts'],
     outfile: 'dist/cli.js',
     platform: 'node',
     format: 'cjs',

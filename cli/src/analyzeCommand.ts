@@ -1,6 +1,6 @@
 // `ampnote analyze FILE`: the exact results of one file's designs, as tables or as JSON.
 import { resolve } from 'node:path';
-import type { DesignReport, DocumentReport } from '../report';
+import type { DesignReport, DocumentReport } from '../../shared/src/report';
 import type { Command } from './args';
 import { analyzeJson } from './analyzeJson';
 import { formatAnalyzeText } from './analyzeText';

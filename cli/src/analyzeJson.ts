@@ -1,13 +1,13 @@
 // `analyze --json`: the engine's numbers per design and corner, as documented in docs/cli.md (schemaVersion 1).
 // Values are copied as the engine computed them; the only derived numbers are gains in dB (20·log10|V/V|).
 // JSON has no Infinity or NaN: such a value is written as null.
-import type { CheckSettings } from '../checks/settings';
-import type { Finding } from '../checks/types';
-import type { CornerRun, DesignReport, DocumentReport, Worst, WorstCase } from '../report';
-import { CAUTION } from '../protocol/panelData';
+import type { CheckSettings } from '../../shared/src/checks/settings';
+import type { Finding } from '../../shared/src/checks/types';
+import type { CornerRun, DesignReport, DocumentReport, Worst, WorstCase } from '../../shared/src/report';
+import { CAUTION } from '../../shared/src/protocol/panelData';
 import { findingJson, placeJson, SCHEMA_VERSION, type FindingJson, type PlaceJson } from './formatJson';
 import { findingsOfDesign, sortedFindings } from './run';
-import { gainDb } from '../units';
+import { gainDb } from '../../shared/src/units';
 
 type Num = number | null;
 

@@ -1,14 +1,14 @@
 // `analyze` without --json: readable tables of the exact results, one block per design.
-import { closedLoopVerdict } from '../format/closedLoop';
-import type { DesignAnalysis, Pole, Zero } from '../analysis/types';
-import { formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
-import { CAUTION } from '../protocol/panelData';
-import type { Finding } from '../checks/types';
-import type { CornerRun, DesignReport, DocumentReport, Worst } from '../report';
+import { closedLoopVerdict } from '../../shared/src/format/closedLoop';
+import type { DesignAnalysis, Pole, Zero } from '../../shared/src/analysis/types';
+import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
+import { CAUTION } from '../../shared/src/protocol/panelData';
+import type { Finding } from '../../shared/src/checks/types';
+import type { CornerRun, DesignReport, DocumentReport, Worst } from '../../shared/src/report';
 import { formatFindingText } from './formatText';
 import { dbText, errorText, radText, rootText, slewText } from './display';
 import { findingsOfDesign, sortedFindings } from './run';
-import { gainDb } from '../units';
+import { gainDb } from '../../shared/src/units';
 
 const DASH = '—';
 

@@ -9,7 +9,7 @@ import { sarifLog } from './formatSarif';
 import { formatFileText } from './formatText';
 import { readText, writeOutput, warn } from './io';
 import { createProgress } from './progress';
-import { CAUTION } from '../protocol/panelData';
+import { CAUTION } from '../../shared/src/protocol/panelData';
 import { wrapWords } from './wrap';
 import { exitCodeOf, summarize, summaryLine, EXIT_USAGE, type FileResult, type RunResult } from './run';
 

@@ -4,7 +4,7 @@ import {
   resolveCheckSettings,
   settingProblem,
   type CheckSettings,
-} from '../checks/settings';
+} from '../../shared/src/checks/settings';
 
 export type ConfigResult =
   | { readonly ok: true; readonly settings: CheckSettings; readonly warnings: readonly string[] }

@@ -1,7 +1,7 @@
 // What every command receives from main: where it runs, its streams, and the resolved settings.
-import type { CheckSettings } from '../checks/settings';
-import type { CancelToken } from '../analysis/types';
-import type { DocumentReport } from '../report';
+import type { CheckSettings } from '../../shared/src/checks/settings';
+import type { CancelToken } from '../../shared/src/analysis/types';
+import type { DocumentReport } from '../../shared/src/report';
 import type { Streams } from './io';
 
 export interface CliContext {

@@ -1,5 +1,5 @@
 // Number-to-text conventions shared by the analyze tables and the HTML report.
-import { formatDb, formatHz, formatSi, roundSignificant } from '../format/si';
+import { formatDb, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
 
 const TWO_PI = 2 * Math.PI;
 

@@ -1,7 +1,7 @@
 // `check --format json`: findings as plain data (schemaVersion 1, documented in docs/cli.md).
-import type { Finding } from '../checks/types';
-import type { SourceRange } from '../language/source';
-import { CAUTION } from '../protocol/panelData';
+import type { Finding } from '../../shared/src/checks/types';
+import type { SourceRange } from '../../shared/src/language/source';
+import { CAUTION } from '../../shared/src/protocol/panelData';
 import { exitCodeOf, oneBased, sortedFindings, summarize, type RunResult, type Summary } from './run';
 
 export const SCHEMA_VERSION = 1;

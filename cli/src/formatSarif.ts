@@ -2,9 +2,9 @@
 import { isAbsolute, relative, resolve, sep } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type * as Sarif from 'sarif';
-import { CHECK_CODES, type Finding, type Severity } from '../checks/types';
-import type { SourceRange } from '../language/source';
-import { CAUTION } from '../protocol/panelData';
+import { CHECK_CODES, type Finding, type Severity } from '../../shared/src/checks/types';
+import type { SourceRange } from '../../shared/src/language/source';
+import { CAUTION } from '../../shared/src/protocol/panelData';
 import { RULES } from './rules';
 import { exitCodeOf, oneBased, sortedFindings, summarize, type RunResult } from './run';
 

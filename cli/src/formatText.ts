@@ -1,5 +1,5 @@
 // `check --format text`: one compiler-style line per finding, so editors and CI annotate the right spot.
-import type { Finding } from '../checks/types';
+import type { Finding } from '../../shared/src/checks/types';
 import { oneBased, sortedFindings, type FileResult, type RunResult } from './run';
 
 /**

@@ -2,14 +2,14 @@
 // bundle, the data); a content security policy with hashes of exactly those inline blocks forbids every
 // network load, so the page opens the same offline, from an archive or attached to a review.
 import { createHash } from 'node:crypto';
-import type { Finding, Severity } from '../checks/types';
-import { formatDeg, formatHz, formatSi, roundSignificant } from '../format/si';
-import { CAUTION, type PanelData } from '../protocol/panelData';
-import type { DesignAnalysis } from '../analysis/types';
-import type { CornerRun, DesignReport, Worst } from '../report';
+import type { Finding, Severity } from '../../shared/src/checks/types';
+import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
+import { CAUTION, type PanelData } from '../../shared/src/protocol/panelData';
+import type { DesignAnalysis } from '../../shared/src/analysis/types';
+import type { CornerRun, DesignReport, Worst } from '../../shared/src/report';
 import { dbText, errorText, radText, rootText, slewText } from './display';
 import { sortedFindings } from './run';
-import { gainDb } from '../units';
+import { gainDb } from '../../shared/src/units';
 
 export interface ReportDesign {
   readonly report: DesignReport;

@@ -1,8 +1,8 @@
 // Entry point of the `ampnote` terminal checker (bundled to dist/cli.js).
 import { dirname, resolve } from 'node:path';
-import { version } from '../../../package.json';
-import { DEFAULT_CHECK_SETTINGS, type CheckSettings } from '../checks/settings';
-import { analyzeDocument } from '../service';
+import { version } from '../../package.json';
+import { DEFAULT_CHECK_SETTINGS, type CheckSettings } from '../../shared/src/checks/settings';
+import { analyzeDocument } from '../../shared/src/service';
 import { parseArgs, type Command } from './args';
 import { runAnalyze } from './analyzeCommand';
 import { runCheck } from './checkCommand';

@@ -1,7 +1,7 @@
 // `ampnote report FILE -o OUT.html`: the designs' values, findings and charts in one self-contained page.
 import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { buildPanelData } from '../panel/buildPanelData';
+import { buildPanelData } from '../../shared/src/panel/buildPanelData';
 import type { Command } from './args';
 import { exitCodeForDesigns, loadDesigns } from './analyzeCommand';
 import type { CliContext } from './context';

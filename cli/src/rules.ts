@@ -1,5 +1,5 @@
 // One line of help per finding code, for SARIF rule metadata and `--format json` readers.
-import type { CheckCode } from '../checks/types';
+import type { CheckCode } from '../../shared/src/checks/types';
 
 export interface RuleInfo {
   /** PascalCase name, as SARIF's `reportingDescriptor.name` wants an identifier-like word. */

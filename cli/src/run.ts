@@ -1,7 +1,7 @@
 // The result of a `check` run that every output format reads, its summary and its exit status.
-import type { Finding, Severity } from '../checks/types';
-import type { SourceRange } from '../language/source';
-import type { DocumentReport } from '../report';
+import type { Finding, Severity } from '../../shared/src/checks/types';
+import type { SourceRange } from '../../shared/src/language/source';
+import type { DocumentReport } from '../../shared/src/report';
 import type { InputProblem } from './discover';
 
 export interface FileResult {

@@ -1,5 +1,5 @@
 // Help texts for `ampnote --help` and `ampnote <command> --help`.
-import { CAUTION } from '../protocol/panelData';
+import { CAUTION } from '../../shared/src/protocol/panelData';
 import { wrapWords } from './wrap';
 
 const wrap = (text: string) => wrapWords(text).join('\n');

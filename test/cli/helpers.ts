@@ -28,6 +28,7 @@ export function ensureBuilt(): void {
     const built = Math.min(statSync(CLI).mtimeMs, statSync(join(ROOT, 'dist', 'charts.js')).mtimeMs);
     const sources = Math.max(
       newest(join(ROOT, 'shared', 'src')),
+      newest(join(ROOT, 'cli', 'src')),
       newest(join(ROOT, 'client', 'src', 'webview')),
     );
     return built >= sources;

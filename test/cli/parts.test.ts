@@ -1,9 +1,9 @@
 // The CLI's pure parts on their own: argument parsing, the config file, the progress line, HTML escaping.
 import { describe, expect, it } from 'vitest';
-import { parseArgs } from '../../shared/src/cli/args';
-import { parseConfig, stripJsonComments } from '../../shared/src/cli/config';
-import { createProgress } from '../../shared/src/cli/progress';
-import { embedJson, escapeHtml, inlineScript } from '../../shared/src/cli/htmlReport';
+import { parseArgs } from '../../cli/src/args';
+import { parseConfig, stripJsonComments } from '../../cli/src/config';
+import { createProgress } from '../../cli/src/progress';
+import { embedJson, escapeHtml, inlineScript } from '../../cli/src/htmlReport';
 import { DEFAULT_CHECK_SETTINGS } from '../../shared/src/checks/settings';
 
 describe('parseArgs', () => {

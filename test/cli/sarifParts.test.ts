@@ -5,7 +5,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { sarifLog } from '../../shared/src/cli/formatSarif';
+import { sarifLog } from '../../cli/src/formatSarif';
 import { analyzeDocument } from '../../shared/src/service';
 import { FIXTURES, ROOT } from './helpers';
 

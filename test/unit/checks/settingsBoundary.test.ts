@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { MIN_SETTLE_TOLERANCE } from '../../../shared/src/analysis/settleTolerance';
 import { DEFAULT_CHECK_SETTINGS, resolveCheckSettings } from '../../../shared/src/checks/settings';
-import { parseConfig } from '../../../shared/src/cli/config';
+import { parseConfig } from '../../../cli/src/config';
 import { analyzeDocument } from '../../../shared/src/service';
 
 const DESIGN = [
