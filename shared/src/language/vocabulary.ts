@@ -20,7 +20,7 @@ const byKind = <T>(pick: (d: (typeof STATEMENT_KINDS)[StatementKind]) => T): Rea
 
 const unique = (words: readonly string[]): string[] => [...new Set(words)];
 
-export const STATEMENT_KEYWORDS: readonly StatementKind[] = KINDS.map(([k]) => k);
+export const STATEMENT_KEYWORDS: readonly StatementKind[] = KINDS.map(([, d]) => d.keyword);
 export type StatementKeyword = StatementKind;
 
 /** Words that introduce a part of a statement (`from NODE`, `at NODE`, `within TIME`). */

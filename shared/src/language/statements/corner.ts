@@ -15,6 +15,7 @@ export type CornerStatement = StatementCommon & {
 };
 
 export const cornerKind: StatementDescriptor<CornerStatement> = {
+  keyword: 'corner',
   fields: [],
   flags: [],
   connectors: [],

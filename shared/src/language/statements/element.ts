@@ -32,6 +32,7 @@ const sameNode = (a: NodeRef, b: NodeRef): boolean =>
   a.kind === b.kind && (a.kind === 'ground' || (b.kind === 'node' && a.name === b.name));
 
 export const elementKind: StatementDescriptor<ElementStatement> = {
+  keyword: 'element',
   fields: [],
   flags: ['inverting', 'noninverting'],
   connectors: [],

@@ -8,6 +8,7 @@ import type { StatementDescriptor } from './statementKind';
 export type FeedbackStatement = StatementCommon & { readonly kind: 'feedback' };
 
 export const feedbackKind: StatementDescriptor<FeedbackStatement> = {
+  keyword: 'feedback',
   fields: [{ name: 'beta', unit: 'one', role: 'beta', required: true }],
   flags: [],
   connectors: [],

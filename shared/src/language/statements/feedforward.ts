@@ -13,6 +13,7 @@ export type FeedforwardStatement = StatementCommon & {
 };
 
 export const feedforwardKind: StatementDescriptor<FeedforwardStatement> = {
+  keyword: 'feedforward',
   fields: [{ name: 'gm', unit: 'S', role: 'gm', required: true }],
   flags: ['inverting', 'noninverting'],
   connectors: [],

@@ -14,6 +14,7 @@ export type IndirectStatement = StatementCommon & {
 };
 
 export const indirectKind: StatementDescriptor<IndirectStatement> = {
+  keyword: 'indirect',
   fields: [
     { name: 'cc', unit: 'F', role: 'cap', required: true },
     { name: 'gm', unit: 'S', role: 'gm-buffer', required: true },

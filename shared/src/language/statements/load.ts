@@ -8,6 +8,7 @@ import { attached, type StatementDescriptor } from './statementKind';
 export type LoadStatement = StatementCommon & { readonly kind: 'load'; readonly at?: Token };
 
 export const loadKind: StatementDescriptor<LoadStatement> = {
+  keyword: 'load',
   fields: [
     { name: 'cap', unit: 'F', role: 'cap-board' },
     { name: 'res', unit: 'ohm', role: 'res' },

@@ -14,6 +14,7 @@ export type MillerStatement = StatementCommon & {
 };
 
 export const millerKind: StatementDescriptor<MillerStatement> = {
+  keyword: 'miller',
   fields: [
     { name: 'cc', unit: 'F', role: 'cap', required: true },
     { name: 'rz', unit: 'ohm', role: 'rz' },

@@ -7,6 +7,7 @@ import type { StatementDescriptor } from './statementKind';
 export type NodeStatement = StatementCommon & { readonly kind: 'node'; readonly names: readonly Token[] };
 
 export const nodeKind: StatementDescriptor<NodeStatement> = {
+  keyword: 'node',
   fields: [],
   flags: [],
   connectors: [],

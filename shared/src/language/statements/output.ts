@@ -8,6 +8,7 @@ import { sensed, type StatementDescriptor } from './statementKind';
 export type OutputStatement = StatementCommon & { readonly kind: 'output'; readonly node?: Token };
 
 export const outputKind: StatementDescriptor<OutputStatement> = {
+  keyword: 'output',
   fields: [],
   flags: [],
   connectors: [],

@@ -9,6 +9,7 @@ import type { StatementDescriptor } from './statementKind';
 export type ParamStatement = StatementCommon & { readonly kind: 'param'; readonly name?: Token };
 
 export const paramKind: StatementDescriptor<ParamStatement> = {
+  keyword: 'param',
   fields: [],
   flags: [],
   connectors: [],

@@ -35,6 +35,7 @@ export type RequireStatement = StatementCommon & {
 };
 
 export const requireKind: StatementDescriptor<RequireStatement> = {
+  keyword: 'require',
   fields: [],
   flags: [],
   connectors: ['within'],

@@ -16,6 +16,7 @@ export type StageStatement = StatementCommon & {
 };
 
 export const stageKind: StatementDescriptor<StageStatement> = {
+  keyword: 'stage',
   fields: [
     { name: 'gm', unit: 'S', role: 'gm-stage', required: true },
     { name: 'rout', unit: 'ohm', role: 'rout', required: true },

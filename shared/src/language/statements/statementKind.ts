@@ -77,6 +77,8 @@ export interface BuildContext {
 }
 
 export interface StatementDescriptor<S extends Statement> {
+  /** The word that starts its line; also its key in the table of kinds. */
+  readonly keyword: S['kind'];
   /** Its `name = value` fields, in the order completion offers them. */
   readonly fields: readonly FieldSpec[];
   readonly flags: readonly Polarity[];
