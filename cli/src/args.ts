@@ -12,7 +12,7 @@ interface Common {
 }
 
 export type Command =
-  | { readonly kind: 'help'; readonly topic?: 'check' | 'analyze' | 'report' }
+  | { readonly kind: 'help'; readonly topic?: Subcommand }
   | { readonly kind: 'version' }
   | (Common & { readonly kind: 'check'; readonly paths: readonly string[]; readonly format: OutputFormat })
   | (Common & {
@@ -26,13 +26,21 @@ export type Command =
       readonly file: string;
       readonly design?: string;
       readonly output: string;
+    })
+  | (Common & {
+      readonly kind: 'solve';
+      readonly file: string;
+      readonly design?: string;
+      readonly json: boolean;
+      /** --write: put the solved values into the file (only the free parameters' values change). */
+      readonly write: boolean;
     });
 
 export type ParseResult =
   | { readonly ok: true; readonly command: Command }
-  | { readonly ok: false; readonly error: string; readonly topic?: 'check' | 'analyze' | 'report' };
+  | { readonly ok: false; readonly error: string; readonly topic?: Subcommand };
 
-const SUBCOMMANDS = ['check', 'analyze', 'report'] as const;
+const SUBCOMMANDS = ['check', 'analyze', 'report', 'solve'] as const;
 type Subcommand = (typeof SUBCOMMANDS)[number];
 
 /** Options that take a value, by subcommand. Short aliases map to their long name. */
@@ -40,11 +48,13 @@ const VALUE_OPTIONS: Record<Subcommand, readonly string[]> = {
   check: ['format', 'config', 'output'],
   analyze: ['design', 'config', 'output'],
   report: ['design', 'config', 'output'],
+  solve: ['design', 'config', 'output'],
 };
 const FLAG_OPTIONS: Record<Subcommand, readonly string[]> = {
   check: ['quiet', 'help'],
   analyze: ['json', 'quiet', 'help'],
   report: ['quiet', 'help'],
+  solve: ['json', 'write', 'quiet', 'help'],
 };
 const SHORT: Record<string, string> = {
   o: 'output',
@@ -148,6 +158,24 @@ export function parseArgs(argv: readonly string[]): ParseResult {
         ok: true,
         command: { kind: 'report', ...common, output, file: positionals[0]!, design: values.get('design') },
       };
+    }
+    case 'solve': {
+      if (positionals.length !== 1) return fail(`'solve' takes exactly one file (got ${positionals.length})`);
+      return {
+        ok: true,
+        command: {
+          kind: 'solve',
+          ...common,
+          file: positionals[0]!,
+          design: values.get('design'),
+          json: flags.has('json'),
+          write: flags.has('write'),
+        },
+      };
+    }
+    default: {
+      const never: never = sub;
+      return never;
     }
   }
 }

@@ -10,6 +10,7 @@ import { parseConfig } from './config';
 import type { CliContext } from './context';
 import { readText, warn, type Streams } from './io';
 import { runReport } from './reportCommand';
+import { runSolve } from './solveCommand';
 import { EXIT_OK, EXIT_USAGE } from './run';
 import { usage } from './usage';
 
@@ -44,6 +45,12 @@ export function main(argv: readonly string[], streams: Streams, cwd: string, pac
       return runAnalyze(cmd, ctx);
     case 'report':
       return runReport(cmd, ctx);
+    case 'solve':
+      return runSolve(cmd, ctx);
+    default: {
+      const never: never = cmd;
+      return never;
+    }
   }
 }
 

@@ -10,6 +10,7 @@ Usage:
   ampnote check FILE|FOLDER...   [--format text|json|sarif] [--config FILE] [-o FILE] [--quiet]
   ampnote analyze FILE           [--design NAME] [--json] [--config FILE] [-o FILE]
   ampnote report FILE -o OUT.html [--design NAME] [--config FILE] [--quiet]
+  ampnote solve FILE             [--design NAME] [--json] [--write] [--config FILE] [-o FILE]
   ampnote --help | ampnote COMMAND --help
   ampnote --version
 
@@ -67,7 +68,30 @@ Options:
   -h, --help            this help
 `;
 
-export function usage(topic?: 'check' | 'analyze' | 'report'): string {
+const SOLVE = `Usage: ampnote solve FILE [options]
+
+Solves each design's free parameters (\`param NAME = VALUE free LOW .. HIGH\`): the least objective
+(\`minimize EXPR\`, else the sum of the stages' bias currents, else the sum of the compensation
+capacitances) that meets every requirement, closed-loop stability and the default margins in the
+nominal design and every corner. Prints each value before and after, the objective, each requirement's
+worst value and corner, and the constraints that limit the answer.
+
+Options:
+  -d, --design NAME     only this design
+      --json            JSON (schemaVersion 1, see docs/cli.md)
+      --write           write the solved values into FILE (only the free parameters' values change)
+  -c, --config FILE     JSON file of check thresholds (the default margins)
+  -o, --output FILE     write the output to FILE instead of standard output
+  -q, --quiet           no progress line
+  -h, --help            this help
+
+Exit status: 0 every design met (or has no free parameters), 1 a design is infeasible within its
+bounds, 2 bad usage or an unreadable input.
+
+${wrap(CAUTION)}
+`;
+
+export function usage(topic?: 'check' | 'analyze' | 'report' | 'solve'): string {
   switch (topic) {
     case 'check':
       return CHECK;
@@ -75,7 +99,13 @@ export function usage(topic?: 'check' | 'analyze' | 'report'): string {
       return ANALYZE;
     case 'report':
       return REPORT;
-    default:
+    case 'solve':
+      return SOLVE;
+    case undefined:
       return OVERVIEW;
+    default: {
+      const never: never = topic;
+      return never;
+    }
   }
 }

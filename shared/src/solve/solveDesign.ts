@@ -24,6 +24,8 @@ export type SolveStatus = 'met' | 'infeasible' | 'no-free-parameters';
 
 export interface SolvedValue {
   readonly name: string;
+  /** The SI unit of the parameter's dimension (`F`, `A`, `ohm`; empty for a plain number). */
+  readonly unit: string;
   readonly before: number;
   readonly after: number;
   /** The value as it is written after the solve, in the designer's unit (`1.22 pF`). */
@@ -36,8 +38,8 @@ export interface RequirementOutcome {
   readonly kind: string;
   readonly label: string;
   readonly required: string;
-  /** The worst run's measured value as text, and its corner. */
-  readonly worst: { readonly value: string; readonly corner: string };
+  /** The worst run's measured value (in the requirement's own unit, as `measure` gives it), as text, and its corner. */
+  readonly worst: { readonly value?: number; readonly text: string; readonly corner: string };
   readonly met: boolean;
 }
 
@@ -172,6 +174,7 @@ export function solveDesign(source: DesignSource, options: SolveOptions): Design
     status,
     values: variables.map((v, i) => ({
       name: v.param.name,
+      unit: v.param.dimension,
       before: before[i]!,
       after: rounded[i]!,
       beforeText: v.knob.write(before[i]!),
@@ -303,7 +306,7 @@ const emptyAnalysis = {
 function outcomes(runs: readonly CornerRun[]): RequirementOutcome[] {
   const nominal = runs[0]!.model;
   return nominal.requirements.map((req, index) => {
-    let worst: { slack: number; value: string; corner: string } | undefined;
+    let worst: { slack: number; value?: number; text: string; corner: string } | undefined;
     let met = true;
     for (const run of runs) {
       const r = run.model.requirements[index];
@@ -311,14 +314,24 @@ function outcomes(runs: readonly CornerRun[]): RequirementOutcome[] {
       const m = measure(r, run.analysis);
       const slack = requirementSlack(r, run.analysis);
       met &&= m.pass;
-      if (!worst || slack < worst.slack) worst = { slack, value: m.measured, corner: run.corner };
+      if (!worst || slack < worst.slack)
+        worst = {
+          slack,
+          ...(m.value !== undefined ? { value: m.value } : {}),
+          text: m.measured,
+          corner: run.corner,
+        };
     }
     const m = measure(req, runs[0]!.analysis);
     return {
       kind: req.kind,
       label: m.label,
       required: m.required,
-      worst: { value: worst?.value ?? m.measured, corner: worst?.corner ?? 'nominal' },
+      worst: {
+        ...(worst?.value !== undefined ? { value: worst.value } : {}),
+        text: worst?.text ?? m.measured,
+        corner: worst?.corner ?? 'nominal',
+      },
       met,
     };
   });
