@@ -1,9 +1,50 @@
 // Bundles the extension client, the language server, the terminal checker and the panel script.
 import * as esbuild from 'esbuild';
 import { mkdirSync } from 'node:fs';
+import { dirname, resolve } from 'node:path';
 
 const watch = process.argv.includes('--watch');
 const common = { bundle: true, sourcemap: true, logLevel: 'warning', target: 'node20' };
+
+/** The chart drawing code as a browser script defining the global `AmpnoteCharts`. */
+const chartsScript = {
+  ...common,
+  entryPoints: ['shared/src/charts/draw.ts'],
+  platform: 'browser',
+  format: 'iife',
+  globalName: 'AmpnoteCharts',
+  target: 'es2022',
+};
+
+/**
+ * `import text from './module?script'` (declared in cli/src/scriptImport.d.ts): the module bundled as a
+ * browser script, and its text as the import. The report page inlines the same chart code the panel runs,
+ * and the dependency is an import the compiler and the bundler follow, not a file read at run time.
+ */
+const scriptImports = {
+  name: 'script-imports',
+  setup(build) {
+    build.onResolve({ filter: /\?script$/ }, (args) => ({
+      path: resolve(args.resolveDir, args.path.replace(/\?script$/, '')) + '.ts',
+      namespace: 'script',
+    }));
+    build.onLoad({ filter: /.*/, namespace: 'script' }, async (args) => {
+      const out = await esbuild.build({
+        ...chartsScript,
+        entryPoints: [args.path],
+        sourcemap: false,
+        write: false,
+        metafile: true,
+      });
+      return {
+        contents: out.outputFiles[0].text,
+        loader: 'text',
+        resolveDir: dirname(args.path),
+        watchFiles: Object.keys(out.metafile.inputs).map((p) => resolve(p)),
+      };
+    });
+  },
+};
 
 const entries = [
   {
@@ -28,6 +69,7 @@ const entries = [
     platform: 'node',
     format: 'cjs',
     banner: { js: '#!/usr/bin/env node' },
+    plugins: [scriptImports],
   },
   // The panel script runs in the webview: a browser bundle with chart.js inside, served from media/.
   {
@@ -38,16 +80,8 @@ const entries = [
     format: 'iife',
     target: 'es2022',
   },
-  // The same chart code as a global `AmpnoteCharts`, for the terminal checker's self-contained HTML report.
-  {
-    ...common,
-    entryPoints: ['client/src/webview/charts.ts'],
-    outfile: 'dist/charts.js',
-    platform: 'browser',
-    format: 'iife',
-    globalName: 'AmpnoteCharts',
-    target: 'es2022',
-  },
+  // The chart script on its own, as the report inlines it (dist/charts.js is a published bundle name).
+  { ...chartsScript, outfile: 'dist/charts.js' },
 ];
 
 mkdirSync('dist', { recursive: true });

@@ -27,7 +27,7 @@ export interface ReportInput {
   readonly designs: readonly ReportDesign[];
   /** Findings outside every design. */
   readonly fileFindings: readonly Finding[];
-  /** The chart bundle (an IIFE defining the global `AmpnoteCharts` with `drawCharts`). */
+  /** The chart script (defines the global `AmpnoteCharts` with `drawCharts`; see chartsScript.ts). */
   readonly chartsScript: string;
 }
 

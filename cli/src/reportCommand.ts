@@ -1,29 +1,19 @@
 // `ampnote report FILE -o OUT.html`: the designs' values, findings and charts in one self-contained page.
-import { join, resolve } from 'node:path';
+import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { buildPanelData } from '../../shared/src/panel/buildPanelData';
 import type { Command } from './args';
+import { CHARTS_SCRIPT } from './chartsScript';
 import { exitCodeForDesigns, loadDesigns } from './analyzeCommand';
 import type { CliContext } from './context';
 import { renderReport, type ReportDesign } from './htmlReport';
-import { readText, warn, writeOutput } from './io';
+import { warn, writeOutput } from './io';
 import { createProgress } from './progress';
 import { EXIT_USAGE, findingsOfDesign, summaryLine } from './run';
 
 type ReportCommand = Extract<Command, { kind: 'report' }>;
 
 export function runReport(cmd: ReportCommand, ctx: CliContext): number {
-  // The chart bundle first: without it there is no report to write, and nothing should be analysed in vain.
-  const bundlePath = join(ctx.packageRoot, 'dist', 'charts.js');
-  // Our own file, not an input: no size limit.
-  const bundle = readText(bundlePath, Number.POSITIVE_INFINITY);
-  if (!bundle.ok) {
-    warn(
-      ctx.streams,
-      `ampnote: cannot read the chart bundle ${bundlePath}: ${bundle.message} (run 'npm run build')`,
-    );
-    return EXIT_USAGE;
-  }
   const loaded = loadDesigns(cmd.file, cmd.design, ctx);
   if (!loaded.ok) return loaded.code;
   const { path, report, designs } = loaded;
@@ -56,7 +46,7 @@ export function runReport(cmd: ReportCommand, ctx: CliContext): number {
     generated: new Date().toISOString().replace(/\.\d+Z$/, 'Z'),
     designs: entries,
     fileFindings: report.findings.filter((f) => f.design === undefined),
-    chartsScript: bundle.text,
+    chartsScript: CHARTS_SCRIPT,
   });
   const error = writeOutput(ctx.cwd, cmd.output, html, [cmd.file], cmd.config);
   if (error) {

@@ -19,8 +19,9 @@ function newest(dir: string): number {
 }
 
 /**
- * `npm run build` unless dist/cli.js and dist/charts.js are newer than every source they bundle. Test files
- * run in parallel workers, so the build runs under a lock and the second worker finds it done.
+ * `npm run build` unless dist/cli.js (which carries the chart script for reports) and dist/charts.js are
+ * newer than every source they bundle. Test files run in parallel workers, so the build runs under a lock
+ * and the second worker finds it done.
  */
 export function ensureBuilt(): void {
   const fresh = () => {

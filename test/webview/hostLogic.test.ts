@@ -4,9 +4,9 @@ import { describe, expect, it } from 'vitest';
 import { applyRefusal, parseWebviewMessage } from '../../client/src/webviewGuard';
 import { boundedRestarts } from '../../client/src/restartPolicy';
 import { positionToValue, valueToPosition, STEPS } from '../../client/src/webview/sliderScale';
-import { symlog, symlogInverse, symlogKnee } from '../../client/src/webview/symlog';
-import { chartCsv } from '../../client/src/webview/chartCsv';
-import { withAlpha } from '../../client/src/webview/theme';
+import { symlog, symlogInverse, symlogKnee } from '../../shared/src/charts/symlog';
+import { chartCsv } from '../../shared/src/charts/csv';
+import { withAlpha } from '../../shared/src/charts/colors';
 import { CAUTION, type PanelData } from '../../shared/src/protocol/panelData';
 
 describe('messages from the webview', () => {

@@ -10,7 +10,7 @@ import { analyzeDesign, sweepCompensation } from '../../shared/src/analysis';
 import type { DesignModel } from '../../shared/src/language/model';
 import type { CompensationTarget, PanelData } from '../../shared/src/protocol/panelData';
 import { buildPanelData, sweepValues } from '../../shared/src/panel/buildPanelData';
-import { symlog } from '../../client/src/webview/symlog';
+import { symlog } from '../../shared/src/charts/symlog';
 import { positionToValue } from '../../client/src/webview/sliderScale';
 import { formatSi } from '../../shared/src/format/si';
 import { panelHtml } from '../../client/src/panelHtml';

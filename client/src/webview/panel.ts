@@ -9,7 +9,9 @@ import type {
   WebviewToHost,
 } from '../../../shared/src/protocol/webviewMessages';
 import { formatDb, formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
-import { chartCsv, CHART_IDS, drawCharts, readThemeColors, type ChartSet } from './charts';
+import { CHART_IDS, drawCharts, type ChartSet } from '../../../shared/src/charts/draw';
+import { chartCsv } from '../../../shared/src/charts/csv';
+import { readThemeColors } from './theme';
 import { positionToValue, valueToPosition } from './sliderScale';
 
 interface VsCodeApi {

@@ -1,6 +1,6 @@
 // Each chart's data as CSV, in SI units with the unit in the header: what a designer pastes into a sheet.
-import type { PanelData } from '../../../shared/src/protocol/panelData';
-import type { ChartId } from '../../../shared/src/protocol/webviewMessages';
+import type { PanelData } from '../protocol/panelData';
+import type { ChartId } from '../protocol/webviewMessages';
 
 function quote(field: string): string {
   return /[",\n\r]/.test(field) ? `"${field.replace(/"/g, '""')}"` : field;

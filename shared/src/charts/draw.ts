@@ -1,5 +1,6 @@
-// The panel's four charts, drawn with chart.js from PanelData alone. No editor API here: the same module is
-// bundled into the webview script and, as a global `AmpnoteCharts`, into the terminal checker's report.
+// The four charts, drawn with chart.js from PanelData alone into canvases the caller hands over. No editor
+// API here: the panel's script imports this module, and the terminal checker's report inlines it as a
+// browser script (global `AmpnoteCharts`, see cli/src/chartsScript.ts).
 import {
   Chart,
   Filler,
@@ -16,16 +17,12 @@ import {
   type Scale,
   type TooltipItem,
 } from 'chart.js';
-import type { PanelData, PanelPole } from '../../../shared/src/protocol/panelData';
-import type { ChartId } from '../../../shared/src/protocol/webviewMessages';
-import { formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
+import type { PanelData, PanelPole } from '../protocol/panelData';
+import type { ChartId } from '../protocol/webviewMessages';
+import { formatDeg, formatHz, formatSi } from '../format/si';
 import { symlog, symlogInverse, symlogKnee, symlogTicks } from './symlog';
-import { withAlpha, type ChartColors } from './theme';
+import { withAlpha, type ChartColors } from './colors';
 import { settlingMarksPlugin, type SettlingMarks } from './settlingInset';
-
-export { chartCsv } from './chartCsv';
-export { readThemeColors, withAlpha, type ChartColors } from './theme';
-export { symlog, symlogInverse, symlogKnee } from './symlog';
 
 Chart.register(
   ScatterController,
