@@ -10,6 +10,9 @@ export interface PoleZeroForm {
   readonly k: number;
 }
 
+/** Enough to follow a 30-level bisection down to every jump between two samples. */
+const MAX_SPLITS_PER_SAMPLE = 256;
+
 export interface Bode {
   readonly magDb: number[];
   readonly phaseDeg: number[];
@@ -154,10 +157,13 @@ export function nodalBode(
   // The branch at the start is the one nearest the DC convention (0 or 180°, less 90° per integrator).
   const raw0 = wrap(startOmega);
   let prevPhase = raw0 + 360 * Math.round((dcPhaseDeg - raw0) / 360);
+  // Splits left for the current sample: a phase that keeps jumping (NaN from a network out of double
+  // range, or roundoff) would otherwise cost up to 2^31 solves through the two-way recursion.
+  let splits = 0;
   const follow = (w0: number, p0: number, w1: number, depth: number): number => {
     const raw = wrap(w1);
     const p1 = raw + 360 * Math.round((p0 - raw) / 360);
-    if (Math.abs(p1 - p0) <= 90 || depth > 30) return p1;
+    if (!Number.isFinite(p1) || Math.abs(p1 - p0) <= 90 || depth > 30 || --splits < 0) return p1;
     const mid = w0 > 0 ? Math.sqrt(w0 * w1) : w1 / 2;
     const pm = follow(w0, p0, mid, depth + 1);
     return follow(mid, pm, w1, depth + 1);
@@ -166,6 +172,7 @@ export function nodalBode(
     const w = 2 * Math.PI * f;
     const [r, i] = at(w);
     magDb.push(10 * Math.log10(r * r + i * i));
+    splits = MAX_SPLITS_PER_SAMPLE;
     const p = follow(prevW, prevPhase, w, 0);
     phaseDeg.push(p);
     prevW = w;

@@ -35,6 +35,22 @@ function coreOf(
 
 const failed = (problems: readonly AnalysisProblem[]): BodeResult => ({ magDb: [], phaseDeg: [], problems });
 
+/**
+ * The response, or a problem when a sample is NaN: the solve left double precision (a magnitude of −∞ dB
+ * is a true zero of the response and stays).
+ */
+function computed(bode: Bode): BodeResult {
+  if (bode.magDb.some(Number.isNaN) || bode.phaseDeg.some(Number.isNaN)) {
+    return failed([
+      {
+        message:
+          'the frequency response leaves the range of double precision (values in the network lie too far apart)',
+      },
+    ]);
+  }
+  return bode;
+}
+
 /** A frequency well below every root, where the phase equals its DC value. */
 const startOmega = (core: CoreResult) => core.grid[0] / 1e3;
 
@@ -48,7 +64,7 @@ const dcPhase = (core: CoreResult, gain: number) => {
 export function openLoopResponse(source: Network | DesignModel, hz: readonly number[]): BodeResult {
   const r = coreOf(source);
   if (!r.ok) return failed(r.problems);
-  return nodalBode(r.core.network, hz, 1, startOmega(r.core), dcPhase(r.core, 1));
+  return computed(nodalBode(r.core.network, hz, 1, startOmega(r.core), dcPhase(r.core, 1)));
 }
 
 /** Loop gain L(jω) = β·σ·A(jω) by direct complex solve; β from the model (or `beta` for a network). */
@@ -60,14 +76,14 @@ export function loopResponse(
   const r = coreOf(source, beta);
   if (!r.ok) return failed(r.problems);
   const gain = r.core.beta * r.core.sign;
-  return nodalBode(r.core.network, hz, gain, startOmega(r.core), dcPhase(r.core, gain));
+  return computed(nodalBode(r.core.network, hz, gain, startOmega(r.core), dcPhase(r.core, gain)));
 }
 
 /** A(jω) from the exact poles, zeros and leading gain. */
 export function openLoopResponsePz(source: Network | DesignModel, hz: readonly number[]): BodeResult {
   const r = coreOf(source);
   if (!r.ok) return failed(r.problems);
-  return pzBode(r.core.open, hz, 1, r.core.tiny);
+  return computed(pzBode(r.core.open, hz, 1, r.core.tiny));
 }
 
 /** L(jω) from the exact poles, zeros and leading gain. */
@@ -78,5 +94,5 @@ export function loopResponsePz(
 ): BodeResult {
   const r = coreOf(source, beta);
   if (!r.ok) return failed(r.problems);
-  return pzBode(r.core.open, hz, r.core.beta * r.core.sign, r.core.tiny);
+  return computed(pzBode(r.core.open, hz, r.core.beta * r.core.sign, r.core.tiny));
 }

@@ -300,7 +300,8 @@ export function buildPanelData(
       : {}),
     locus,
     bode: {
-      hz,
+      // A response that could not be computed leaves the chart empty rather than misaligned.
+      hz: response.problems ? [] : hz,
       magDb: response.magDb,
       phaseDeg: response.phaseDeg,
       ugfHz: analysis.loop.ugfHz,

@@ -2,6 +2,7 @@
 // never a hang or a throw; and the settling band of a response that returns to zero.
 import { describe, expect, it } from 'vitest';
 import { analyzeDesign } from '../../../shared/src/analysis';
+import { loopResponse, openLoopResponse } from '../../../shared/src/analysis/responses';
 import { stepResponse, type StepSystem } from '../../../shared/src/analysis/stepResponse';
 import { buildModel, type ModelSpec } from './buildModel';
 
@@ -97,6 +98,17 @@ describe('step response at the edge of double precision', () => {
       for (const v of [...a.step.t, ...a.step.y, a.step.final]) expect(Number.isFinite(v)).toBe(true);
     }
   });
+
+  it.each([1e308, 1e300, 1e-300, 5e-324])(
+    'frequency responses with Cc = %s return (samples or problems)',
+    (cc) => {
+      const model = twoStage({ cc });
+      const hz = [1, 1e3, 1e6, 1e9];
+      for (const r of [openLoopResponse(model, hz), loopResponse(model, hz)]) {
+        expect(r.magDb.length === hz.length || (r.problems?.length ?? 0) > 0).toBe(true);
+      }
+    },
+  );
 
   it('a refused tolerance leaves the rest of the analysis intact', () => {
     const a = analyzeDesign(twoStage({}), { settleTolerance: 5e-324 });
