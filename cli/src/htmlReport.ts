@@ -4,6 +4,7 @@
 import { createHash } from 'node:crypto';
 import type { Finding, Severity } from '../../shared/src/checks/types';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
+import { CHARTS } from '../../shared/src/charts/descriptors';
 import { CAUTION, type PanelData } from '../../shared/src/protocol/panelData';
 import type { DesignAnalysis } from '../../shared/src/analysis/types';
 import type { CornerRun, DesignReport, Worst } from '../../shared/src/report';
@@ -59,29 +60,6 @@ export function inlineScript(code: string): string {
     .replace(/<\/(script)/gi, '<\\/$1')
     .replace(/<!--/g, '<\\!--');
 }
-
-const CHARTS: readonly { readonly id: string; readonly title: string; readonly note: string }[] = [
-  {
-    id: 'locus',
-    title: 'Pole split',
-    note: 'Pole and zero frequencies against the compensation capacitor, from Cc = 0 (left edge) past the written value.',
-  },
-  {
-    id: 'bode',
-    title: 'Loop gain and phase',
-    note: 'Magnitude and phase of the loop gain, with the unity crossing and the phase margin.',
-  },
-  {
-    id: 'step',
-    title: 'Step response',
-    note: 'Closed-loop response to a unit input step, with the settling band.',
-  },
-  {
-    id: 'splane',
-    title: 'Poles and zeros',
-    note: 'Roots in the complex plane (rad/s); right-half-plane zeros marked.',
-  },
-];
 
 export function renderReport(input: ReportInput): string {
   const data = {
@@ -204,8 +182,8 @@ function designSection(d: ReportDesign, index: number): string {
         const noSweep = c.id === 'locus' && !d.panel?.compensation;
         const note = noSweep
           ? 'This design has no compensation capacitor, so there is no pole split to show.'
-          : c.note;
-        return `<figure class="chart${noSweep ? ' no-sweep' : ''}"><figcaption><strong>${c.title}</strong> ${note}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}" role="img" aria-label="${c.title} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`;
+          : c.shows;
+        return `<figure class="chart${noSweep ? ' no-sweep' : ''}"><figcaption><strong>${escapeHtml(c.title)}</strong> ${escapeHtml(note)}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}" role="img" aria-label="${escapeHtml(c.title)} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`;
       }),
       `</div>`,
       `<noscript><p class="problem">The charts need JavaScript; the tables above hold the same values.</p></noscript>`,

@@ -1,4 +1,5 @@
 // Help texts for `ampnote --help` and `ampnote <command> --help`.
+import { CHARTS } from '../../shared/src/charts/descriptors';
 import { CAUTION } from '../../shared/src/protocol/panelData';
 import { wrapWords } from './wrap';
 
@@ -57,8 +58,7 @@ Options:
 const REPORT = `Usage: ampnote report FILE -o OUT.html [options]
 
 Writes one self-contained HTML page (no network access needed to open it) with each design's values,
-findings and charts: pole split against the compensation capacitor, loop gain and phase, step response,
-and the pole/zero map.
+findings and charts (${CHARTS.map((c) => c.title).join(', ')}).
 
 Options:
   -o, --output FILE     the HTML file to write (required)

@@ -15,14 +15,10 @@ import {
   type PanelDataParams,
   type PanelDataResult,
 } from '../../shared/src/protocol/requests';
-import type {
-  ChartId,
-  HostToWebview,
-  PanelState,
-  WebviewToHost,
-} from '../../shared/src/protocol/webviewMessages';
+import type { HostToWebview, PanelState, WebviewToHost } from '../../shared/src/protocol/webviewMessages';
 import { panelHtml } from './panelHtml';
-import { applyRefusal, isChartId, parseWebviewMessage } from './webviewGuard';
+import { chart as chartDescriptor, isChartId, type ChartId } from '../../shared/src/charts/descriptors';
+import { applyRefusal, parseWebviewMessage } from './webviewGuard';
 import type { ServerRequests } from './requests';
 
 const sameTarget = (a: CompensationTarget, b: CompensationTarget) => a.kind === b.kind && a.index === b.index;
@@ -42,13 +38,6 @@ interface Target {
   design?: string;
   position?: { line: number; character: number };
 }
-
-const CHART_TITLES: Record<ChartId, string> = {
-  locus: 'pole-split',
-  bode: 'loop-gain',
-  step: 'step',
-  splane: 'pole-zero-map',
-};
 
 export class PanelHost implements vscode.Disposable {
   private panel: vscode.WebviewPanel | undefined;
@@ -431,7 +420,7 @@ export class PanelHost implements vscode.Disposable {
   private async save(chart: ChartId, ext: 'png' | 'csv', bytes: Uint8Array): Promise<void> {
     const data = this.last;
     const base = data ? vscode.Uri.parse(data.uri) : undefined;
-    const name = `${(data?.design ?? 'design').replace(/[^\w.-]+/g, '_')}-${CHART_TITLES[chart]}.${ext}`;
+    const name = `${(data?.design ?? 'design').replace(/[^\w.-]+/g, '_')}-${chartDescriptor(chart).fileName}.${ext}`;
     const folder =
       base && base.scheme === 'file'
         ? vscode.Uri.joinPath(base, '..')

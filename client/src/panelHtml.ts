@@ -1,7 +1,7 @@
 // The panel's page. Pure, so tests render exactly what the editor shows: a strict policy that admits only
 // the extension's own script (by nonce) and stylesheet, and static markup the script fills with text.
 import { CAUTION } from '../../shared/src/protocol/panelData';
-import type { ChartId } from '../../shared/src/protocol/webviewMessages';
+import { CHARTS } from '../../shared/src/charts/descriptors';
 
 export interface PanelHtmlInput {
   readonly nonce: string;
@@ -10,13 +10,6 @@ export interface PanelHtmlInput {
   readonly scriptUri: string;
   readonly styleUri: string;
 }
-
-const CHARTS: readonly { id: ChartId; title: string; hint: string }[] = [
-  { id: 'locus', title: 'Pole split', hint: 'pole and zero magnitudes against the compensation capacitor' },
-  { id: 'bode', title: 'Loop gain', hint: 'magnitude and phase of the loop gain, unity crossing marked' },
-  { id: 'step', title: 'Closed-loop step', hint: 'unit input step with the settling band' },
-  { id: 'splane', title: 'Pole-zero map', hint: 's-plane, symmetric logarithmic axes' },
-];
 
 /** Attribute values here are our own constants or URIs, escaped anyway so a quote can never end one. */
 function attr(value: string): string {
@@ -39,7 +32,7 @@ export function panelHtml(input: PanelHtmlInput): string {
     (c) => `
       <section class="card" id="card-${c.id}" data-chart="${c.id}">
         <header class="card-head">
-          <button class="card-title" type="button" data-action="select" data-chart="${c.id}" title="${attr(c.hint)}">${c.title}</button>
+          <button class="card-title" type="button" data-action="select" data-chart="${c.id}" title="${attr(c.shows)}">${attr(c.title)}</button>
           <span class="card-tools">${c.id === 'step' ? '\n            <button type="button" id="step-zoom" data-action="zoom" data-chart="step" aria-pressed="false" title="Zoom to the settling band">Band</button>' : ''}
             <button type="button" data-action="png" data-chart="${c.id}" title="Save this chart as PNG">PNG</button>
             <button type="button" data-action="csv" data-chart="${c.id}" title="Save this chart's data as CSV">CSV</button>

@@ -1,6 +1,7 @@
 // Messages from the webview are checked before the host acts on them: the page is ours, but what it sends
 // carries user input (slider values, exported bytes). Pure, so it is tested without an editor.
-import type { ChartId, WebviewToHost } from '../../shared/src/protocol/webviewMessages';
+import { isChartId } from '../../shared/src/charts/descriptors';
+import type { WebviewToHost } from '../../shared/src/protocol/webviewMessages';
 import { unwritableValue } from '../../shared/src/writtenValues';
 
 function isNonNegative(v: unknown): v is number {
@@ -14,10 +15,6 @@ export function applyRefusal(cc: number | undefined, rz: number | undefined): st
     (cc !== undefined ? unwritableValue(cc, 'cc') : undefined) ??
     (rz !== undefined ? unwritableValue(rz, 'rz', true) : undefined)
   );
-}
-
-export function isChartId(v: unknown): v is ChartId {
-  return v === 'locus' || v === 'bode' || v === 'step' || v === 'splane';
 }
 
 export function parseWebviewMessage(raw: unknown): WebviewToHost | undefined {

@@ -7,9 +7,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { formatDeg, formatHz } from '../../shared/src/format/si';
 import { CAUTION } from '../../shared/src/protocol/panelData';
 import { analyzeDocument } from '../../shared/src/service';
+import { CHART_IDS, CHARTS as CHART_TABLE } from '../../shared/src/charts/descriptors';
 import { cli, ensureBuilt, FIXTURES, ROOT, tempDir } from './helpers';
 
-const CHARTS = ['locus', 'bode', 'step', 'splane'] as const;
+const CHARTS = CHART_IDS;
 let dir: ReturnType<typeof tempDir>;
 let browser: Browser;
 
@@ -119,6 +120,11 @@ describe('ampnote report', () => {
           .poll(() => inkedPixels(page, `#chart-${id}-0`), { timeout: 10_000 })
           .toBeGreaterThan(2000);
       }
+      // The figures carry the charts' titles from the one table the panel reads too.
+      const captions = await page.$$eval('#design-0 figcaption strong', (els) =>
+        els.map((e) => e.textContent),
+      );
+      expect(captions).toEqual(CHART_TABLE.map((c) => c.title));
       expect(errors).toEqual([]);
       expect(requests).toEqual([url]);
       // Kept for review (test-output/ is not committed).

@@ -2,14 +2,10 @@
 // sliders, exports, keeps its state across hide/show, and follows the theme. Every string the user wrote
 // (design names, messages quoting the file) is inserted with textContent.
 import type { CompensationTarget, PanelData } from '../../../shared/src/protocol/panelData';
-import type {
-  ChartId,
-  HostToWebview,
-  PanelState,
-  WebviewToHost,
-} from '../../../shared/src/protocol/webviewMessages';
+import type { HostToWebview, PanelState, WebviewToHost } from '../../../shared/src/protocol/webviewMessages';
 import { formatDb, formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
-import { CHART_IDS, drawCharts, type ChartSet } from '../../../shared/src/charts/draw';
+import { CHART_IDS, isChartId, type ChartId } from '../../../shared/src/charts/descriptors';
+import { drawCharts, type ChartSet } from '../../../shared/src/charts/draw';
 import { chartCsv } from '../../../shared/src/charts/csv';
 import { readThemeColors } from './theme';
 import { positionToValue, valueToPosition } from './sliderScale';
@@ -337,8 +333,8 @@ ui.reset.addEventListener('click', () => {
 
 ui.grid.addEventListener('click', (ev) => {
   const button = (ev.target as HTMLElement).closest<HTMLButtonElement>('button[data-action]');
-  if (!button) return;
-  const chart = button.dataset.chart as ChartId;
+  const chart = button?.dataset.chart;
+  if (!button || !isChartId(chart)) return;
   switch (button.dataset.action) {
     case 'select':
       saveState({ selected: chart });

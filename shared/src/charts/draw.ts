@@ -18,7 +18,7 @@ import {
   type TooltipItem,
 } from 'chart.js';
 import type { PanelData, PanelPole } from '../protocol/panelData';
-import type { ChartId } from '../protocol/webviewMessages';
+import { CHART_IDS, type ChartId } from './descriptors';
 import { formatDeg, formatHz, formatSi } from '../format/si';
 import { symlog, symlogInverse, symlogKnee, symlogTicks } from './symlog';
 import { withAlpha, type ChartColors } from './colors';
@@ -34,8 +34,6 @@ Chart.register(
   Legend,
   Filler,
 );
-
-export const CHART_IDS: readonly ChartId[] = ['locus', 'bode', 'step', 'splane'];
 
 /** What each dataset shows; tests and CSV export find datasets by role, not by position. */
 export type DatasetRole =

@@ -1,4 +1,5 @@
 // Messages between the extension host and the panel's webview, typed once for both sides.
+import type { ChartId } from '../charts/descriptors';
 import type { CompensationTarget, PanelData } from './panelData';
 
 export type HostToWebview =
@@ -16,8 +17,6 @@ export type WebviewToHost =
   | { readonly type: 'compensation'; readonly target: CompensationTarget }
   | { readonly type: 'exportCsv'; readonly chart: ChartId; readonly csv: string }
   | { readonly type: 'exportPng'; readonly chart: ChartId; readonly dataUrl: string };
-
-export type ChartId = 'locus' | 'bode' | 'step' | 'splane';
 
 /** What the webview keeps across hide/show (vscode.setState). */
 export interface PanelState {

@@ -257,7 +257,7 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     const target = Number(value) - Number(min) > Number(max) - Number(value) ? min : max;
     await slider.fill(String(target));
     const after = await poll(
-      'the pole-zero map and the summary to change after the slider moved',
+      'the poles-and-zeros chart and the summary to change after the slider moved',
       async () => {
         const now = await panelFingerprint(frame);
         return now.splane !== before.splane && now.summary !== before.summary ? now : undefined;
@@ -436,7 +436,7 @@ async function canvasInk(frame) {
   });
 }
 
-/** A checksum of the pole-zero map's pixels and the summary's text: both change when the poles move. */
+/** A checksum of the poles-and-zeros chart's pixels and the summary's text: both change when the poles move. */
 async function panelFingerprint(frame) {
   return frame.locator('body').evaluate(() => {
     let sum = 0;

@@ -1,0 +1,73 @@
+// The charts, each defined once: the panel's cards, the messages that name a chart, the export file names,
+// the CSV header and the report's figures are all read from this table. Adding a chart is one entry here;
+// the compiler then points at what still has to draw it (draw.ts) and write its CSV (csv.ts).
+
+export interface ChartDescriptor {
+  /** Stable id: in messages between panel and host, element ids and the saved panel state. */
+  readonly id: string;
+  /** The one title, on every surface (panel card, report figure, README, help). */
+  readonly title: string;
+  /** What the chart shows, in a sentence: the report's caption and the panel card's tooltip. */
+  readonly shows: string;
+  /** Base of the exported file names (PNG and CSV), after the design's name. */
+  readonly fileName: string;
+  /** The CSV header: SI units in each column's name, so the numbers paste into a sheet as they are. */
+  readonly csvColumns: readonly string[];
+}
+
+export const CHARTS = [
+  {
+    id: 'locus',
+    title: 'Pole split',
+    shows:
+      'Pole and zero frequencies against the compensation capacitor, from Cc = 0 (left edge) past the written value.',
+    fileName: 'pole-split',
+    csvColumns: ['series', 'cc_F', 'magnitude_Hz'],
+  },
+  {
+    id: 'bode',
+    title: 'Loop gain',
+    shows: 'Magnitude and phase of the loop gain, with every unity crossing and the phase margin.',
+    fileName: 'loop-gain',
+    csvColumns: ['frequency_Hz', 'loop_gain_dB', 'loop_phase_deg'],
+  },
+  {
+    id: 'step',
+    title: 'Step response',
+    shows: 'Closed-loop response to a unit input step, with the settling band.',
+    fileName: 'step-response',
+    csvColumns: ['time_s', 'output'],
+  },
+  {
+    id: 'splane',
+    title: 'Poles and zeros',
+    shows:
+      'Open-loop poles and zeros and the closed-loop poles in the complex plane (rad/s, symmetric logarithmic axes).',
+    fileName: 'poles-and-zeros',
+    csvColumns: [
+      'kind',
+      'real_rad_per_s',
+      'imag_rad_per_s',
+      'magnitude_Hz',
+      'damping',
+      'named_after',
+      'participation',
+    ],
+  },
+] as const satisfies readonly ChartDescriptor[];
+
+export type ChartId = (typeof CHARTS)[number]['id'];
+
+/** The charts' ids in the order every surface shows them. */
+export const CHART_IDS: readonly ChartId[] = CHARTS.map((c) => c.id);
+
+const BY_ID = new Map<string, ChartDescriptor>(CHARTS.map((c) => [c.id, c]));
+
+export function chart(id: ChartId): ChartDescriptor {
+  return BY_ID.get(id)!;
+}
+
+/** For messages that crossed from the webview: only an id in the table is a chart. */
+export function isChartId(v: unknown): v is ChartId {
+  return typeof v === 'string' && BY_ID.has(v);
+}
