@@ -138,8 +138,10 @@ export function solveKnob(
 
 const round3 = (x: number) => Number(x.toPrecision(3));
 
+/** Equal to rounding; an infinite slack (no such root at all) equals only itself. */
 const sameSlack = (a: number, b: number) =>
-  a === b || Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b));
+  a === b ||
+  (Number.isFinite(a) && Number.isFinite(b) && Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b)));
 
 /** 3-significant-digit values at and beyond `x` in the direction that goes into its window. */
 function roundedTowards(x: number, towards: 'up' | 'down'): number[] {

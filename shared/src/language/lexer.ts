@@ -39,7 +39,7 @@ const IDENT_PART = {
 };
 const DIGIT = { test: (ch: string): boolean => ch.length > 0 && isDigitCode(ch.charCodeAt(0)) };
 const NUMBER = /(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?/y;
-const TWO_CHAR_OPS = new Set(['->', '>=', '<=', '||']);
+const TWO_CHAR_OPS = new Set(['->', '>=', '<=', '||', '..']);
 const ONE_CHAR_OPS = new Set(['=', ',', '+', '-', '*', '/', '^', '(', ')', '.', '%', '>', '<', '\u00b0']);
 
 export function lexLine(text: string, line: number): LexedLine {

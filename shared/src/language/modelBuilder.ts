@@ -10,7 +10,7 @@ import { listNodes } from './designNodes';
 import { evaluate, type Quantity, type Related } from './evaluateExpression';
 import { forEachRef, walkExpr, type Expr } from './expression';
 import { spanRange, tokenRange, type Token } from './lexer';
-import type { DesignModel, FieldOrigin, NodeName, NodeRef, Origin, Param } from './model';
+import type { DesignModel, FieldOrigin, FreeRange, NodeName, NodeRef, Origin, Param } from './model';
 import { appendParts, countParts, emptyParts, NOTHING, type Built, type PartLists } from './modelParts';
 import { node } from './nodeName';
 import type { Overrides } from './overrides';
@@ -282,6 +282,27 @@ export class ModelBuilder implements BuildContext {
     );
   }
 
+  quantity(
+    s: Statement,
+    name: string,
+  ): { value: number; dimension: string; origin: FieldOrigin } | undefined {
+    const override = this.overrides.fields.get(s)?.get(name);
+    const written = s.fields.find((f) => f.name === name);
+    const expr = override?.expr ?? written?.expr;
+    if (!expr) return undefined;
+    const q = this.eval(expr, false);
+    if (!q) return undefined;
+    if (!Number.isFinite(q.value)) {
+      this.sink.error('plausibility', 'This value is not a finite number.', expr.range);
+      return undefined;
+    }
+    return {
+      value: q.value,
+      dimension: dimensionName(q.dim),
+      origin: { range: expr.range, text: override?.text ?? written?.text ?? '' },
+    };
+  }
+
   writtenExpr(s: Statement, name: string): Expr | undefined {
     return this.overrides.fields.get(s)?.get(name)?.expr ?? s.fields.find((f) => f.name === name)?.expr;
   }
@@ -353,6 +374,7 @@ export class ModelBuilder implements BuildContext {
       ...(feedback ? { betaOrigin: feedback.origin } : {}),
       requirements: parts.requirements,
       params,
+      ...(parts.objective[0] ? { minimize: parts.objective[0] } : {}),
     };
   }
 
@@ -421,14 +443,66 @@ export class ModelBuilder implements BuildContext {
       const fieldOrigin: FieldOrigin = override
         ? { range: override.expr.range, text: override.text }
         : { range: written.expr.range, text: written.text };
+      const free = s.free ? this.freeRange(s as StatementOf<'param'>, q, written.expr) : undefined;
       params.push({
         name,
         value: q.value,
         dimension: dimensionName(q.dim),
         origin: this.origin(s, { value: fieldOrigin }),
+        ...(free ? { free } : {}),
       });
     }
     return params;
+  }
+
+  /**
+   * The bounds of a free parameter: the same kind of quantity as its value (a plain 0 fits any), low below
+   * high. The value itself must be one number, since the solve rewrites it.
+   */
+  private freeRange(s: StatementOf<'param'>, q: Quantity, valueExpr: Expr): FreeRange | undefined {
+    const low = this.quantity(s, 'low');
+    const high = this.quantity(s, 'high');
+    if (!low || !high || !s.free) return undefined;
+    const lowExpr = s.fields.find((f) => f.name === 'low')!.expr;
+    const highExpr = s.fields.find((f) => f.name === 'high')!.expr;
+    const range = { start: s.free.range.start, end: highExpr.range.end };
+    const own = dimensionName(q.dim);
+    for (const [b, e] of [
+      [low, lowExpr],
+      [high, highExpr],
+    ] as const) {
+      if (b.dimension !== own && !(b.value === 0 && b.dimension === '1')) {
+        this.sink.error(
+          'unit',
+          `A bound of ${quote(s.name!.text)} must be ${describeDimension(q.dim)} like its value; this is ${b.dimension === '1' ? 'a plain number' : b.dimension}.`,
+          e.range,
+        );
+        return undefined;
+      }
+    }
+    if (!(low.value < high.value)) {
+      this.sink.error(
+        'syntax',
+        `The lower bound of ${quote(s.name!.text)} must be below the upper bound.`,
+        range,
+      );
+      return undefined;
+    }
+    if (valueExpr.kind !== 'number') {
+      this.sink.error(
+        'syntax',
+        `A free parameter is written as one number (the solve rewrites it): \`param ${s.name!.text} = 1 pF free …\`. Derive other values from it instead.`,
+        valueExpr.range,
+      );
+      return undefined;
+    }
+    if (q.value < low.value || q.value > high.value)
+      this.sink.warning(
+        'plausibility',
+        `${quote(s.name!.text)} lies outside its free range; the solve starts from the nearest bound.`,
+        valueExpr.range,
+      );
+    return { low: low.value, high: high.value, range };
   }
 
   nominalDimensions(): Map<string, Dimension> {

@@ -1,7 +1,7 @@
 // The lists of a model that statements add to. One table of their names, so that collecting, counting and
 // taking over a statement's contribution never lists them by hand.
 import type { Ratio } from '../units';
-import type { BufferedCap, Element, Load, Miller, Origin, Requirement, Stage } from './model';
+import type { BufferedCap, Element, Load, Miller, Objective, Origin, Requirement, Stage } from './model';
 
 /** What a `feedback` statement gives the model; the model takes the first. */
 export interface FeedbackPart {
@@ -17,6 +17,8 @@ export interface ModelParts {
   readonly elements: readonly Element[];
   readonly requirements: readonly Requirement[];
   readonly feedback: readonly FeedbackPart[];
+  /** What a `minimize` statement gives the model; the model takes the first. */
+  readonly objective: readonly Objective[];
 }
 
 /** What one statement adds: some of the lists, usually one item in one. */
@@ -33,6 +35,7 @@ const PART_NAMES = Object.keys({
   elements: true,
   requirements: true,
   feedback: true,
+  objective: true,
 } satisfies Record<keyof ModelParts, true>) as (keyof ModelParts)[];
 
 /** A model's lists while statements add to them. */

@@ -68,7 +68,8 @@ const PRIMES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29];
 export function constrainedSearch(problem: Problem, options: SearchOptions = {}): SearchResult {
   const n = problem.dimension;
   const budget = options.budget ?? 1500;
-  const tolerance = options.tolerance ?? 1e-3;
+  // A step below this cannot move a double in [0, 1] meaningfully; it also keeps the polls finite.
+  const tolerance = Math.max(options.tolerance ?? 1e-3, 1e-9);
   let evaluations = 0;
   const clamp = (v: number) => (v < 0 ? 0 : v > 1 ? 1 : v);
   const memo = new Map<string, Point>();
@@ -101,12 +102,12 @@ export function constrainedSearch(problem: Problem, options: SearchOptions = {})
   // Feasible: lower objective is better, and at the same objective more room in the tightest
   // constraint (a variable the objective does not depend on moves to where the others can go further).
   // Infeasible: a larger smallest constraint is better.
-  const same = (a: number, b: number) => Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b));
+  const same = (a: number, b: number) =>
+    a === b || Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b));
   const better = feasible.length
     ? (a: Point, b: Point) =>
         a.worst >= 0 &&
-        (b.worst < 0 ||
-          (same(a.objective, b.objective) ? a.worst > b.worst : a.objective < b.objective))
+        (b.worst < 0 || (same(a.objective, b.objective) ? a.worst > b.worst : a.objective < b.objective))
     : (a: Point, b: Point) => a.worst > b.worst;
   const starts = [...(feasible.length ? feasible : samples)]
     .sort((a, b) => (better(a, b) ? -1 : better(b, a) ? 1 : 0))

@@ -7,6 +7,7 @@ import { feedforwardKind, type FeedforwardStatement } from './feedforward';
 import { indirectKind, type IndirectStatement } from './indirect';
 import { loadKind, type LoadStatement } from './load';
 import { millerKind, type MillerStatement } from './miller';
+import { minimizeKind, type MinimizeStatement } from './minimize';
 import { nodeKind, type NodeStatement } from './node';
 import { outputKind, type OutputStatement } from './output';
 import { paramKind, type ParamStatement } from './param';
@@ -26,6 +27,7 @@ export type Statement =
   | OutputStatement
   | FeedbackStatement
   | RequireStatement
+  | MinimizeStatement
   | CornerStatement;
 
 export type StatementKind = Statement['kind'];
@@ -44,6 +46,7 @@ export const STATEMENT_KINDS: { readonly [K in StatementKind]: StatementDescript
   output: outputKind,
   feedback: feedbackKind,
   require: requireKind,
+  minimize: minimizeKind,
   corner: cornerKind,
 };
 

@@ -68,6 +68,11 @@ export interface BuildContext {
   fields(s: Statement, specs: readonly FieldSpec[]): EvaluatedFields | undefined;
   /** Evaluates one value, checked against its unit and its usual range; `displayName` names it in messages. */
   field(s: Statement, spec: FieldSpec, displayName?: string): FieldResult;
+  /**
+   * Evaluates a written value of any dimension (a `minimize` expression, a free parameter's bounds),
+   * reporting only its own errors; undefined when it has one.
+   */
+  quantity(s: Statement, name: string): { value: number; dimension: string; origin: FieldOrigin } | undefined;
   /** The expression this evaluation uses for a field: a corner's override, else the one written. */
   writtenExpr(s: Statement, name: string): Expr | undefined;
   resolveNode(t: Token): NodeRef | undefined;
