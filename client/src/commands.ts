@@ -1,9 +1,13 @@
-// The commands under the "Ampnote" category: open the panel, analyse the file, apply the suggested fix.
+// The commands under the "Ampnote" category: open the panel, list the file's designs with their findings,
+// apply the preferred fix of the design at the cursor. Titles are in package.json; ids are an interface.
 import * as vscode from 'vscode';
 import {
   DesignSummaryRequest,
+  SolveDesignRequest,
   type DesignSummaryParams,
   type DesignSummaryResult,
+  type SolveDesignParams,
+  type SolveDesignResult,
 } from '../../shared/src/protocol/requests';
 import type { PanelHost, ShowPanelArgs } from './panelHost';
 import type { ServerRequests } from './requests';
@@ -56,7 +60,7 @@ async function analyzeFile(server: ServerRequests, panel: PanelHost): Promise<vo
     const range = designs[i]?.range ?? new vscode.Range(position, position);
     items.push({
       label: summary?.design ?? designs[i]?.name ?? 'design',
-      description: summary ? summaryText(summary).replace('$(pulse) ', '') : 'not analysed',
+      description: summary ? summaryText(summary).replace('$(pulse) ', '') : 'not analyzed',
       detail: designs[i] ? diagnosticCounts(uri, range) : undefined,
       position,
       design: summary?.design,
@@ -110,13 +114,62 @@ async function applySuggestedCompensation(): Promise<void> {
   if (!chosen) {
     if (fixes.length === 0)
       void vscode.window.showInformationMessage(
-        `Ampnote: no compensation fix is suggested for ${design ? `design ${design.name}` : 'this line'}.`,
+        `Ampnote: no fix is offered for ${design ? `design ${design.name}` : 'this line'}.`,
       );
     return;
   }
   if (chosen.edit) await vscode.workspace.applyEdit(chosen.edit);
   if (chosen.command)
     await vscode.commands.executeCommand(chosen.command.command, ...(chosen.command.arguments ?? []));
+}
+
+/**
+ * Solves the free parameters of a design (from its code lens, or the design at the cursor) and writes the
+ * answer as one ordinary, undoable edit; says what was solved, or why nothing meets every requirement.
+ */
+async function solveFreeParameters(
+  server: ServerRequests,
+  args?: { uri?: unknown; design?: unknown },
+): Promise<void> {
+  let uri = typeof args?.uri === 'string' ? vscode.Uri.parse(args.uri) : undefined;
+  let design = typeof args?.design === 'string' ? args.design : undefined;
+  if (!uri || !design) {
+    const editor = activeAmpnoteEditor();
+    if (!editor) return;
+    uri = editor.document.uri;
+    design = (await designSymbols(uri)).find((d) => d.range.contains(editor.selection.active))?.name;
+    if (!design) {
+      void vscode.window.showInformationMessage(
+        'Ampnote: put the cursor in a design that has free parameters.',
+      );
+      return;
+    }
+  }
+  const result = await vscode.window.withProgress(
+    {
+      location: vscode.ProgressLocation.Notification,
+      title: `Ampnote: solving the free parameters of ${design}…`,
+    },
+    () =>
+      server.request<SolveDesignParams, SolveDesignResult>(SolveDesignRequest.method, {
+        uri: uri.toString(),
+        design,
+      }),
+  );
+  if (!result) return;
+  if (result.status !== 'met' || result.edits.length === 0) {
+    void vscode.window.showWarningMessage(`Ampnote: ${result.summary}`);
+    return;
+  }
+  const edit = new vscode.WorkspaceEdit();
+  for (const e of result.edits)
+    edit.replace(
+      uri,
+      new vscode.Range(e.range.start.line, e.range.start.character, e.range.end.line, e.range.end.character),
+      e.newText,
+    );
+  await vscode.workspace.applyEdit(edit);
+  void vscode.window.showInformationMessage(`Ampnote: ${result.summary}`);
 }
 
 export function registerCommands(
@@ -145,6 +198,12 @@ export function registerCommands(
     vscode.commands.registerCommand(
       'ampnote.analyzeFile',
       guard('analyzeFile', () => analyzeFile(server, panel)),
+    ),
+    vscode.commands.registerCommand(
+      'ampnote.solveFreeParameters',
+      guard('solveFreeParameters', (args?: { uri?: unknown; design?: unknown }) =>
+        solveFreeParameters(server, args),
+      ),
     ),
     vscode.commands.registerCommand(
       'ampnote.applySuggestedCompensation',

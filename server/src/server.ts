@@ -24,15 +24,17 @@ import {
   CompensationEditRequest,
   DesignSummaryRequest,
   PanelDataRequest,
+  SolveDesignRequest,
   type CompensationEditParams,
   type DesignSummaryParams,
   type PanelDataParams,
+  type SolveDesignParams,
 } from '../../shared/src/protocol/requests';
-import { DocumentStore, type Analysed } from './documentStore';
+import { DocumentStore, type Analyzed } from './documentStore';
 import { cancelled, codeActions } from './features/codeActions';
 import { codeLenses } from './features/codeLens';
 import { completion } from './features/completion';
-import { compensationEdit, designSummary, panelData } from './features/custom';
+import { compensationEdit, designSummary, panelData, solveDesignRequest } from './features/custom';
 import { definition } from './features/definition';
 import { createDiagnosticsScheduler } from './features/diagnostics';
 import { hover } from './features/hover';
@@ -73,7 +75,7 @@ const uriOf = (params: unknown): string | undefined => {
 };
 /** A feature run on the document its request names (guarded; `fallback` when the document is not open). */
 const on =
-  <P, R>(feature: string, fallback: R, run: (a: Analysed, p: P, token: CancellationToken) => R) =>
+  <P, R>(feature: string, fallback: R, run: (a: Analyzed, p: P, token: CancellationToken) => R) =>
   (p: P, token: CancellationToken) =>
     guarded(log, feature, fallback, () => {
       refuseAfterShutdown();
@@ -83,15 +85,15 @@ const on =
     })();
 /**
  * As `on`, for a feature that may take long on a large document: the analysis runs in slices (see
- * DocumentStore.analyse), so a cancellation or an edit gets through, and the feature can pause too.
+ * DocumentStore.analyze), so a cancellation or an edit gets through, and the feature can pause too.
  */
 const onSliced =
-  <P, R>(feature: string, fallback: R, run: (a: Analysed, p: P, token: CancellationToken) => Promise<R>) =>
+  <P, R>(feature: string, fallback: R, run: (a: Analyzed, p: P, token: CancellationToken) => Promise<R>) =>
   (p: P, token: CancellationToken) =>
     guarded(log, feature, fallback, async () => {
       refuseAfterShutdown();
       const uri = uriOf(p);
-      const a = uri === undefined ? undefined : await store.analyse(uri, token);
+      const a = uri === undefined ? undefined : await store.analyze(uri, token);
       if (token.isCancellationRequested) throw cancelled();
       return a ? run(a, p, token) : fallback;
     })();
@@ -167,6 +169,7 @@ connection.onRenameRequest(on('rename', null, (a, p: RenameParams) => rename(a.r
 connection.onRequest(PanelDataRequest.method, on('panelData', null, (a, p: PanelDataParams, token) => panelData(a.report, p, settings.known(p.uri), token)));
 connection.onRequest(DesignSummaryRequest.method, on('designSummary', null, (a, p: DesignSummaryParams) => designSummary(a.report, p)));
 connection.onRequest(CompensationEditRequest.method, on('compensationEdit', null, (a, p: CompensationEditParams) => compensationEdit(a.report, p)));
+connection.onRequest(SolveDesignRequest.method, on('solveDesign', null, (a, p: SolveDesignParams) => solveDesignRequest(a.report, p, settings.known(p.uri))));
 }
 
 connection.onShutdown(() => {

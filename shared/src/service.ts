@@ -1,5 +1,6 @@
 // The one entry point to the core: text in, parsed designs, exact analyses and findings out. The language
 // server, the terminal checker and the tests all call `analyzeDocument`.
+import { withSolveFix } from './solve/solveFix';
 import {
   analyzeCorners,
   analyzeDesign,
@@ -112,7 +113,8 @@ export function analyzeDesignSource(
   options: AnalysisCacheOptions = {},
   incomplete = false,
 ): DesignReport {
-  if (!source.nominal) return { source, runs: [], worst: {}, findings: [] };
+  const notChecked = incomplete ? { notChecked: 'language-errors' as const } : {};
+  if (!source.nominal) return { source, runs: [], worst: {}, findings: [], ...notChecked };
   // The settling tolerance setting applies only where a design states none of its own.
   const statesSettle = source.nominal.requirements.some((r) => r.kind === 'settle');
   const step = options.stepResponse !== 'when-required' || statesSettle;
@@ -126,8 +128,10 @@ export function analyzeDesignSource(
   );
   const input = { source, runs, settings, engine: ENGINE, token };
   // Impossible values (a zero or negative R, C or gm) are language errors: such a design is `incomplete`.
-  const findings = incomplete ? [] : [...problemFindings(source, runs), ...runChecks(input)];
-  return { source, runs, worst, findings };
+  const findings = incomplete
+    ? []
+    : [...problemFindings(source, runs), ...withSolveFix(runChecks(input), source, settings)];
+  return { source, runs, worst, findings, ...notChecked };
 }
 
 /** A network the engine cannot solve (a node with no DC path and no capacitance): an error at that node. */

@@ -4,8 +4,10 @@ import { formatDeg, formatHz } from '../../../shared/src/format/si';
 import type { DocumentReport } from '../../../shared/src/report';
 import { toRange } from '../convert';
 import { nominal } from './describe';
+import { hasFreeParameters } from '../../../shared/src/solve/solveFix';
 
 export const SHOW_PANEL_COMMAND = 'ampnote.showPanel';
+export const SOLVE_COMMAND = 'ampnote.solveFreeParameters';
 
 export function codeLenses(report: DocumentReport, uri: string): CodeLens[] {
   const lenses: CodeLens[] = [];
@@ -13,9 +15,9 @@ export function codeLenses(report: DocumentReport, uri: string): CodeLens[] {
     const range = toRange(design.source.nameRange);
     const run = nominal(design);
     let title: string;
-    if (!design.source.nominal) title = 'not analysed: see the errors in this design';
+    if (!design.source.nominal) title = 'not analyzed: see the errors in this design';
     else if (!run)
-      title = `not analysed: ${design.runs[0]?.analysis.problems[0]?.message ?? 'the network could not be solved'}`;
+      title = `not analyzed: ${design.runs[0]?.analysis.problems[0]?.message ?? 'the network could not be solved'}`;
     else {
       const loop = run.analysis.loop;
       const parts = [
@@ -27,6 +29,16 @@ export function codeLenses(report: DocumentReport, uri: string): CodeLens[] {
       title = parts.join(' · ');
     }
     lenses.push({ range, command: { title, command: '' } });
+    if (hasFreeParameters(design.source)) {
+      lenses.push({
+        range,
+        command: {
+          title: 'Solve free parameters',
+          command: SOLVE_COMMAND,
+          arguments: [{ uri, design: design.source.name }],
+        },
+      });
+    }
     if (design.source.nominal) {
       lenses.push({
         range,

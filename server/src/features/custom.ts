@@ -1,4 +1,5 @@
-// The extension's own requests: the panel's data, the status bar's summary, and the panel's "apply" edit.
+// The extension's own requests: the panel's data, the status bar's summary, the panel's "apply" edit, and
+// the solve of a design's free parameters.
 import type { CancellationToken } from 'vscode-languageserver';
 import type {
   CompensationEditParams,
@@ -7,6 +8,8 @@ import type {
   DesignSummaryResult,
   PanelDataParams,
   PanelDataResult,
+  SolveDesignParams,
+  SolveDesignResult,
 } from '../../../shared/src/protocol/requests';
 import { buildPanelData, compensationAt } from '../../../shared/src/panel/buildPanelData';
 import type { CompensationTarget } from '../../../shared/src/protocol/panelData';
@@ -15,6 +18,8 @@ import type { DocumentReport, DesignReport } from '../../../shared/src/report';
 import { compensationEdits, designAt, designNamed } from '../../../shared/src/service';
 import { refuseEdits, unwritableValue } from '../../../shared/src/writtenValues';
 import { toEdit } from '../convert';
+import { solveDesign } from '../../../shared/src/solve/solveDesign';
+import { solveSummary } from '../../../shared/src/solve/solveSummary';
 import { nominal } from './describe';
 
 const isPosition = (p: unknown): p is { line: number; character: number } =>
@@ -98,4 +103,20 @@ export function compensationEdit(
   if (!edits.length) return null;
   const refused = refuseEdits(design.source, edits);
   return refused ? { edits: [], refused } : { edits: edits.map(toEdit) };
+}
+
+/** The solve of one design's free parameters, for the code lens and its command. */
+export function solveDesignRequest(
+  report: DocumentReport,
+  params: SolveDesignParams,
+  settings: CheckSettings,
+): SolveDesignResult {
+  const design = pick(report, params.design);
+  if (!design) return null;
+  const solve = solveDesign(design.source, { settings });
+  return {
+    status: solve.status,
+    summary: solveSummary(solve),
+    edits: solve.status === 'met' ? solve.edits.map(toEdit) : [],
+  };
 }

@@ -56,3 +56,22 @@ export type CompensationEditResult = {
   /** Set (with no edits) when the values cannot be written: why, in words for the user. */
   readonly refused?: string;
 } | null;
+
+/** Solve a design's free parameters: the edit of their values that meets every requirement (undoable). */
+export const SolveDesignRequest = {
+  method: 'ampnote/solveDesign',
+} as const;
+export interface SolveDesignParams {
+  readonly uri: string;
+  readonly design: string;
+}
+export type SolveDesignResult = {
+  readonly status: 'met' | 'infeasible' | 'no-free-parameters';
+  /** One paragraph for the user: values before → after, the objective, what binds or conflicts. */
+  readonly summary: string;
+  /** The edits of the free parameters' values; empty unless `met`. */
+  readonly edits: readonly {
+    readonly range: { start: { line: number; character: number }; end: { line: number; character: number } };
+    readonly newText: string;
+  }[];
+} | null;
