@@ -21,7 +21,7 @@ export type Loaded =
     }
   | { readonly ok: false; readonly code: number };
 
-/** Reads and analyses one file, and picks the designs asked for; says what went wrong on stderr. */
+/** Reads and analyzes one file, and picks the designs asked for; says what went wrong on stderr. */
 export function loadDesigns(file: string, design: string | undefined, ctx: CliContext): Loaded {
   const abs = resolve(ctx.cwd, file);
   const path = displayPath(ctx.cwd, abs);
@@ -36,7 +36,7 @@ export function loadDesigns(file: string, design: string | undefined, ctx: CliCo
   } catch (err) {
     warn(
       ctx.streams,
-      `${path}: error: internal error while analysing: ${err instanceof Error ? err.message : String(err)}`,
+      `${path}: error: internal error while analyzing: ${err instanceof Error ? err.message : String(err)}`,
     );
     return { ok: false, code: EXIT_USAGE };
   }

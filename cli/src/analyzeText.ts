@@ -2,6 +2,7 @@
 import { closedLoopVerdict } from '../../shared/src/format/closedLoop';
 import type { DesignAnalysis, Pole, Zero } from '../../shared/src/analysis/types';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
+import { formatGainMargin } from '../../shared/src/format/quantities';
 import { CAUTION } from '../../shared/src/protocol/panelData';
 import type { Finding } from '../../shared/src/checks/types';
 import type { CornerRun, DesignReport, DocumentReport, Worst } from '../../shared/src/report';
@@ -26,7 +27,7 @@ function designBlock(path: string, d: DesignReport, findings: readonly Finding[]
   const title = `${d.source.name}  (${path}:${d.source.range.start.line + 1})`;
   out.push(title, '═'.repeat(Math.min(100, Math.max(title.length, 40))));
   if (d.runs.length === 0) {
-    out.push('  not analysed: the design could not be evaluated (see findings)');
+    out.push('  not analyzed: the design could not be evaluated (see findings)');
   } else {
     out.push(...table(['', ...d.runs.map((r) => r.corner)], metricRows(d.runs)).map((l) => '  ' + l));
     for (const run of d.runs) out.push('', ...rootsBlock(run));
@@ -60,7 +61,7 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
     row('loop DC gain', (a) => dbText(gainDb(a.loop.dcGain))),
     row('loop UGF', (a) => opt(a.loop.ugfHz, formatHz)),
     row('phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)),
-    row('gain margin', (a) => opt(a.loop.gainMarginDb, dbText)),
+    row('gain margin', (a) => formatGainMargin(a.loop.gainMarginDb)),
     row('unity crossings', (a) =>
       a.loop.crossings.length === 0
         ? DASH

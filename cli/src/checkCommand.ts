@@ -46,7 +46,7 @@ export function runCheck(cmd: CheckCommand, ctx: CliContext): number {
       file = { path, report: ctx.analyze(read.text, ctx.settings) };
     } catch (err) {
       progress.done();
-      const message = `internal error while analysing: ${err instanceof Error ? err.message : String(err)}`;
+      const message = `internal error while analyzing: ${err instanceof Error ? err.message : String(err)}`;
       problems.push({ path, message });
       warn(ctx.streams, `${path}: error: ${message}`);
       return;

@@ -2,7 +2,16 @@
 import type { Finding } from '../../shared/src/checks/types';
 import type { SourceRange } from '../../shared/src/language/source';
 import { CAUTION } from '../../shared/src/protocol/panelData';
-import { exitCodeOf, oneBased, sortedFindings, summarize, type RunResult, type Summary } from './run';
+import {
+  exitCodeOf,
+  notCheckedDesigns,
+  notCheckedText,
+  oneBased,
+  sortedFindings,
+  summarize,
+  type RunResult,
+  type Summary,
+} from './run';
 
 export const SCHEMA_VERSION = 1;
 
@@ -45,6 +54,12 @@ export interface CheckJson {
     readonly path: string;
     readonly designs: readonly string[];
     readonly findings: readonly FindingJson[];
+    /** Designs the design rules were not run on, at their names. */
+    readonly notChecked: readonly (PlaceJson & {
+      readonly design: string;
+      readonly reason: 'language-errors';
+      readonly message: string;
+    })[];
   }[];
   readonly problems: readonly { readonly path: string; readonly message: string }[];
   readonly summary: Summary;
@@ -91,6 +106,12 @@ export function checkJson(run: RunResult, version: string): CheckJson {
       path: file.path,
       designs: file.report.designs.map((d) => d.source.name),
       findings: sortedFindings(file.report.findings).map(findingJson),
+      notChecked: notCheckedDesigns(file.report).map((d) => ({
+        design: d.source.name,
+        reason: d.notChecked!,
+        message: notCheckedText(d),
+        ...placeJson(d.source.nameRange),
+      })),
     })),
     problems: run.problems.map((p) => ({ path: p.path, message: p.message })),
     summary,

@@ -1,6 +1,13 @@
 // `check --format text`: one compiler-style line per finding, so editors and CI annotate the right spot.
 import type { Finding } from '../../shared/src/checks/types';
-import { oneBased, sortedFindings, type FileResult, type RunResult } from './run';
+import {
+  notCheckedDesigns,
+  notCheckedText,
+  oneBased,
+  sortedFindings,
+  type FileResult,
+  type RunResult,
+} from './run';
 
 /**
  * `path:line:col: severity code: message`, 1-based. Related places and fixes follow on indented lines, so
@@ -26,8 +33,19 @@ export function formatFindingText(path: string, f: Finding): string[] {
   return lines;
 }
 
+/**
+ * The file's findings, then a note at each design the design rules skipped: with language errors a design
+ * shows no rule findings, and the reader must not take that for a clean design. A `note` line does not
+ * match the finding pattern, so it is not counted as a finding.
+ */
 export function formatFileText(file: FileResult): string[] {
-  return sortedFindings(file.report.findings).flatMap((f) => formatFindingText(file.path, f));
+  return [
+    ...sortedFindings(file.report.findings).flatMap((f) => formatFindingText(file.path, f)),
+    ...notCheckedDesigns(file.report).map((d) => {
+      const at = oneBased(d.source.nameRange);
+      return `${file.path}:${at.startLine}:${at.startColumn}: note: ${notCheckedText(d)}`;
+    }),
+  ];
 }
 
 /** The findings of the whole run; problems and the summary go to stderr (see main). */

@@ -4,6 +4,7 @@
 import { createHash } from 'node:crypto';
 import type { Finding, Severity } from '../../shared/src/checks/types';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
+import { formatGainMargin } from '../../shared/src/format/quantities';
 import { CHARTS } from '../../shared/src/charts/descriptors';
 import { CAUTION, type PanelData } from '../../shared/src/protocol/panelData';
 import type { DesignAnalysis } from '../../shared/src/analysis/types';
@@ -193,7 +194,7 @@ function designSection(d: ReportDesign, index: number): string {
   return parts.join('\n');
 }
 
-/** Where the design is, which corners were analysed, and which could not be evaluated. */
+/** Where the design is, which corners were analyzed, and which could not be evaluated. */
 function whereLine(r: DesignReport): string {
   const parts = [`line ${r.source.range.start.line + 1}`];
   if (r.runs.length > 1) parts.push(`nominal and ${plural(r.runs.length - 1, 'corner')}`);
@@ -214,7 +215,7 @@ function keyValues(a: DesignAnalysis, r: DesignReport): string {
   const tiles: [string, string, string][] = [
     ['Unity-gain frequency', opt(a.loop.ugfHz, formatHz), worst(r.worst.ugfHz, formatHz)],
     ['Phase margin', opt(a.loop.phaseMarginDeg, formatDeg), worst(r.worst.phaseMarginDeg, formatDeg)],
-    ['Gain margin', opt(a.loop.gainMarginDb, dbText), worst(r.worst.gainMarginDb, dbText)],
+    ['Gain margin', formatGainMargin(a.loop.gainMarginDb), worst(r.worst.gainMarginDb, dbText)],
     ['Open-loop DC gain', dbText(gainDb(a.dcGain)), worst(r.worst.dcGainDb, dbText)],
     ['Slew rate', opt(a.slew?.rate, slewText), worst(r.worst.slew, slewText)],
     [
@@ -232,7 +233,7 @@ function cornerTable(runs: readonly CornerRun[]): string {
   const rows: [string, (a: DesignAnalysis) => string][] = [
     ['loop UGF', (a) => opt(a.loop.ugfHz, formatHz)],
     ['phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)],
-    ['gain margin', (a) => opt(a.loop.gainMarginDb, dbText)],
+    ['gain margin', (a) => formatGainMargin(a.loop.gainMarginDb)],
     [
       'unity crossings',
       (a) =>
@@ -321,7 +322,7 @@ function findingsList(findings: readonly Finding[]): string {
       )
       .join('');
     const fixes = f.fixes
-      .map((x) => `<li>${x.preferred ? '<strong>suggested:</strong> ' : ''}${escapeHtml(x.title)}</li>`)
+      .map((x) => `<li>${x.preferred ? '<strong>preferred:</strong> ' : ''}${escapeHtml(x.title)}</li>`)
       .join('');
     return `<li class="finding ${f.severity}"><div class="head"><span class="sev">${f.severity}</span><code class="code">${f.code}</code><span class="at">line ${at}</span>${corners}</div><p>${escapeHtml(f.message)}</p>${related ? `<ul class="related">${related}</ul>` : ''}${fixes ? `<ul class="fixes">${fixes}</ul>` : ''}</li>`;
   });

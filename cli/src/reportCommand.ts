@@ -63,6 +63,7 @@ export function runReport(cmd: ReportCommand, ctx: CliContext): number {
       warnings: findings.filter((f) => f.severity === 'warning').length,
       infos: findings.filter((f) => f.severity === 'info').length,
       unreadable: 0,
+      notChecked: designs.filter((d) => d.notChecked !== undefined).length,
     });
     warn(ctx.streams, `wrote ${cmd.output} (${summary})`);
   }

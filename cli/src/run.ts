@@ -1,7 +1,7 @@
 // The result of a `check` run that every output format reads, its summary and its exit status.
 import type { Finding, Severity } from '../../shared/src/checks/types';
 import type { SourceRange } from '../../shared/src/language/source';
-import type { DocumentReport } from '../../shared/src/report';
+import type { DesignReport, DocumentReport } from '../../shared/src/report';
 import type { InputProblem } from './discover';
 
 export interface FileResult {
@@ -12,7 +12,7 @@ export interface FileResult {
 
 export interface RunResult {
   readonly files: readonly FileResult[];
-  /** Inputs that could not be read or analysed, and folders without design files. */
+  /** Inputs that could not be read or analyzed, and folders without design files. */
   readonly problems: readonly InputProblem[];
 }
 
@@ -23,6 +23,8 @@ export interface Summary {
   readonly warnings: number;
   readonly infos: number;
   readonly unreadable: number;
+  /** Designs the design rules were not run on (language errors). */
+  readonly notChecked: number;
 }
 
 /** Exit statuses, stable for CI scripts (docs/cli.md). */
@@ -40,6 +42,7 @@ export function summarize(run: RunResult): Summary {
     warnings: count('warning'),
     infos: count('info'),
     unreadable: run.problems.length,
+    notChecked: run.files.reduce((n, f) => n + notCheckedDesigns(f.report).length, 0),
   };
 }
 
@@ -57,6 +60,7 @@ export function summaryLine(s: Summary): string {
     plural(s.warnings, 'warning'),
   ];
   if (s.infos > 0) parts.push(plural(s.infos, 'info'));
+  if (s.notChecked > 0) parts.push(`${plural(s.notChecked, 'design')} not checked`);
   if (s.unreadable > 0) parts.push(`${s.unreadable} unreadable input${s.unreadable === 1 ? '' : 's'}`);
   return parts.join(', ');
 }
@@ -87,6 +91,23 @@ export function oneBased(range: SourceRange): OneBasedRange {
  */
 export function findingsOfDesign(report: DocumentReport, design: string): Finding[] {
   return report.findings.filter((f) => f.design === design);
+}
+
+/** The designs the design rules skipped, in reading order. */
+export function notCheckedDesigns(report: DocumentReport): DesignReport[] {
+  return report.designs.filter((d) => d.notChecked !== undefined);
+}
+
+/** Why a design was not checked, in words (text and JSON say the same). */
+export function notCheckedText(d: DesignReport): string {
+  switch (d.notChecked) {
+    case undefined:
+      return '';
+    case 'language-errors':
+      return `design ${d.source.name} was not checked by the design rules: it has language errors; fix them first`;
+  }
+  const _: never = d.notChecked;
+  return _;
 }
 
 /** Findings in reading order, so output is stable whatever order the checks ran in. */

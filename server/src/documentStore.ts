@@ -11,7 +11,7 @@ import {
   type AnalysisCache,
 } from '../../shared/src/service';
 
-export interface Analysed {
+export interface Analyzed {
   readonly document: TextDocument;
   readonly report: DocumentReport;
 }
@@ -46,7 +46,7 @@ export class DocumentStore {
   }
 
   /** The report of the document's current version: cached, or computed now (once for this version). */
-  current(uri: string): Analysed | undefined {
+  current(uri: string): Analyzed | undefined {
     const document = this.get(uri);
     if (!document) return undefined;
     const settings = this.settingsOf(uri);
@@ -58,10 +58,10 @@ export class DocumentStore {
   }
 
   /**
-   * Analyse the current version without blocking the server: designs are analysed in slices with the
+   * Analyze the current version without blocking the server: designs are analyzed in slices with the
    * event loop free in between. Undefined when cancelled or when the document changed meanwhile.
    */
-  async analyse(uri: string, token: CancelToken): Promise<Analysed | undefined> {
+  async analyze(uri: string, token: CancelToken): Promise<Analyzed | undefined> {
     const document = this.get(uri);
     if (!document) return undefined;
     const settings = this.settingsOf(uri);

@@ -37,6 +37,11 @@ export interface DesignReport {
   readonly runs: readonly CornerRun[];
   readonly worst: WorstCase;
   readonly findings: readonly Finding[];
+  /**
+   * Set when the design rules were not run on this design: with language errors its model lacks what they
+   * dropped, and a rule's verdict on such a model would mislead. Its findings are then the language's.
+   */
+  readonly notChecked?: 'language-errors';
 }
 
 export interface DocumentReport {

@@ -1,12 +1,7 @@
 // The one entry point to the core: text in, parsed designs, exact analyses and findings out. The language
 // server, the terminal checker and the tests all call `analyzeDocument`.
 import { withSolveFix } from './solve/solveFix';
-import {
-  analyzeCorners,
-  analyzeDesign,
-  solveRzForZeroAtInfinity,
-  solveRzToCancelPole,
-} from './analysis';
+import { analyzeCorners, analyzeDesign, solveRzForZeroAtInfinity, solveRzToCancelPole } from './analysis';
 import type { CancelToken } from './analysis/types';
 import type { CheckEngine } from './checks/context';
 import { setOrInsertField, setValueEdit } from './checks/fixes';

@@ -107,6 +107,18 @@ describe('text output', () => {
     expect(r.stdout).toMatch(/^1 file, 2 designs, /m);
   });
 
+  it('says which design the design rules skipped because of its language errors, and that it was not checked', () => {
+    // broken.ampnote: design half_written (line 2, name at column 8) has a syntax error; intact has none.
+    const r = cli(['check', rel('broken.ampnote')]);
+    const notes = r.stdout.split('\n').filter((l) => / note: design \S+ was not checked/.test(l));
+    expect(notes).toEqual([
+      `${rel('broken.ampnote')}:2:8: note: design half_written was not checked by the design rules: it has language errors; fix them first`,
+    ]);
+    expect(r.stdout).toMatch(/^1 file, 2 designs, 1 error, 0 warnings, 1 design not checked$/m);
+    // A clean file says nothing of the kind.
+    expect(cli(['check', rel('clean.ampnote')]).stdout).not.toMatch(/not checked/);
+  });
+
   it('finds *.ampnote files in folders, skipping node_modules and dot-folders', () => {
     const dir = tempDir('tree');
     try {
@@ -269,6 +281,7 @@ describe('--format json', () => {
       'errors',
       'files',
       'infos',
+      'notChecked',
       'unreadable',
       'warnings',
     ]);
@@ -352,6 +365,22 @@ describe('--format json', () => {
       });
     });
     expect(json.summary).toMatchObject({ files: 3, designs: 4, errors, warnings, unreadable: 0 });
+  });
+
+  it('lists the designs the design rules skipped, at their names, and counts them', () => {
+    const broken = json.files.find((f: any) => f.path.endsWith('broken.ampnote'));
+    expect(broken.notChecked).toEqual([
+      {
+        design: 'half_written',
+        reason: 'language-errors',
+        message:
+          'design half_written was not checked by the design rules: it has language errors; fix them first',
+        range: { start: { line: 1, character: 7 }, end: { line: 1, character: 19 } },
+        location: { line: 2, column: 8, endLine: 2, endColumn: 20 },
+      },
+    ]);
+    for (const f of json.files) if (f !== broken) expect(f.notChecked).toEqual([]);
+    expect(json.summary.notChecked).toBe(1);
   });
 });
 

@@ -2,7 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { analyzeDesign } from '../../shared/src/analysis';
-import { formatHz } from '../../shared/src/format/si';
+import { formatDb, formatHz } from '../../shared/src/format/si';
 import { analyzeDocument } from '../../shared/src/service';
 import { KEYWORDS, RESERVED_NAMES } from '../../shared/src/language';
 import { codeActions } from '../../server/src/features/codeActions';
@@ -76,6 +76,29 @@ describe('hover', () => {
     const pm = report.designs[0]!.runs[0]!.analysis.loop.phaseMarginDeg!;
     expect(value).toContain('**requirement: phase margin** ≥ 60.0°');
     expect(value).toContain(`Measured: ${pm.toFixed(1)}° — ${pm >= 60 ? 'pass' : 'FAIL'}`);
+  });
+
+  it('a design: "nominal and N corners", an unbounded gain margin in words, a requirement\'s headroom', () => {
+    // One stage (invented values): a single pole, so the loop phase never reaches −180° and the gain margin
+    // has no bound (first-order loop: phase ≥ −90°, textbook single-pole response).
+    const ONE_STAGE = `design one
+  stage first gm = 100 uS rout = 1 Mohm cap = 1 pF
+  require pm >= 60 deg
+  corner slow first.gm = 80 uS
+end
+`;
+    const design = hoverText(ONE_STAGE.replace('design one', 'design o|ne')).value;
+    expect(design).toMatch(/gain margin unbounded,/);
+    expect(design).toContain('Worst over nominal and 1 corner: ');
+    expect(design).not.toMatch(/\bruns\b/);
+    const { value, report } = hoverText(ONE_STAGE.replace('require pm', 'req|uire pm'));
+    const pm = report.designs[0]!.runs[0]!.analysis.loop.phaseMarginDeg!;
+    expect(value).toContain(`(headroom +${(pm - 60).toFixed(1)}°)`);
+    expect(value).not.toContain('margin +');
+    // A loop whose phase does reach −180° prints its gain margin as a number (the analysis' own value).
+    const two = hoverText(DESIGN('').replace('design demo', 'design de|mo'));
+    const gm = two.report.designs[0]!.runs[0]!.analysis.loop.gainMarginDb;
+    expect(two.value).toContain(`gain margin ${gm === undefined ? 'unbounded' : formatDb(gm)},`);
   });
 
   it('nothing on a blank line or outside any design', () => {

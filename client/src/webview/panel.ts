@@ -4,6 +4,8 @@
 import type { CompensationTarget, PanelData } from '../../../shared/src/protocol/panelData';
 import type { HostToWebview, PanelState, WebviewToHost } from '../../../shared/src/protocol/webviewMessages';
 import { formatDb, formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
+import { formatGainMargin } from '../../../shared/src/format/quantities';
+import { NOT_COMPUTED } from '../../../shared/src/format/special';
 import { CHART_IDS, isChartId, type ChartId } from '../../../shared/src/charts/descriptors';
 import { drawCharts, type ChartSet } from '../../../shared/src/charts/draw';
 import { chartCsv } from '../../../shared/src/charts/csv';
@@ -95,7 +97,11 @@ function renderSummary(d: PanelData): void {
     ['closed loop', d.summary.closedLoop],
     ['UGF', isNum(d.summary.ugfHz) ? formatHz(d.summary.ugfHz) : '—'],
     ['phase margin', isNum(d.summary.phaseMarginDeg) ? formatDeg(d.summary.phaseMarginDeg) : '—'],
-    ['gain margin', isNum(d.summary.gainMarginDb) ? formatDb(d.summary.gainMarginDb) : '—'],
+    // Absent from an analyzed loop: the phase never reaches −180°, an unbounded margin.
+    [
+      'gain margin',
+      d.problems.length > 0 ? NOT_COMPUTED : formatGainMargin(d.summary.gainMarginDb ?? undefined),
+    ],
     ['DC gain', Number.isFinite(d.summary.dcGainDb) ? formatDb(d.summary.dcGainDb) : '—'],
     ['slew', isNum(d.summary.slewVperUs) ? `${d.summary.slewVperUs.toPrecision(3)} V/µs` : '—'],
   ];
@@ -122,7 +128,7 @@ function renderProblems(d: PanelData): void {
 function renderNotes(d: PanelData): void {
   if (d.problems.length > 0) {
     for (const id of CHART_IDS)
-      setText($(`note-${id}`), 'Not drawn: the design could not be analysed (see above).');
+      setText($(`note-${id}`), 'Not drawn: the design could not be analyzed (see above).');
     return;
   }
   const notes: Record<ChartId, string> = {

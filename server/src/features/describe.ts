@@ -1,4 +1,4 @@
-// Text about analysed elements shared by hover, inlay hints and code lens: poles a node takes part in,
+// Text about analyzed elements shared by hover, inlay hints and code lens: poles a node takes part in,
 // zeros, requirement measurements across corners.
 import type { DesignAnalysis, Pole, Zero } from '../../../shared/src/analysis/types';
 import { measure, type Measurement } from '../../../shared/src/checks/measure';

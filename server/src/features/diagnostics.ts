@@ -44,7 +44,7 @@ export function createDiagnosticsScheduler(
     try {
       await settings.fetch(uri);
       if (source.token.isCancellationRequested) return;
-      const done = await store.analyse(uri, source.token);
+      const done = await store.analyze(uri, source.token);
       if (!done || source.token.isCancellationRequested) return;
       await connection.sendDiagnostics({
         uri,

@@ -1,11 +1,12 @@
 // Hover: what an element is, its value in display units, the poles and zeros it takes part in (with each
 // node's share), the hand estimate beside the exact value; for a requirement, measured against required.
+import { SENSITIVITY_STEP, sensitivities, sensitivityText } from '../../../shared/src/solve/sensitivities';
 import { closedLoopSummary } from '../../../shared/src/format/closedLoop';
 import type { Hover } from 'vscode-languageserver';
 import type { DesignAnalysis } from '../../../shared/src/analysis/types';
 import { formatDb, formatDeg, formatSi } from '../../../shared/src/format/si';
-import { formatDcGain } from '../../../shared/src/format/quantities';
-import { fixedNumber, plainNumber } from '../../../shared/src/format/special';
+import { formatDcGain, formatGainMargin } from '../../../shared/src/format/quantities';
+import { fixedNumber, NOT_COMPUTED, plainNumber } from '../../../shared/src/format/special';
 import type { SourcePosition } from '../../../shared/src/language/source';
 import { CAUTION } from '../../../shared/src/protocol/panelData';
 import type { DocumentReport, DesignReport } from '../../../shared/src/report';
@@ -162,6 +163,27 @@ function body(design: DesignReport, target: Target): string[] | undefined {
         `Used ${uses} time${uses === 1 ? '' : 's'}.` +
           (corners.length ? ` Corners: ${corners.join(', ')}.` : ''),
       ];
+      if (p.free) {
+        const at =
+          p.value <= p.free.low
+            ? ' — at its lower bound'
+            : p.value >= p.free.high
+              ? ' — at its upper bound'
+              : '';
+        head.push(
+          `Free: the solve may move it from ${valueText(p.free.low, p.dimension)} to ${valueText(p.free.high, p.dimension)}${at}.`,
+        );
+      }
+      // What +10 % of this parameter does to the loop, nominal and in the worst corner (exact re-analysis).
+      const moved = sensitivities(design.source, design.runs, p.name);
+      const worstCorner = design.worst.phaseMarginDeg?.corner;
+      const shown = moved.filter((x) => x.corner === 'nominal' || x.corner === worstCorner);
+      if (shown.length)
+        head.push(
+          '',
+          `**+${SENSITIVITY_STEP * 100} % of ${p.name}:**`,
+          ...shown.map((x) => `- ${sensitivityText(x)}`),
+        );
       const model = design.source.nominal;
       const refs =
         design.source.symbols.find((x) => x.kind === 'param' && x.name === p.name)?.references ?? [];
@@ -174,11 +196,11 @@ function body(design: DesignReport, target: Target): string[] | undefined {
     }
     case 'requirement': {
       const r = requirementAcrossRuns(design, target.item);
-      if (!r.runs.length) return [`**require** — not measured (the design could not be analysed)`];
+      if (!r.runs.length) return [`**require** — not measured (the design could not be analyzed)`];
       const first = r.nominal ?? r.runs[0]!.m;
       const lines = [
         `**requirement: ${first.label}** ${first.required}`,
-        `Measured: ${first.measured} — ${first.pass ? 'pass' : 'FAIL'}${first.margin ? ` (margin ${first.margin})` : ''}`,
+        `Measured: ${first.measured} — ${first.pass ? 'pass' : 'FAIL'}${first.margin ? ` (headroom ${first.margin})` : ''}`,
       ];
       if (r.runs.length > 1) {
         lines.push('', '| corner | measured | |', '| --- | --- | --- |');
@@ -190,11 +212,11 @@ function body(design: DesignReport, target: Target): string[] | undefined {
     }
     case 'design': {
       const lines = [`**design ${design.source.name}**`];
-      if (!run) return [...lines, 'Not analysed: see the errors in this design.'];
+      if (!run) return [...lines, 'Not analyzed: see the errors in this design.'];
       const loop = run.analysis.loop;
       lines.push(
         `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, phase margin ${loop.phaseMarginDeg !== undefined ? formatDeg(loop.phaseMarginDeg) : '—'}, ` +
-          `gain margin ${loop.gainMarginDb !== undefined ? formatDb(loop.gainMarginDb) : '—'}, DC gain ${formatDcGain(run.analysis.dcGain)}`,
+          `gain margin ${run.analysis.problems.length > 0 ? NOT_COMPUTED : formatGainMargin(loop.gainMarginDb)}, DC gain ${formatDcGain(run.analysis.dcGain)}`,
         '',
         closedLoopSummary(run.analysis),
       );
@@ -204,7 +226,11 @@ function body(design: DesignReport, target: Target): string[] | undefined {
           w.phaseMarginDeg ? `PM ${formatDeg(w.phaseMarginDeg.value)} (${w.phaseMarginDeg.corner})` : '',
           w.ugfHz ? `UGF ${formatSi(w.ugfHz.value, 'Hz')} (${w.ugfHz.corner})` : '',
         ].filter(Boolean);
-        if (parts.length) lines.push(`Worst over ${design.runs.length} runs: ${parts.join(', ')}`);
+        const corners = design.runs.length - 1;
+        if (parts.length)
+          lines.push(
+            `Worst over nominal and ${corners} corner${corners === 1 ? '' : 's'}: ${parts.join(', ')}`,
+          );
       }
       const counts = ['error', 'warning', 'info'].map(
         (sev) => [sev, design.findings.filter((f) => f.severity === sev).length] as const,
@@ -223,7 +249,7 @@ function body(design: DesignReport, target: Target): string[] | undefined {
           `**corner ${s.name}**`,
           loop
             ? `UGF ${loop.ugfHz !== undefined ? formatSi(loop.ugfHz, 'Hz') : '—'}, PM ${loop.phaseMarginDeg !== undefined ? formatDeg(loop.phaseMarginDeg) : '—'}`
-            : 'not analysed (its overrides could not be evaluated)',
+            : 'not analyzed (its overrides could not be evaluated)',
         ];
       }
       return undefined;
@@ -247,7 +273,7 @@ export function hover(report: DocumentReport, position: SourcePosition): Hover |
       `This design has ${errors} error${errors === 1 ? '' : 's'}: the analysis leaves out what they affect, and the checks wait until they are fixed.`,
     );
   const problems = design.runs.flatMap((r) => r.analysis.problems.map((p) => p.message));
-  if (problems.length) lines.push('', `Not analysed: ${problems[0]}`);
+  if (problems.length) lines.push('', `Not analyzed: ${problems[0]}`);
   lines.push('', `_${CAUTION}_`);
   return { contents: { kind: 'markdown', value: lines.join('\n') }, range: toRange(target.range) };
 }

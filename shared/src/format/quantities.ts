@@ -5,6 +5,7 @@ import {
   DC_GAIN_UNBOUNDED,
   DC_GAIN_ZERO,
   fixedNumber,
+  GAIN_MARGIN_UNBOUNDED,
   NOT_COMPUTED,
   nonFiniteWords,
   plainNumber,
@@ -40,4 +41,13 @@ export function formatDcGain(vPerV: number): string {
   if (vPerV === 0) return DC_GAIN_ZERO;
   if (!Number.isFinite(vPerV)) return DC_GAIN_UNBOUNDED;
   return formatDb(gainDb(vPerV));
+}
+
+/**
+ * The gain margin of an analyzed loop (`loop.gainMarginDb`): absent means the phase never reaches −180°,
+ * which is an unbounded margin, not a missing one. Surfaces without an analysis say `not computed`.
+ */
+export function formatGainMargin(db: number | undefined): string {
+  if (db === undefined) return GAIN_MARGIN_UNBOUNDED;
+  return nonFiniteWords(db) ?? formatDb(db);
 }

@@ -8,6 +8,12 @@ export const UNBOUNDED = 'unbounded';
 /** A negative infinity with no more specific meaning. */
 export const UNBOUNDED_NEGATIVE = 'unbounded (negative)';
 
+/**
+ * A gain margin with no −180° crossing to read it at: no gain makes the loop oscillate there, so the margin
+ * has no bound. Distinct from NOT_COMPUTED, which is a value the engine could not find.
+ */
+export const GAIN_MARGIN_UNBOUNDED = 'unbounded';
+
 /** An open-loop DC gain of zero: a series capacitor (or no path) blocks DC from input to output. */
 export const DC_GAIN_ZERO = 'no DC path: the gain at DC is zero';
 /** An infinite open-loop DC gain: a pole at the origin. */

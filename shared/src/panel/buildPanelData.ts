@@ -257,7 +257,7 @@ export function buildPanelData(
       locus: { poles: [], zeros: [] },
       bode: { hz: [], magDb: [], phaseDeg: [], crossings: [] },
       step: noStep,
-      summary: { closedLoop: 'not analysed', dcGainDb: gainDb(analysis.dcGain) },
+      summary: { closedLoop: 'not analyzed', dcGainDb: gainDb(analysis.dcGain) },
       problems: analysis.problems.map((p) =>
         p.node && !p.message.includes(`'${p.node}'`) ? `${p.message} (node ${p.node})` : p.message,
       ),
