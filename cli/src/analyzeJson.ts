@@ -1,6 +1,7 @@
 // `analyze --json`: the engine's numbers per design and corner, as documented in docs/cli.md (schemaVersion 1).
 // Values are copied as the engine computed them; the only derived numbers are gains in dB (20·log10|V/V|).
 // JSON has no Infinity or NaN: such a value is written as null.
+import { sensitivities, type Sensitivity } from '../../shared/src/solve/sensitivities';
 import type { CheckSettings } from '../../shared/src/checks/settings';
 import type { Finding } from '../../shared/src/checks/types';
 import type { CornerRun, DesignReport, DocumentReport, Worst, WorstCase } from '../../shared/src/report';
@@ -81,6 +82,17 @@ export interface CornerJson {
     readonly relativeError: Num;
   }[];
   readonly problems: readonly { readonly message: string; readonly node: string | null }[];
+  /** For each parameter written as a literal: the change of the loop for a +10 % step of it. */
+  readonly sensitivities: readonly SensitivityJson[];
+}
+
+export interface SensitivityJson {
+  readonly param: string;
+  readonly phaseMarginDeg: Num;
+  /** Relative change of the UGF (0.05 = +5 %). */
+  readonly ugfRelative: Num;
+  readonly gainMarginDb: Num;
+  readonly dcGainDb: Num;
 }
 
 export interface WorstJson {
@@ -121,7 +133,18 @@ const num = (x: number | undefined): Num => (x !== undefined && Number.isFinite(
 const db = (vv: number): Num => num(gainDb(vv));
 const gain = (vv: number): GainJson => ({ vv: num(vv), db: db(vv) });
 
-export function cornerJson(run: CornerRun): CornerJson {
+/** Per corner: what +10 % of each literal parameter changes (see solve/sensitivities.ts). */
+function sensitivityJson(list: readonly Sensitivity[]): SensitivityJson[] {
+  return list.map((x) => ({
+    param: x.param,
+    phaseMarginDeg: num(x.phaseMarginDeg),
+    ugfRelative: num(x.ugfRelative),
+    gainMarginDb: num(x.gainMarginDb),
+    dcGainDb: num(x.dcGainDb),
+  }));
+}
+
+export function cornerJson(run: CornerRun, moved: readonly Sensitivity[] = []): CornerJson {
   const a = run.analysis;
   return {
     corner: run.corner,
@@ -191,6 +214,7 @@ export function cornerJson(run: CornerRun): CornerJson {
       relativeError: num(h.relativeError),
     })),
     problems: a.problems.map((p) => ({ message: p.message, node: p.node ?? null })),
+    sensitivities: sensitivityJson(moved),
   };
 }
 
@@ -212,7 +236,15 @@ export function designJson(d: DesignReport, findings: readonly Finding[]): Desig
   return {
     name: d.source.name,
     ...placeJson(d.source.range),
-    corners: d.runs.map(cornerJson),
+    corners: (() => {
+      const moved = sensitivities(d.source, d.runs);
+      return d.runs.map((run) =>
+        cornerJson(
+          run,
+          moved.filter((x) => x.corner === run.corner),
+        ),
+      );
+    })(),
     unevaluatedCorners: d.source.corners.filter((c) => !evaluated.has(c.name)).map((c) => c.name),
     worst: worstJson(d.worst),
     findings: sortedFindings(findings).map(findingJson),

@@ -1,4 +1,5 @@
 // `ampnote analyze`: JSON as documented in docs/cli.md, with the engine's numbers unchanged; the text tables.
+import { sensitivities, type Sensitivity } from '../../shared/src/solve/sensitivities';
 import { readFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -14,7 +15,7 @@ const n = (x: number | undefined) => (x !== undefined && Number.isFinite(x) ? x 
 const db = (vv: number) => n(20 * Math.log10(Math.abs(vv)));
 
 /** What the docs promise for one corner, written out field by field from the engine's own result. */
-function expectedCorner(run: CornerRun) {
+function expectedCorner(run: CornerRun, moved: readonly Sensitivity[]) {
   const a = run.analysis;
   return {
     corner: run.corner,
@@ -79,6 +80,13 @@ function expectedCorner(run: CornerRun) {
       relativeError: n(h.relativeError),
     })),
     problems: a.problems.map((p) => ({ message: p.message, node: p.node ?? null })),
+    sensitivities: moved.map((x) => ({
+      param: x.param,
+      phaseMarginDeg: n(x.phaseMarginDeg),
+      ugfRelative: n(x.ugfRelative),
+      gainMarginDb: n(x.gainMarginDb),
+      dcGainDb: n(x.dcGainDb),
+    })),
   };
 }
 
@@ -135,7 +143,15 @@ describe('analyze --json', () => {
       report.designs.forEach((d, i) => {
         const got = json.designs[i];
         expect(got.range).toEqual(d.source.range);
-        expect(got.corners).toEqual(d.runs.map(expectedCorner));
+        const moved = sensitivities(d.source, d.runs);
+        expect(got.corners).toEqual(
+          d.runs.map((r) =>
+            expectedCorner(
+              r,
+              moved.filter((x) => x.corner === r.corner),
+            ),
+          ),
+        );
         const w = d.worst;
         const worst = (x?: { value: number; corner: string }) =>
           x ? { value: n(x.value), corner: x.corner } : null;

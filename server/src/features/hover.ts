@@ -4,7 +4,7 @@ import { SENSITIVITY_STEP, sensitivities, sensitivityText } from '../../../share
 import { closedLoopSummary } from '../../../shared/src/format/closedLoop';
 import type { Hover } from 'vscode-languageserver';
 import type { DesignAnalysis } from '../../../shared/src/analysis/types';
-import { formatDb, formatDeg, formatSi } from '../../../shared/src/format/si';
+import { formatDeg, formatSi } from '../../../shared/src/format/si';
 import { formatDcGain, formatGainMargin } from '../../../shared/src/format/quantities';
 import { fixedNumber, NOT_COMPUTED, plainNumber } from '../../../shared/src/format/special';
 import type { SourcePosition } from '../../../shared/src/language/source';

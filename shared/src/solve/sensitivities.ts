@@ -30,12 +30,17 @@ const ENGINE: CheckEngine = {
   solveRzToCancelPole: () => ({ ok: false, reason: 'not used' }),
 };
 
-/** Sensitivities of every parameter written as a literal, in every run of `runs`. */
-export function sensitivities(source: DesignSource, runs: readonly CornerRun[]): Sensitivity[] {
+/** Sensitivities of every parameter written as a literal (or only `only`), in every run of `runs`. */
+export function sensitivities(
+  source: DesignSource,
+  runs: readonly CornerRun[],
+  only?: string,
+): Sensitivity[] {
   const nominal = source.nominal;
   if (!nominal) return [];
   const out: Sensitivity[] = [];
   for (const param of nominal.params) {
+    if (only !== undefined && param.name !== only) continue;
     const value = param.origin.fields['value'];
     const knob = value && knobsOf(nominal, { ...value, param: param.name }, param.name)[0];
     if (!knob || knob.derived || knob.value === 0) continue;
@@ -70,3 +75,16 @@ export function sensitivities(source: DesignSource, runs: readonly CornerRun[]):
 
 const defined = <K extends string>(key: K, v: number | undefined) =>
   (v === undefined ? {} : { [key]: v }) as Partial<Record<K, number>>;
+
+/** One line per run for people: `nominal: phase margin +1.2°, UGF +4.5 %, gain margin −0.3 dB, DC gain +0.8 dB`. */
+export function sensitivityText(x: Sensitivity): string {
+  const signed = (v: number, digits: number, unit: string) =>
+    `${v >= 0 ? '+' : '−'}${Math.abs(v).toFixed(digits)}${unit}`;
+  const parts = [
+    x.phaseMarginDeg !== undefined ? `phase margin ${signed(x.phaseMarginDeg, 1, '°')}` : undefined,
+    x.ugfRelative !== undefined ? `UGF ${signed(100 * x.ugfRelative, 1, ' %')}` : undefined,
+    x.gainMarginDb !== undefined ? `gain margin ${signed(x.gainMarginDb, 1, ' dB')}` : undefined,
+    x.dcGainDb !== undefined ? `DC gain ${signed(x.dcGainDb, 1, ' dB')}` : undefined,
+  ].filter((t): t is string => t !== undefined);
+  return `${x.corner}: ${parts.length ? parts.join(', ') : 'no loop quantity to compare'}`;
+}
