@@ -23,7 +23,51 @@ export interface Measurement {
 const signed = (x: number, text: string) => `${x >= 0 ? '+' : '−'}${text}`;
 const OP = { '>=': '≥', '<=': '≤' } as const;
 
+/**
+ * A requirement's verdict and measured number (in its own unit) in one run, without any text: what the
+ * findings, the hovers and the solve all judge by (`measure` adds the words).
+ */
+export function judge(
+  req: Requirement,
+  a: DesignAnalysis,
+): { readonly value?: number; readonly pass: boolean } {
+  const bound = (v: number | undefined, op: '>=' | '<=', limit: number) =>
+    v === undefined ? { pass: false } : { value: v, pass: !violates(op, v, limit) };
+  switch (req.kind) {
+    case 'ugf':
+      return bound(req.op === '>=' ? (a.loop.lowestUgfHz ?? a.loop.ugfHz) : a.loop.ugfHz, req.op, req.value);
+    case 'pm':
+      return bound(a.loop.phaseMarginDeg, req.op, req.value);
+    case 'gain-margin': {
+      const v = a.loop.gainMarginDb;
+      return v === undefined ? { pass: req.op === '>=' } : bound(v, req.op, req.value);
+    }
+    case 'zero': {
+      const ugf = a.loop.ugfHz;
+      let lowest: number | undefined;
+      for (const z of a.zeros)
+        if (z.rhp && Number.isFinite(z.hz) && (lowest === undefined || z.hz < lowest)) lowest = z.hz;
+      const ratio = lowest !== undefined && ugf ? lowest / ugf : undefined;
+      return {
+        ...(ratio !== undefined ? { value: ratio } : {}),
+        pass: lowest === undefined || (ratio !== undefined && ratio >= req.factor),
+      };
+    }
+    case 'slew':
+      return bound(a.slew?.rate, req.op, req.value);
+    case 'settle': {
+      const v = a.step ? settlingTimeFor(a.step, req.tolerance) : undefined;
+      return v === undefined ? { pass: false } : { value: v, pass: v <= req.within };
+    }
+    case 'dc-gain': {
+      const v = gainDb(a.dcGain);
+      return { value: v, pass: !Number.isNaN(v) && !violates(req.op, v, req.value) };
+    }
+  }
+}
+
 export function measure(req: Requirement, a: DesignAnalysis): Measurement {
+  const j = judge(req, a);
   switch (req.kind) {
     case 'ugf': {
       // With several downward crossings the conservative reading is the lowest one for a minimum and the
@@ -40,7 +84,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
               ? `${formatHz(v)} (the ${which} of several downward 0 dB crossings)`
               : formatHz(v),
         required: `${OP[req.op]} ${formatHz(req.value)}`,
-        pass: v !== undefined && !violates(req.op, v, req.value),
+        pass: j.pass,
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, formatHz(Math.abs(v - req.value))) }
           : {}),
@@ -52,7 +96,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
         label: 'phase margin',
         measured: v === undefined ? 'no unity crossing' : formatDeg(v),
         required: `${OP[req.op]} ${formatDeg(req.value)}`,
-        pass: v !== undefined && !violates(req.op, v, req.value),
+        pass: j.pass,
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, formatDeg(Math.abs(v - req.value))) }
           : {}),
@@ -64,7 +108,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
         label: 'gain margin',
         measured: v === undefined ? 'phase never reaches −180° (unbounded)' : formatDb(v),
         required: `${OP[req.op]} ${formatDb(req.value)}`,
-        pass: v === undefined ? req.op === '>=' : !violates(req.op, v, req.value),
+        pass: j.pass,
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, formatDb(Math.abs(v - req.value))) }
           : {}),
@@ -82,7 +126,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
             ? formatHz(rhp.hz)
             : `${formatHz(rhp.hz)} = ${formatRatio(ratio)} UGF`,
         required: `≥ ${req.factor} × UGF`,
-        pass: !rhp || (ratio !== undefined && ratio >= req.factor),
+        pass: j.pass,
         ...(ratio !== undefined ? { value: ratio } : {}),
       };
     }
@@ -92,7 +136,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
         label: 'slew rate',
         measured: v === undefined ? 'no stage states its bias' : formatSlewRate(v),
         required: `${OP[req.op]} ${formatSlewRate(req.value)}`,
-        pass: v !== undefined && !violates(req.op, v, req.value),
+        pass: j.pass,
         ...(v !== undefined
           ? { value: v, margin: signed(v - req.value, formatSlewRate(Math.abs(v - req.value))) }
           : {}),
@@ -110,7 +154,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
               ? 'does not settle in the computed span'
               : formatSi(v, 's'),
         required: `≤ ${formatSi(req.within, 's')}`,
-        pass: v !== undefined && v <= req.within,
+        pass: j.pass,
         ...(v !== undefined
           ? { value: v, margin: signed(req.within - v, formatSi(Math.abs(req.within - v), 's')) }
           : {}),
@@ -122,7 +166,7 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
         label: 'open-loop DC gain',
         measured: formatDcGain(a.dcGain),
         required: `${OP[req.op]} ${formatDb(req.value)}`,
-        pass: !Number.isNaN(v) && !violates(req.op, v, req.value),
+        pass: j.pass,
         value: v,
         ...(Number.isFinite(v) ? { margin: signed(v - req.value, formatDb(Math.abs(v - req.value))) } : {}),
       };

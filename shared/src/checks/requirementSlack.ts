@@ -4,13 +4,13 @@
 // for about a factor e). Read from `measure`, so it judges exactly what the findings judge.
 import type { DesignAnalysis } from '../analysis/types';
 import type { Requirement } from '../language/model';
-import { measure } from './measure';
+import { judge } from './measure';
 
 /** Slack of an unmeasurable requirement: met (+1) or failed (−1), as `measure` judges it. */
 const UNMEASURED = 1;
 
 export function requirementSlack(req: Requirement, a: DesignAnalysis): number {
-  const m = measure(req, a);
+  const m = judge(req, a);
   const v = m.value;
   if (v === undefined || !Number.isFinite(v)) return m.pass ? UNMEASURED : -UNMEASURED;
   const signed = (d: number, op: '>=' | '<=') => (op === '>=' ? d : -d);

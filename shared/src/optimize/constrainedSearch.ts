@@ -5,8 +5,8 @@
 //
 // Method (a pattern search with an extreme barrier, as in the generalised pattern search and mesh adaptive
 // direct search families of derivative-free optimisation):
-//  1. Explore: a space-filling sample of the box (a scrambled Halton sequence plus the centre and the
-//     corners' midpoints), so that every feasible region larger than the sample spacing is seen.
+//  1. Explore: a space-filling sample of the box (a scrambled Halton sequence, 16 + 8·2ⁿ points, plus the
+//     centre and the starting point), so that every feasible region larger than the sample spacing is seen.
 //  2. From the best few feasible samples, poll the 2n coordinate directions at a step that halves on
 //     failure; a move is taken only when it stays feasible and lowers the objective (extreme barrier: an
 //     infeasible point is never accepted). The optimum of these problems usually lies on a constraint
@@ -94,7 +94,7 @@ export function constrainedSearch(problem: Problem, options: SearchOptions = {})
   const samples: Point[] = [];
   if (problem.start) samples.push(at(problem.start.map(clamp)));
   samples.push(at(Array.from({ length: n }, () => 0.5)));
-  const count = Math.min(Math.floor(budget / 3), 12 * 2 ** Math.min(n, 4));
+  const count = Math.min(Math.floor(budget / 3), 16 + 8 * 2 ** Math.min(n, 4));
   for (let i = 1; i <= count && !exhausted(); i++) {
     samples.push(at(Array.from({ length: n }, (_, d) => halton(i, PRIMES[d % PRIMES.length]!))));
   }

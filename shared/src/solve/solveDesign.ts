@@ -150,7 +150,7 @@ export function solveDesign(source: DesignSource, options: SolveOptions): Design
       },
     },
     {
-      budget: options.budget ?? 250 + 100 * variables.length,
+      budget: options.budget ?? 200 + 80 * variables.length,
       isCancelled: () => options.token?.isCancellationRequested === true,
     },
   );
@@ -212,8 +212,9 @@ function atBound(v: Variable, x: number): 'low' | 'high' | null {
 }
 
 /**
- * The 3-significant-digit neighbours of each value (down, up and one step further up), combined, and the
- * feasible combination with the least objective; the continuous values when none is feasible.
+ * The 3-significant-digit neighbours of each value (below and above), combined, and the feasible
+ * combination with the least objective; one step further out when none holds; the continuous values
+ * rounded when still none does.
  */
 function roundKeepingFeasible(
   variables: readonly Variable[],
@@ -226,8 +227,7 @@ function roundKeepingFeasible(
     const step = 10 ** (Math.floor(Math.log10(Math.abs(x))) - 2);
     const down = round3(Math.floor(x / step + 1e-9) * step);
     const up = round3(Math.ceil(x / step - 1e-9) * step);
-    const list = variables.length <= 4 ? [down, up, round3(up + step), round3(down - step)] : [down, up];
-    return [...new Set(list.map((c) => clampTo(v, c)))];
+    return [...new Set([down, up].map((c) => clampTo(v, c)))];
   });
   let best: { vals: number[]; objective: number } | undefined;
   const combo = (i: number, acc: number[]) => {
@@ -240,7 +240,20 @@ function roundKeepingFeasible(
     for (const c of options[i]!) combo(i + 1, [...acc, c]);
   };
   combo(0, []);
-  return best?.vals ?? values.map((x, i) => clampTo(variables[i]!, round3(x)));
+  if (best) return best.vals;
+  // No neighbour combination holds (the answer sits on a steep boundary): one more step outwards each way.
+  const wider = values.map((x, i) => {
+    const v = variables[i]!;
+    if (x === 0) return [0];
+    const step = 10 ** (Math.floor(Math.log10(Math.abs(x))) - 2);
+    const up = round3(Math.ceil(x / step - 1e-9) * step + step);
+    const down = round3(Math.floor(x / step + 1e-9) * step - step);
+    return [...new Set([down, up].map((c) => clampTo(v, c)))];
+  });
+  options.splice(0, options.length, ...wider);
+  combo(0, []);
+  const found = best as { vals: number[] } | undefined;
+  return found?.vals ?? values.map((x, i) => clampTo(variables[i]!, round3(x)));
 }
 
 /**
