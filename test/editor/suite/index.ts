@@ -352,9 +352,65 @@ function defineChecks(suite: Suite, config: SuiteConfig): void {
     45_000,
   );
 
+  suite.check(
+    'the "Solve free parameters" code lens meets every requirement, as one undoable edit',
+    async () => {
+      const spot = findLine(config, /\bfree\b.*\.\./);
+      assert(spot, 'no example has a free parameter');
+      const doc = await vscode.workspace.openTextDocument(uriOf(spot.file));
+      await vscode.window.showTextDocument(doc);
+      const errors = () =>
+        vscode.languages
+          .getDiagnostics(doc.uri)
+          .filter((d) => d.severity === vscode.DiagnosticSeverity.Error);
+      await waitFor('the example to show its unmet requirements', () =>
+        errors().length > 0 ? true : undefined,
+      );
+      const lens = await waitFor('a "Solve free parameters" code lens', async () =>
+        (
+          await vscode.commands.executeCommand<vscode.CodeLens[]>('vscode.executeCodeLensProvider', doc.uri)
+        )?.find((l) => l.command?.title === 'Solve free parameters'),
+      );
+      const before = doc.getText();
+      try {
+        await vscode.commands.executeCommand(lens.command!.command, ...(lens.command!.arguments ?? []));
+        await waitFor(
+          'the solve to write the free values',
+          () => (doc.getText() !== before ? true : undefined),
+          60_000,
+        );
+        const changed = doc
+          .getText()
+          .split(/\r?\n/)
+          .filter((l, i) => l !== before.split(/\r?\n/)[i]);
+        assert(
+          changed.every((l) => /^\s*param \w+\s+= .*\bfree\b/.test(l)),
+          `the solve changed more than free parameters:\n${changed.join('\n')}`,
+        );
+        await waitFor(
+          'every requirement met after the solve',
+          () => (errors().length === 0 ? true : undefined),
+          30_000,
+        );
+      } finally {
+        const undo = new vscode.WorkspaceEdit();
+        undo.replace(doc.uri, new vscode.Range(0, 0, doc.lineCount, 0), before);
+        await vscode.workspace.applyEdit(undo);
+        await doc.save();
+      }
+      assert(doc.getText() === before, 'the document could not be restored');
+    },
+    90_000,
+  );
+
   suite.check('the commands are registered', async () => {
     const commands = await vscode.commands.getCommands(true);
-    for (const c of ['ampnote.showPanel', 'ampnote.analyzeFile', 'ampnote.applySuggestedCompensation']) {
+    for (const c of [
+      'ampnote.showPanel',
+      'ampnote.analyzeFile',
+      'ampnote.applySuggestedCompensation',
+      'ampnote.solveFreeParameters',
+    ]) {
       assert(commands.includes(c), `command ${c} is not registered`);
     }
   });

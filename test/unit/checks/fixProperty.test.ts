@@ -117,9 +117,15 @@ describe('solved fixes on nested designs', () => {
             const after = analyzeDocument(fixed);
             expect(after.parsed.diagnostics.filter((d) => d.severity === 'error')).toEqual([]);
             const same = after.findings.filter(
-              (f) => f.code === finding.code && f.severity !== 'info' && f.message.split(' ')[0] === finding.message.split(' ')[0],
+              (f) =>
+                f.code === finding.code &&
+                f.severity !== 'info' &&
+                f.message.split(' ')[0] === finding.message.split(' ')[0],
             );
-            expect(same.map((f) => f.message), `${fix.title} for ${finding.code}`).toEqual([]);
+            expect(
+              same.map((f) => f.message),
+              `${fix.title} for ${finding.code}`,
+            ).toEqual([]);
           }
         }
       }),
