@@ -77,7 +77,7 @@ export const RULES: Readonly<Record<CheckCode, RuleInfo>> = {
   ugf: {
     name: 'UnityGainFrequency',
     short: 'Unity-gain frequency misses the requirement',
-    help: "The loop's unity-gain frequency (its last downward 0 dB crossing) does not meet the design's `require ugf`, or the loop gain never reaches 0 dB. The input transconductance and the compensation capacitor set the gain-bandwidth.",
+    help: "The loop's unity-gain frequency (read at its lowest downward 0 dB crossing for a minimum, its highest for a maximum) does not meet the design's `require ugf`, or the loop gain never reaches 0 dB. The input transconductance and the compensation capacitor set the gain-bandwidth.",
   },
   'dc-gain': {
     name: 'DcGain',

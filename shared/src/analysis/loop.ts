@@ -1,5 +1,5 @@
 // Loop metrics from the exact pole/zero/gain form: every unity crossing (bracketed on a log grid that spans
-// all roots, refined by Brent), phase margin at the last downward crossing, gain margin at the lowest
+// all roots, refined by Brent), phase margin at the worst crossing, gain margin at the lowest
 // phase crossover, and closed-loop peaking. ln|A(jω)|² is sampled once; the loop gain L = β·σ·A differs
 // from it by the constant ln β², so the open-loop and loop crossings come from the same samples.
 import type { Complex, Crossing, LoopMetrics } from './types';

@@ -46,7 +46,7 @@ export const gainMarginCheck: Check = (input) =>
           message:
             `The loop gain crosses 0 dB ${loop.crossings.length} times (` +
             loop.crossings.map((c) => `${formatHz(c.hz)} ${c.direction}`).join(', ') +
-            '): margins are read at the last downward crossing, and a healthy first crossing does not make the loop stable',
+            '): the loop is close to conditional stability, so requirements are read conservatively (a minimum UGF at the lowest downward crossing, the phase margin at the worst crossing), and a healthy first crossing does not make the loop stable',
           range,
           related,
           badness: loop.crossings.length,

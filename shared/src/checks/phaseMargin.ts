@@ -1,4 +1,5 @@
-// Phase margin at the loop's last downward unity crossing, against `require pm` or the default.
+// Phase margin (the smallest over the loop's unity crossings, in (−180°, 180°]) against `require pm` or the
+// default.
 import { formatDeg, formatHz } from '../format/si';
 import type { DesignModel } from '../language/model';
 import { acrossRuns, type Hit } from './acrossRuns';
