@@ -659,9 +659,21 @@ end
     const terms = await panel.page.locator('#summary dt').allTextContents();
     const summary = await panel.page.locator('#summary dd').allTextContents();
     expect(summary[terms.indexOf('phase margin')]).toBe('—');
-    expect(summary[terms.indexOf('gain margin')]).toBe('—');
+    // A margin that crossed JSON as null cannot be read back: "not computed", never a number or "unbounded".
+    expect(summary[terms.indexOf('gain margin')]).toBe('not computed');
     const drawn = await readCharts(panel.page);
     expect(byRole(drawn, 'bode', 'ugf')).toEqual([]);
+    expect(panel.problems).toEqual([]);
+  });
+
+  it('says "unbounded" for the gain margin of a loop whose phase never reaches −180°', async () => {
+    // The engine leaves gainMarginDb out when the phase never crosses −180° (analysis/types.ts).
+    const base = panelData(c);
+    const { gainMarginDb: _absent, ...summary } = base.summary;
+    await panel.showData({ ...base, summary });
+    const terms = await panel.page.locator('#summary dt').allTextContents();
+    const values = await panel.page.locator('#summary dd').allTextContents();
+    expect(values[terms.indexOf('gain margin')]).toBe('unbounded');
     expect(panel.problems).toEqual([]);
   });
 

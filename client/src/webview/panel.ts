@@ -97,10 +97,13 @@ function renderSummary(d: PanelData): void {
     ['closed loop', d.summary.closedLoop],
     ['UGF', isNum(d.summary.ugfHz) ? formatHz(d.summary.ugfHz) : '—'],
     ['phase margin', isNum(d.summary.phaseMarginDeg) ? formatDeg(d.summary.phaseMarginDeg) : '—'],
-    // Absent from an analyzed loop: the phase never reaches −180°, an unbounded margin.
+    // Absent from an analyzed loop: the phase never reaches −180°, an unbounded margin. A null is a
+    // non-finite number that crossed JSON, which can no longer be read.
     [
       'gain margin',
-      d.problems.length > 0 ? NOT_COMPUTED : formatGainMargin(d.summary.gainMarginDb ?? undefined),
+      d.problems.length > 0 || d.summary.gainMarginDb === null
+        ? NOT_COMPUTED
+        : formatGainMargin(d.summary.gainMarginDb),
     ],
     ['DC gain', Number.isFinite(d.summary.dcGainDb) ? formatDb(d.summary.dcGainDb) : '—'],
     ['slew', isNum(d.summary.slewVperUs) ? `${d.summary.slewVperUs.toPrecision(3)} V/µs` : '—'],
