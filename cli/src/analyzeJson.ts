@@ -9,6 +9,7 @@ import { CAUTION } from '../../shared/src/protocol/panelData';
 import { findingJson, placeJson, SCHEMA_VERSION, type FindingJson, type PlaceJson } from './formatJson';
 import { findingsOfDesign, sortedFindings } from './run';
 import { gainDb } from '../../shared/src/units';
+import { dampingRatio, modulusHz } from '../../shared/src/numeric/complex';
 
 type Num = number | null;
 
@@ -162,15 +163,12 @@ export function cornerJson(run: CornerRun, moved: readonly Sensitivity[] = []): 
     closedLoop: {
       stability: a.stability?.verdict ?? null,
       openLoopRhpPoles: a.stability?.openLoopRhpPoles ?? null,
-      poles: (a.closedLoopPoles ?? []).map((p) => {
-        const m = Math.hypot(p.re, p.im);
-        return {
-          re: num(p.re),
-          im: num(p.im),
-          hz: num(m / (2 * Math.PI)),
-          damping: num(m === 0 ? 1 : -p.re / m),
-        };
-      }),
+      poles: (a.closedLoopPoles ?? []).map((p) => ({
+        re: num(p.re),
+        im: num(p.im),
+        hz: num(modulusHz(p)),
+        damping: num(dampingRatio(p)),
+      })),
     },
     loop: {
       dcGain: gain(a.loop.dcGain),

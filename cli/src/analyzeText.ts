@@ -3,6 +3,7 @@ import { closedLoopVerdict } from '../../shared/src/format/closedLoop';
 import type { DesignAnalysis, Pole, Zero } from '../../shared/src/analysis/types';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
 import { formatGainMargin } from '../../shared/src/format/quantities';
+import { dampingRatio, modulusHz } from '../../shared/src/numeric/complex';
 import { CAUTION } from '../../shared/src/protocol/panelData';
 import type { Finding } from '../../shared/src/checks/types';
 import type { CornerRun, DesignReport, DocumentReport, Worst } from '../../shared/src/report';
@@ -100,12 +101,11 @@ function rootsBlock(run: CornerRun): string[] {
   (a.closedLoopPoles ?? [])
     .filter((p) => p.im >= 0)
     .forEach((p, i) => {
-      const m = Math.hypot(p.re, p.im);
       rows.push([
         i === 0 ? 'closed-loop poles' : '',
         rootText(p.re, p.im),
-        formatHz(m / (2 * Math.PI)),
-        roundSignificant(m === 0 ? 1 : -p.re / m, 3).toString(),
+        formatHz(modulusHz(p)),
+        roundSignificant(dampingRatio(p), 3).toString(),
         p.re > 0 ? 'right half-plane: unstable' : '',
       ]);
     });

@@ -1,13 +1,6 @@
 // `check --format text`: one compiler-style line per finding, so editors and CI annotate the right spot.
 import type { Finding } from '../../shared/src/checks/types';
-import {
-  notCheckedDesigns,
-  notCheckedText,
-  oneBased,
-  sortedFindings,
-  type FileResult,
-  type RunResult,
-} from './run';
+import { notCheckedDesigns, notCheckedText, oneBased, sortedFindings, type FileResult } from './run';
 
 /**
  * `path:line:col: severity code: message`, 1-based. Related places and fixes follow on indented lines, so
@@ -46,12 +39,6 @@ export function formatFileText(file: FileResult): string[] {
       return `${file.path}:${at.startLine}:${at.startColumn}: note: ${notCheckedText(d)}`;
     }),
   ];
-}
-
-/** The findings of the whole run; problems and the summary go to stderr (see main). */
-export function formatRunText(run: RunResult): string {
-  const lines = run.files.flatMap(formatFileText);
-  return lines.length === 0 ? '' : lines.join('\n') + '\n';
 }
 
 /** A message is one line in this format; a line break inside would break line-based readers. */

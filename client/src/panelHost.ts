@@ -15,7 +15,7 @@ import {
   type PanelDataParams,
   type PanelDataResult,
 } from '../../shared/src/protocol/requests';
-import type { HostToWebview, PanelState, WebviewToHost } from '../../shared/src/protocol/webviewMessages';
+import type { HostToWebview, PanelState } from '../../shared/src/protocol/webviewMessages';
 import { panelHtml } from './panelHtml';
 import { chart as chartDescriptor, isChartId, type ChartId } from '../../shared/src/charts/descriptors';
 import { applyRefusal, parseWebviewMessage } from './webviewGuard';

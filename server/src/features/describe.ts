@@ -4,13 +4,14 @@ import type { DesignAnalysis, Pole, Zero } from '../../../shared/src/analysis/ty
 import { measure, type Measurement } from '../../../shared/src/checks/measure';
 import { formatHz } from '../../../shared/src/format/si';
 import { fixedNumber } from '../../../shared/src/format/special';
+import { modulus } from '../../../shared/src/numeric/complex';
 import type { Requirement } from '../../../shared/src/language/model';
 import type { CornerRun, DesignReport } from '../../../shared/src/report';
 
 export const sortedByHz = <T extends { hz: number }>(xs: readonly T[]): T[] =>
   [...xs].sort((a, b) => a.hz - b.hz);
 
-const isComplex = (p: Pole) => Math.abs(p.s.im) > 1e-9 * Math.hypot(p.s.re, p.s.im);
+const isComplex = (p: Pole) => Math.abs(p.s.im) > 1e-9 * modulus(p.s);
 
 /** A complex pair is shown once: its upper member stands for both. */
 export const shownPoles = (poles: readonly Pole[]): Pole[] =>

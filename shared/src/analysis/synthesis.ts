@@ -9,6 +9,7 @@ import { realize } from './realization';
 import { zerosOf } from './polesZeros';
 import { withValue, type CompensationTarget } from './variants';
 import { brentRoot } from '../numeric/roots';
+import { logGrid } from './loop';
 
 const mag = (s: Complex) => Math.hypot(s.re, s.im);
 const fmt = (x: number, unit: string) => `${x.toPrecision(3)} ${unit}`;
@@ -23,11 +24,6 @@ function core(model: DesignModel): CoreResult | undefined {
     return undefined;
   }
 }
-
-const logGrid = (lo: number, hi: number, perDecade: number) => {
-  const n = Math.ceil(Math.log10(hi / lo) * perDecade) + 1;
-  return Array.from({ length: n }, (_, i) => lo * (hi / lo) ** (i / (n - 1)));
-};
 
 /**
  * The first grid interval whose end samples satisfy `brackets`, refined by Brent in log(value); undefined

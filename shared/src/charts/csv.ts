@@ -1,6 +1,7 @@
 // Each chart's data as CSV, in SI units with the unit in the header: what a designer pastes into a sheet.
 import type { PanelData } from '../protocol/panelData';
 import { chart as descriptor, type ChartId } from './descriptors';
+import { modulusHz } from '../numeric/complex';
 
 function quote(field: string): string {
   return /[",\n\r]/.test(field) ? `"${field.replace(/"/g, '""')}"` : field;
@@ -46,7 +47,7 @@ function csvBody(chart: ChartId, data: PanelData): (string | number | undefined)
           'closed-loop pole',
           s.re,
           s.im,
-          Math.hypot(s.re, s.im) / (2 * Math.PI),
+          modulusHz(s),
           '',
           '',
           '',

@@ -23,6 +23,7 @@ import { formatDeg, formatHz, formatSi } from '../format/si';
 import { symlog, symlogInverse, symlogKnee, symlogTicks } from './symlog';
 import { withAlpha, type ChartColors } from './colors';
 import { settlingMarksPlugin, type SettlingMarks } from './settlingInset';
+import { modulusHz } from '../numeric/complex';
 
 Chart.register(
   ScatterController,
@@ -744,7 +745,7 @@ function splaneConfig(data: PanelData, colors: ChartColors): ChartConfiguration<
             label: (item: TooltipItem<'scatter'>) => {
               const p = item.raw as PlotPoint;
               if (p.pole) return describePole(p.pole, item.dataIndex);
-              const hz = Math.hypot(p.re ?? 0, p.im ?? 0) / (2 * Math.PI);
+              const hz = modulusHz({ re: p.re ?? 0, im: p.im ?? 0 });
               if (p.closed) {
                 return [
                   `closed-loop pole: ${formatSi(p.re ?? 0, '')} ${(p.im ?? 0) >= 0 ? '+' : '−'} j${formatSi(Math.abs(p.im ?? 0), '')} rad/s`,
@@ -815,13 +816,4 @@ export function drawCharts(root: ParentNode, data: PanelData, options: DrawOptio
     }
   }
   return out;
-}
-
-export function destroyCharts(charts: Partial<ChartSet>): void {
-  for (const id of CHART_IDS) charts[id]?.destroy();
-}
-
-/** Datasets of one role, for export and for tests. */
-export function datasetsByRole(chart: Chart<'scatter', PlotPoint[]>, role: DatasetRole): RoleDataset[] {
-  return (chart.data.datasets as RoleDataset[]).filter((d) => d.role === role);
 }

@@ -22,28 +22,6 @@ export function multiply(a: Float64Array, b: Float64Array, n: number, k: number,
   return out;
 }
 
-/** y = a·x for a (n×m). */
-export function multiplyVector(a: Float64Array, x: Float64Array, n: number, m: number): Float64Array {
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let s = 0;
-    for (let j = 0; j < m; j++) s += a[i * m + j] * x[j];
-    y[i] = s;
-  }
-  return y;
-}
-
-/** yᵀ = xᵀ·a for a (n×m): a row vector times a matrix. */
-export function vectorMultiply(x: Float64Array, a: Float64Array, n: number, m: number): Float64Array {
-  const y = new Float64Array(m);
-  for (let i = 0; i < n; i++) {
-    const xi = x[i];
-    if (xi === 0) continue;
-    for (let j = 0; j < m; j++) y[j] += xi * a[i * m + j];
-  }
-  return y;
-}
-
 export function dot(a: Float64Array, b: Float64Array): number {
   let s = 0;
   for (let i = 0; i < a.length; i++) s += a[i] * b[i];

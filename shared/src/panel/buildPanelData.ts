@@ -19,6 +19,7 @@ import {
   type SliderRange,
 } from '../protocol/panelData';
 import { gainDb } from '../units';
+import { modulus, modulusHz } from '../numeric/complex';
 
 export interface PanelOptions {
   /** Slider overrides of the swept compensation element (F, ohm); `rz = 0` removes the nulling resistor. */
@@ -101,9 +102,6 @@ export function sweepValues(written: number, shown: number, perDecade: number): 
   });
 }
 
-const magnitude = (s: Complex) => Math.hypot(s.re, s.im);
-const toHz = (s: Complex) => magnitude(s) / (2 * Math.PI);
-
 /** Branch k of a locus: the k-th root by magnitude at each swept value that has at least k+1 roots. */
 function branches(
   points: readonly LocusPoint[],
@@ -116,7 +114,7 @@ function branches(
     roots: pick(p)
       .filter((s) => Number.isFinite(s.re) && Number.isFinite(s.im))
       .slice()
-      .sort((a, b) => magnitude(a) - magnitude(b)),
+      .sort((a, b) => modulus(a) - modulus(b)),
   }));
   const count = Math.max(0, ...sorted.map((p) => p.roots.length));
   const out: LocusSeries[] = [];
@@ -126,9 +124,9 @@ function branches(
     const side: boolean[] = [];
     for (const p of sorted) {
       const s = p.roots[k];
-      if (!s || magnitude(s) === 0) continue;
+      if (!s || modulus(s) === 0) continue;
       cc.push(p.value);
-      hz.push(toHz(s));
+      hz.push(modulusHz(s));
       side.push(s.re > 0);
     }
     if (cc.length === 0) continue;
