@@ -382,9 +382,10 @@ function preferredPmFix(expected) {
   const ordered = [...expected].sort((a, b) => Number(a.file.includes('/')) - Number(b.file.includes('/')));
   for (const e of ordered) {
     for (const f of e.findings.filter((x) => x.code === 'phase-margin')) {
-      const fix = f.fixes?.find((x) => x.preferred && /for\s+([\d.]+)\s*°\s*phase margin/.test(x.title));
+      // `Set cc = 1.6 pF (phase margin 60.0°)`: the title gives the margin the rounded value reaches.
+      const fix = f.fixes?.find((x) => x.preferred && /\(phase margin\s+([\d.]+)\s*°/.test(x.title));
       if (!fix) continue;
-      const pm = Number(fix.title.match(/for\s+([\d.]+)\s*°/)[1]);
+      const pm = Number(fix.title.match(/\(phase margin\s+([\d.]+)\s*°/)[1]);
       const design = e.designs.find(
         (d) => d.range.start.line <= f.range.start.line && f.range.start.line <= d.range.end.line,
       );
