@@ -176,6 +176,24 @@ export interface Objective {
   readonly origin: Origin;
 }
 
+export type SweepScale = 'log' | 'linear';
+
+/** `sweep NAME from LOW to HIGH`: a parameter varied over a range (SI, the parameter's dimension). */
+export interface Sweep {
+  readonly param: string;
+  /** The parameter's dimension as the evaluator names it (`F`, `A`, `1`). */
+  readonly dimension: string;
+  readonly low: number;
+  readonly high: number;
+  readonly points: number;
+  readonly scale: SweepScale;
+  /** The parameter's value expression in the text: a point is evaluated by writing its value there. */
+  readonly valueRange: SourceRange;
+  /** Corner overrides of the parameter, which the sweep sets to the same value. */
+  readonly cornerOverrides: readonly SourceRange[];
+  readonly origin: Origin;
+}
+
 /** One evaluated variant of a design: the nominal one, or a corner with its overrides applied. */
 export interface DesignModel {
   readonly name: string;
@@ -197,6 +215,8 @@ export interface DesignModel {
   readonly params: readonly Param[];
   /** The design's `minimize` statement, when written (see solve/objective.ts for the default). */
   readonly minimize?: Objective;
+  /** The design's `sweep` statements, in text order (hand-built models may leave it out). */
+  readonly sweeps?: readonly Sweep[];
 }
 
 /** A name a design declares, with every place it is used: for hover, go to definition and rename. */

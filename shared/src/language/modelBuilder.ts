@@ -375,6 +375,7 @@ export class ModelBuilder implements BuildContext {
       requirements: parts.requirements,
       params,
       ...(parts.objective[0] ? { minimize: parts.objective[0] } : {}),
+      sweeps: parts.sweeps,
     };
   }
 

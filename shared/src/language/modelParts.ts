@@ -1,7 +1,17 @@
 // The lists of a model that statements add to. One table of their names, so that collecting, counting and
 // taking over a statement's contribution never lists them by hand.
 import type { Ratio } from '../units';
-import type { BufferedCap, Element, Load, Miller, Objective, Origin, Requirement, Stage } from './model';
+import type {
+  BufferedCap,
+  Element,
+  Load,
+  Miller,
+  Objective,
+  Origin,
+  Requirement,
+  Stage,
+  Sweep,
+} from './model';
 
 /** What a `feedback` statement gives the model; the model takes the first. */
 export interface FeedbackPart {
@@ -19,6 +29,7 @@ export interface ModelParts {
   readonly feedback: readonly FeedbackPart[];
   /** What a `minimize` statement gives the model; the model takes the first. */
   readonly objective: readonly Objective[];
+  readonly sweeps: readonly Sweep[];
 }
 
 /** What one statement adds: some of the lists, usually one item in one. */
@@ -36,6 +47,7 @@ const PART_NAMES = Object.keys({
   requirements: true,
   feedback: true,
   objective: true,
+  sweeps: true,
 } satisfies Record<keyof ModelParts, true>) as (keyof ModelParts)[];
 
 /** A model's lists while statements add to them. */

@@ -42,7 +42,7 @@ const cases: Case[] = [
     d('  ⟦miler⟧ s -> in cc = 1 pF'),
     'syntax',
     'error',
-    'Unknown statement `miler`. Did you mean `miller`? A design holds: param, node, stage, load, miller, indirect, feedforward, element, output, feedback, require, minimize, corner; it closes with `end`.',
+    'Unknown statement `miler`. Did you mean `miller`? A design holds: param, node, stage, load, miller, indirect, feedforward, element, output, feedback, require, minimize, sweep, corner; it closes with `end`.',
   ],
   ['missing =', d('  load ⟦cap⟧ 3 pF'), 'syntax', 'error', 'Missing `=` after `cap`.'],
   ['missing value at the end', d('  load cap = 1 pF ⟦res =⟧'), 'syntax', 'error', 'Missing value for `res`.'],

@@ -14,6 +14,7 @@ import { paramKind, type ParamStatement } from './param';
 import { requireKind, type RequireStatement } from './require';
 import { stageKind, type StageStatement } from './stage';
 import type { StatementDescriptor } from './statementKind';
+import { sweepKind, type SweepStatement } from './sweep';
 
 export type Statement =
   | ParamStatement
@@ -28,6 +29,7 @@ export type Statement =
   | FeedbackStatement
   | RequireStatement
   | MinimizeStatement
+  | SweepStatement
   | CornerStatement;
 
 export type StatementKind = Statement['kind'];
@@ -47,6 +49,7 @@ export const STATEMENT_KINDS: { readonly [K in StatementKind]: StatementDescript
   feedback: feedbackKind,
   require: requireKind,
   minimize: minimizeKind,
+  sweep: sweepKind,
   corner: cornerKind,
 };
 
