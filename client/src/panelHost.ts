@@ -10,6 +10,9 @@ import {
   type DesignSummaryParams,
   type DesignSummaryResult,
   PanelDataRequest,
+  SolveDesignRequest,
+  type SolveDesignParams,
+  type SolveDesignResult,
   type CompensationEditParams,
   type CompensationEditResult,
   type PanelDataParams,
@@ -42,7 +45,8 @@ interface Target {
 export class PanelHost implements vscode.Disposable {
   private panel: vscode.WebviewPanel | undefined;
   private target: Target | undefined;
-  private overrides: { cc?: number; rz?: number } = {};
+  /** Slider values for the design shown: Cc and Rz, or the free parameters' by name. */
+  private overrides: { cc?: number; rz?: number; free?: Readonly<Record<string, number>> } = {};
   /** The element the user chose to sweep (absent: the design's first); belongs to the design shown. */
   private choice: CompensationTarget | undefined;
   /** Set by `show`: the next request may choose the element under the cursor. */
@@ -268,6 +272,7 @@ export class PanelHost implements vscode.Disposable {
       rz: this.overrides.rz,
       ...(this.choice ? { compensation: this.choice } : {}),
       ...(preselect ? { compensationAt: preselect } : {}),
+      ...(this.overrides.free ? { free: this.overrides.free } : {}),
     };
     try {
       const data = await this.server.request<PanelDataParams, PanelDataResult>(
@@ -280,7 +285,9 @@ export class PanelHost implements vscode.Disposable {
       if (data && this.last && (data.design !== this.last.design || data.uri !== this.last.uri)) {
         // Another design came under the cursor: slider values and the chosen element belong to the
         // previous one.
-        if (this.overrides.cc !== undefined || this.overrides.rz !== undefined || this.choice) {
+        const moved =
+          this.overrides.cc !== undefined || this.overrides.rz !== undefined || this.overrides.free;
+        if (moved || this.choice) {
           this.overrides = {};
           this.choice = undefined;
           this.last = data;
@@ -334,6 +341,16 @@ export class PanelHost implements vscode.Disposable {
         return;
       case 'apply':
         await this.apply(msg.cc, msg.rz);
+        return;
+      case 'free':
+        this.overrides = { free: msg.values };
+        this.schedule(0);
+        return;
+      case 'solve':
+        await this.solve();
+        return;
+      case 'applyFree':
+        await this.applyFree(msg.values);
         return;
       case 'compensation':
         // Slider values belong to the element they moved.
@@ -406,6 +423,66 @@ export class PanelHost implements vscode.Disposable {
           e.newText,
         );
       }
+      if (await vscode.workspace.applyEdit(edit)) {
+        this.overrides = {};
+        this.schedule(EDIT_MS);
+      }
+    } catch (err) {
+      const text = err instanceof Error ? err.message : String(err);
+      this.output.appendLine(`[panel] apply: ${text}`);
+      void vscode.window.showErrorMessage(`Ampnote: could not write the values: ${text}`);
+    }
+  }
+
+  /** Solves the shown design's free parameters and moves the sliders to the answer (the file is unchanged). */
+  private async solve(): Promise<void> {
+    const data = this.last;
+    if (!data?.free) return;
+    try {
+      const result = await this.server.request<SolveDesignParams, SolveDesignResult>(
+        SolveDesignRequest.method,
+        { uri: data.uri, design: data.design },
+      );
+      if (!result || !result.values?.length) {
+        this.post({ type: 'status', text: result?.summary ?? 'Nothing to solve.', error: true });
+        return;
+      }
+      this.overrides = { free: Object.fromEntries(result.values.map((v) => [v.name, v.value])) };
+      await this.refresh();
+      // After the data (which clears the status line): what was solved, or what cannot be met together.
+      this.post({ type: 'status', text: result.summary, error: result.status !== 'met' });
+    } catch (err) {
+      const text = err instanceof Error ? err.message : String(err);
+      this.output.appendLine(`[panel] solve: ${text}`);
+      this.post({ type: 'status', text: `Could not solve: ${text}`, error: true });
+    }
+  }
+
+  /**
+   * Writes the free values the sliders show as one undoable edit of the free parameters' literals (the
+   * solve's edit form). The values are evaluated for the current text first, so what is written is what
+   * the panel has checked.
+   */
+  private async applyFree(values: Readonly<Record<string, number>>): Promise<void> {
+    if (!this.last?.free) return;
+    this.overrides = { free: values };
+    await this.refresh();
+    const data = this.last;
+    const free = data?.free;
+    if (!data || !free) return;
+    if (free.refused) return this.refuse(data.design, free.refused);
+    const shown = free.sliders.every((s) => (values[s.name] ?? s.written) === s.value);
+    if (!shown) return this.refuse(data.design, 'the panel shows other values than these; try again');
+    if (free.edits.length === 0) return this.refuse(data.design, 'these are the values as written');
+    if (this.lastVersion === undefined || this.documentVersion(data.uri) !== this.lastVersion)
+      return this.refuse(data.design, 'the file changed meanwhile; try again');
+    const uri = vscode.Uri.parse(data.uri);
+    const edit = new vscode.WorkspaceEdit();
+    for (const e of free.edits) {
+      const { start, end } = e.range;
+      edit.replace(uri, new vscode.Range(start.line, start.character, end.line, end.character), e.newText);
+    }
+    try {
       if (await vscode.workspace.applyEdit(edit)) {
         this.overrides = {};
         this.schedule(EDIT_MS);

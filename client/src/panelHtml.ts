@@ -82,6 +82,21 @@ export function panelHtml(input: PanelHtmlInput): string {
       </span>
       <span id="slider-status" class="muted" aria-live="polite"></span>
     </section>
+    <section class="free hidden" id="free" aria-label="Free parameters">
+      <div class="free-sliders" id="free-sliders"></div>
+      <div class="free-results">
+        <p class="free-objective"><span class="muted">Objective</span> <span id="free-objective"></span></p>
+        <ul class="free-reqs" id="free-reqs" aria-label="Requirements at these values, worst corner"></ul>
+      </div>
+      <div class="free-actions">
+        <span class="buttons">
+          <button id="free-solve" type="button" title="Find the values that meet every requirement in every corner at the least objective">Solve</button>
+          <button id="free-apply" type="button" title="Write the free parameters' values into the file (one undoable edit)">Apply to file</button>
+          <button id="free-reset" type="button" class="secondary" title="Back to the values as written">Reset</button>
+        </span>
+        <span id="free-status" class="muted" aria-live="polite"></span>
+      </div>
+    </section>
     <ul id="problems" class="problems"></ul>
     <p id="empty-note" class="empty-note">Open an .ampnote file and place the cursor in a design.</p>
     <div class="grid" id="grid">${cards}

@@ -17,6 +17,14 @@ export function applyRefusal(cc: number | undefined, rz: number | undefined): st
   );
 }
 
+/** Free parameters' values: parameter names to numbers (the engine refuses an unusable number with why). */
+function freeValuesOf(v: unknown): Record<string, number> | undefined {
+  if (!v || typeof v !== 'object' || Array.isArray(v)) return undefined;
+  const entries = Object.entries(v as Record<string, unknown>);
+  if (entries.length > 1000 || !entries.every(([, x]) => typeof x === 'number')) return undefined;
+  return Object.fromEntries(entries) as Record<string, number>;
+}
+
 export function parseWebviewMessage(raw: unknown): WebviewToHost | undefined {
   if (!raw || typeof raw !== 'object') return undefined;
   const m = raw as Record<string, unknown>;
@@ -37,6 +45,13 @@ export function parseWebviewMessage(raw: unknown): WebviewToHost | undefined {
         cc: typeof m.cc === 'number' ? m.cc : undefined,
         rz: typeof m.rz === 'number' ? m.rz : undefined,
       };
+    case 'free':
+    case 'applyFree': {
+      const values = freeValuesOf(m.values);
+      return values ? { type: m.type, values } : undefined;
+    }
+    case 'solve':
+      return { type: 'solve' };
     case 'compensation': {
       const t = m.target as { kind?: unknown; index?: unknown } | null | undefined;
       if (!t || typeof t !== 'object') return undefined;

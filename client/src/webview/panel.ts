@@ -1,7 +1,8 @@
 // The panel's script inside the webview: renders PanelData sent by the extension host, runs the Cc/Rz
-// sliders, exports, keeps its state across hide/show, and follows the theme. Every string the user wrote
+// sliders (or, for a design with free parameters, one slider per free parameter with the requirements at
+// those values, the objective, Solve and Apply), exports, keeps its state across hide/show, and follows the theme. Every string the user wrote
 // (design names, messages quoting the file) is inserted with textContent.
-import type { CompensationTarget, PanelData } from '../../../shared/src/protocol/panelData';
+import type { CompensationTarget, FreePanel, PanelData } from '../../../shared/src/protocol/panelData';
 import type { HostToWebview, PanelState, WebviewToHost } from '../../../shared/src/protocol/webviewMessages';
 import { formatDb, formatDeg, formatHz, formatSi } from '../../../shared/src/format/si';
 import { formatGainMargin } from '../../../shared/src/format/quantities';
@@ -10,7 +11,7 @@ import { CHART_IDS, isChartId, type ChartId } from '../../../shared/src/charts/d
 import { drawCharts, type ChartSet } from '../../../shared/src/charts/draw';
 import { chartCsv } from '../../../shared/src/charts/csv';
 import { readThemeColors } from './theme';
-import { positionToValue, valueToPosition } from './sliderScale';
+import { freePositionToValue, freeValueToPosition, positionToValue, valueToPosition } from './sliderScale';
 
 interface VsCodeApi {
   postMessage(message: WebviewToHost): void;
@@ -51,14 +52,24 @@ const ui = {
   apply: $<HTMLButtonElement>('apply'),
   reset: $<HTMLButtonElement>('reset'),
   status: $('slider-status'),
+  free: $('free'),
+  freeSliders: $('free-sliders'),
+  freeObjective: $('free-objective'),
+  freeReqs: $('free-reqs'),
+  freeSolve: $<HTMLButtonElement>('free-solve'),
+  freeApply: $<HTMLButtonElement>('free-apply'),
+  freeReset: $<HTMLButtonElement>('free-reset'),
+  freeStatus: $('free-status'),
 };
 
 let state: PanelState = vscode.getState() ?? { selected: 'locus' };
 let data: PanelData | null = null;
 let charts: Partial<ChartSet> = {};
 let designKey = '';
-/** A slider value waiting to be sent while the previous request is still answering. */
-let pending: { cc?: number; rz?: number } | undefined;
+/** A slider message waiting to be sent while the previous request is still answering. */
+let pending: WebviewToHost | undefined;
+/** The free sliders' layout (names and bounds), so that rows are rebuilt only when it changes. */
+let freeLayout = '';
 let inFlight = false;
 /** A slider thumb is held by the pointer. */
 let dragging = false;
@@ -196,6 +207,116 @@ function renderSliders(d: PanelData): void {
   ui.reset.disabled = !changed;
 }
 
+/** The status line in view: the free parameters' when the design has them, else the Cc/Rz sliders'. */
+const statusLine = () => (data?.free ? ui.freeStatus : ui.status);
+
+function setStatus(text: string, error = false): void {
+  for (const el of [ui.status, ui.freeStatus]) {
+    setText(el, el === statusLine() ? text : '');
+    el.classList.toggle('error', error && el === statusLine());
+  }
+}
+
+const freeInputs = () => [...ui.freeSliders.querySelectorAll<HTMLInputElement>('input[type="range"]')];
+
+/** One row per free parameter; names come from the file, so they are inserted as text. */
+function buildFreeSliders(free: FreePanel): void {
+  const rows = free.sliders.map((s, i) => {
+    const row = document.createElement('label');
+    row.className = 'free-slider';
+    const name = document.createElement('span');
+    name.className = 'slider-label';
+    name.textContent = s.name;
+    const input = document.createElement('input');
+    input.type = 'range';
+    input.min = '0';
+    input.max = '1000';
+    input.step = '1';
+    input.dataset.index = String(i);
+    input.setAttribute('aria-label', `${s.name} (${s.log ? 'log' : 'linear'} scale)`);
+    const output = document.createElement('output');
+    const bounds = document.createElement('span');
+    bounds.className = 'muted slider-what';
+    bounds.textContent = `${formatSi(s.low, s.unit)} .. ${formatSi(s.high, s.unit)}${s.log ? '' : ' (linear)'}`;
+    row.append(name, input, output, bounds);
+    input.addEventListener('input', onFreeInput);
+    input.addEventListener('pointerdown', () => (dragging = true));
+    for (const end of ['pointerup', 'pointercancel', 'lostpointercapture'] as const)
+      input.addEventListener(end, () => (dragging = false));
+    return row;
+  });
+  ui.freeSliders.replaceChildren(...rows);
+}
+
+function renderFree(d: PanelData): void {
+  const free = d.free;
+  ui.free.classList.toggle('hidden', !free);
+  if (!free) {
+    freeLayout = '';
+    return;
+  }
+  ui.controls.classList.add('hidden');
+  const layoutKey = JSON.stringify(free.sliders.map((s) => [s.name, s.low, s.high, s.log, s.unit]));
+  if (layoutKey !== freeLayout) {
+    freeLayout = layoutKey;
+    buildFreeSliders(free);
+  }
+  if (!dragging && !pending) {
+    const inputs = freeInputs();
+    free.sliders.forEach((s, i) => {
+      const input = inputs[i]!;
+      input.value = String(freeValueToPosition(s.value, s));
+      setText(input.nextElementSibling as HTMLElement, formatSi(s.value, s.unit));
+    });
+    const moved = free.sliders.some((s) => s.value !== s.written);
+    const values = Object.fromEntries(free.sliders.map((s) => [s.name, s.value]));
+    if (moved || state.free !== undefined) saveState({ free: moved ? values : undefined });
+  }
+  const o = free.objective;
+  setText(ui.freeObjective, `${o.expression}: ${isNum(o.value) ? formatSi(o.value, o.unit) : '—'}`);
+  ui.freeReqs.replaceChildren(
+    ...free.requirements.map((r) => {
+      const li = document.createElement('li');
+      li.classList.toggle('fail', !r.met);
+      const verdict = document.createElement('span');
+      verdict.className = 'verdict';
+      verdict.textContent = r.met ? 'pass' : 'FAIL';
+      const where = r.worst.corner === 'nominal' ? 'nominal' : `corner ${r.worst.corner}`;
+      li.append(verdict, `${r.label} ${r.required}: worst ${r.worst.text} (${where})`);
+      return li;
+    }),
+  );
+  ui.freeApply.disabled = free.edits.length === 0 || free.refused !== undefined;
+  ui.freeReset.disabled = free.edits.length === 0 && state.free === undefined;
+}
+
+/** The free sliders' values as positioned now, by parameter name. */
+function freeValues(): Record<string, number> {
+  const free = data?.free;
+  if (!free) return {};
+  const inputs = freeInputs();
+  return Object.fromEntries(
+    free.sliders.map((s, i) => [s.name, freePositionToValue(Number(inputs[i]!.value), s)]),
+  );
+}
+
+function onFreeInput(ev: Event): void {
+  const free = data?.free;
+  if (!free) return;
+  const input = ev.target as HTMLInputElement;
+  const slider = free.sliders[Number(input.dataset.index)];
+  if (!slider) return;
+  setText(
+    input.nextElementSibling as HTMLElement,
+    formatSi(freePositionToValue(Number(input.value), slider), slider.unit),
+  );
+  const values = freeValues();
+  saveState({ free: values });
+  ui.freeApply.disabled = false;
+  ui.freeReset.disabled = false;
+  sendLive({ type: 'free', values });
+}
+
 /** Charts with nothing to draw show only their note (no empty axes), and offer nothing to export. */
 function markEmpty(d: PanelData): void {
   const has: Record<ChartId, boolean> = {
@@ -230,7 +351,8 @@ function render(d: PanelData | null): void {
   if (designKey === '') designKey = key;
   if (designKey !== '' && key !== designKey) {
     designKey = key;
-    if (state.cc !== undefined || state.rz !== undefined) saveState({ cc: undefined, rz: undefined });
+    if (state.cc !== undefined || state.rz !== undefined || state.free !== undefined)
+      saveState({ cc: undefined, rz: undefined, free: undefined });
   }
   if (state.uri !== d.uri || state.design !== d.design) saveState({ uri: d.uri, design: d.design });
   const shown = d.compensation ? { kind: d.compensation.kind, index: d.compensation.index } : undefined;
@@ -251,6 +373,7 @@ function render(d: PanelData | null): void {
   renderProblems(d);
   renderNotes(d);
   renderSliders(d);
+  renderFree(d);
   markEmpty(d);
   layout();
   redraw();
@@ -282,14 +405,19 @@ function sliderValues(): { cc?: number; rz?: number } {
   };
 }
 
-function sendSlider(values: { cc?: number; rz?: number }): void {
+/** Sends a slider's message, or keeps it (the latest only) until the answer to the previous one is in. */
+function sendLive(message: WebviewToHost): void {
   if (inFlight) {
-    pending = values;
+    pending = message;
     return;
   }
   inFlight = true;
-  setText(ui.status, 'computing…');
-  post({ type: 'slider', ...values });
+  setStatus('computing…');
+  post(message);
+}
+
+function sendSlider(values: { cc?: number; rz?: number }): void {
+  sendLive({ type: 'slider', ...values });
 }
 
 function onSliderInput(): void {
@@ -337,6 +465,21 @@ ui.reset.addEventListener('click', () => {
   saveState({ cc: undefined, rz: undefined });
   sendSlider({});
 });
+ui.freeSolve.addEventListener('click', () => {
+  // The host answers with the solved values as new data, then the solve's summary as the status.
+  pending = undefined;
+  inFlight = true;
+  setStatus('solving…');
+  post({ type: 'solve' });
+});
+ui.freeApply.addEventListener('click', () => {
+  post({ type: 'applyFree', values: freeValues() });
+  ui.freeApply.disabled = true;
+});
+ui.freeReset.addEventListener('click', () => {
+  saveState({ free: undefined });
+  sendLive({ type: 'free', values: {} });
+});
 
 // ---- chart tools (event delegation: no inline handlers) ---------------------------------------------------
 
@@ -373,13 +516,12 @@ window.addEventListener('message', (event: MessageEvent<HostToWebview>) => {
   switch (msg.type) {
     case 'data': {
       inFlight = false;
-      setText(ui.status, '');
-      ui.status.classList.remove('error');
       render(msg.data);
+      setStatus(msg.data?.free?.refused ?? '', msg.data?.free?.refused !== undefined);
       if (pending) {
         const next = pending;
         pending = undefined;
-        sendSlider(next);
+        sendLive(next);
       }
       break;
     }
@@ -393,8 +535,7 @@ window.addEventListener('message', (event: MessageEvent<HostToWebview>) => {
       break;
     case 'status':
       if (msg.error) inFlight = false;
-      setText(ui.status, msg.text);
-      ui.status.classList.toggle('error', msg.error === true);
+      setStatus(msg.text, msg.error === true);
       break;
   }
 });
@@ -409,3 +550,4 @@ layout();
 post({ type: 'ready' });
 if (state.compensation) post({ type: 'compensation', target: state.compensation });
 if (state.cc !== undefined || state.rz !== undefined) post({ type: 'slider', cc: state.cc, rz: state.rz });
+if (state.free !== undefined) post({ type: 'free', values: state.free });

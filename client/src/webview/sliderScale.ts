@@ -19,3 +19,25 @@ export function valueToPosition(value: number, range: SliderRange, allowZero: bo
   const f = Math.log(value / range.min) / Math.log(range.max / range.min);
   return Math.min(STEPS, Math.max(lo, Math.round(lo + f * (STEPS - lo))));
 }
+
+/** A free parameter's slider: geometric between positive bounds, else linear; 3 significant digits. */
+export function freePositionToValue(
+  position: number,
+  slider: { readonly low: number; readonly high: number; readonly log: boolean },
+): number {
+  const f = Math.min(STEPS, Math.max(0, Math.round(position))) / STEPS;
+  const { low, high } = slider;
+  const raw = slider.log ? low * (high / low) ** f : low + f * (high - low);
+  // Rounding may step past a bound written with more digits: the value stays within the bounds.
+  return Math.min(high, Math.max(low, Number(raw.toPrecision(3))));
+}
+
+export function freeValueToPosition(
+  value: number,
+  slider: { readonly low: number; readonly high: number; readonly log: boolean },
+): number {
+  const { low, high } = slider;
+  if (!(high > low)) return 0;
+  const f = slider.log ? Math.log(value / low) / Math.log(high / low) : (value - low) / (high - low);
+  return Math.min(STEPS, Math.max(0, Math.round(f * STEPS)));
+}

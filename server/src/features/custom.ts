@@ -46,6 +46,14 @@ function asTarget(t: unknown): CompensationTarget | undefined {
 const finitePositive = (x: unknown) =>
   typeof x === 'number' && Number.isFinite(x) && x >= 0 ? x : undefined;
 
+/** Free parameters' values from the wire: names to numbers (the engine refuses unusable numbers). */
+function freeValues(v: unknown): Record<string, number> | undefined {
+  if (!v || typeof v !== 'object' || Array.isArray(v)) return undefined;
+  const out: Record<string, number> = {};
+  for (const [name, value] of Object.entries(v)) if (typeof value === 'number') out[name] = value;
+  return out;
+}
+
 export function panelData(
   report: DocumentReport,
   params: PanelDataParams,
@@ -57,6 +65,7 @@ export function panelData(
   if (!model) return null;
   const cc = finitePositive(params.cc);
   const rz = finitePositive(params.rz);
+  const free = freeValues(params.free);
   // The cursor on a compensation line picks that element; elsewhere the element asked for (or the default).
   const compensation =
     (isPosition(params.compensationAt) ? compensationAt(model, params.compensationAt) : undefined) ??
@@ -67,6 +76,8 @@ export function panelData(
     ...(compensation ? { compensation } : {}),
     token,
     settleTolerance: settings.settleTolerance,
+    source: design.source,
+    ...(free ? { free } : {}),
   });
   return data ?? null;
 }
@@ -118,5 +129,6 @@ export function solveDesignRequest(
     status: solve.status,
     summary: solveSummary(solve),
     edits: solve.status === 'met' ? solve.edits.map(toEdit) : [],
+    values: solve.values.map((v) => ({ name: v.name, value: v.after })),
   };
 }

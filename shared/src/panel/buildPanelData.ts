@@ -9,7 +9,8 @@ import type { CancelToken, Complex, DesignAnalysis, LocusPoint } from '../analys
 import { formatDcGain } from '../format/quantities';
 import { formatSi } from '../format/si';
 import { ANALYSABLE_MAGNITUDE } from '../language/valueRanges';
-import type { DesignModel } from '../language/model';
+import type { DesignModel, DesignSource } from '../language/model';
+import { freePanel } from './freeParameters';
 import {
   CAUTION,
   type CompensationChoice,
@@ -32,6 +33,13 @@ export interface PanelOptions {
   readonly settleTolerance?: number;
   /** Points per decade of the Cc sweep. */
   readonly sweepPerDecade?: number;
+  /**
+   * The design's source: when it has free parameters, the panel carries their sliders, and `free` (by
+   * name, SI) sets their values in the text, which is analysed again (the Cc and Rz overrides then do not
+   * apply: those values are free parameters' sliders or follow from them).
+   */
+  readonly source?: DesignSource;
+  readonly free?: Readonly<Record<string, number>>;
 }
 
 /** The sweep spans this factor either side of the written Cc, plus the uncompensated point Cc = 0. */
@@ -191,10 +199,13 @@ function sliderProblem(options: PanelOptions): string | undefined {
  * the token is cancelled part-way (the caller drops the request).
  */
 export function buildPanelData(
-  model: DesignModel,
+  given: DesignModel,
   uri: string,
-  options: PanelOptions = {},
+  panelOptions: PanelOptions = {},
 ): PanelData | undefined {
+  const free = panelOptions.source ? freePanel(panelOptions.source, panelOptions.free) : undefined;
+  const model = free?.model ?? given;
+  const options: PanelOptions = free ? { ...panelOptions, cc: undefined, rz: undefined } : panelOptions;
   const token = options.token;
   const target = sweptCompensation(model, options.compensation);
   const choices = compensationChoices(model);
@@ -245,6 +256,7 @@ export function buildPanelData(
       target && compensation
         ? sliderRanges(model, target, compensation.ccWritten, compensation.rzWritten)
         : undefined,
+    ...(free ? { free: free.free } : {}),
     caution: CAUTION,
   };
   if (analysis.problems.length > 0) {

@@ -44,6 +44,47 @@ export interface CompensationChoice extends CompensationTarget {
   readonly label: string;
 }
 
+/** A slider for one free parameter: its bounds and scale, the value as written and the value shown (SI). */
+export interface FreeSlider {
+  readonly name: string;
+  /** The SI unit of the parameter's dimension (`F`, `A`, `ohm`; `1` or empty for a plain number). */
+  readonly unit: string;
+  readonly low: number;
+  readonly high: number;
+  /** Logarithmic when both bounds are positive (component values span decades), else linear. */
+  readonly log: boolean;
+  readonly written: number;
+  readonly value: number;
+}
+
+/** A requirement judged in every run at the values shown: its worst value and the corner that sets it. */
+export interface FreeRequirement {
+  readonly label: string;
+  readonly required: string;
+  readonly worst: { readonly text: string; readonly corner: string };
+  readonly met: boolean;
+}
+
+/** An edit of the document (line and character positions), as the solve writes free values. */
+export interface PanelEdit {
+  readonly range: {
+    readonly start: { readonly line: number; readonly character: number };
+    readonly end: { readonly line: number; readonly character: number };
+  };
+  readonly newText: string;
+}
+
+/** The free parameters of a design at the values the sliders ask for, evaluated on the edited text. */
+export interface FreePanel {
+  readonly sliders: readonly FreeSlider[];
+  readonly requirements: readonly FreeRequirement[];
+  readonly objective: { readonly expression: string; readonly unit: string; readonly value: number };
+  /** The edits that write the values shown (only the free parameters' literals). */
+  readonly edits: readonly PanelEdit[];
+  /** Why the values asked for were refused (the written values are shown instead). */
+  readonly refused?: string;
+}
+
 export interface PanelData {
   readonly uri: string;
   readonly design: string;
@@ -63,6 +104,8 @@ export interface PanelData {
   readonly rz?: number;
   /** Spans for the Cc and Rz sliders around the written values; absent without compensation. */
   readonly sliders?: { readonly cc: SliderRange; readonly rz: SliderRange };
+  /** Present when the design has free parameters: their sliders replace the Cc and Rz sliders. */
+  readonly free?: FreePanel;
   readonly poles: readonly PanelPole[];
   readonly zeros: readonly PanelZero[];
   /** Poles of the closed loop (rad/s): where stability is decided; `poles` above are the open loop's. */

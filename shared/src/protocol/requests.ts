@@ -18,6 +18,8 @@ export interface PanelDataParams {
   /** The element whose statement holds this position, when there is one, takes precedence over
    * `compensation` (the panel opened with the cursor on a `miller` line). */
   readonly compensationAt?: { readonly line: number; readonly character: number };
+  /** Values for the design's free parameters, by name (SI); the text is edited and analysed again. */
+  readonly free?: Readonly<Record<string, number>>;
 }
 export type PanelDataResult = PanelData | null;
 
@@ -74,4 +76,6 @@ export type SolveDesignResult = {
     readonly range: { start: { line: number; character: number }; end: { line: number; character: number } };
     readonly newText: string;
   }[];
+  /** The values found (the best compromise when infeasible), by parameter name (SI). */
+  readonly values?: readonly { readonly name: string; readonly value: number }[];
 } | null;

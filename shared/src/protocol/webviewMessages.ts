@@ -13,6 +13,12 @@ export type WebviewToHost =
   | { readonly type: 'ready' }
   | { readonly type: 'slider'; readonly cc?: number; readonly rz?: number }
   | { readonly type: 'apply'; readonly cc?: number; readonly rz?: number }
+  /** The free parameters' sliders moved: every value shown, by parameter name (SI). */
+  | { readonly type: 'free'; readonly values: Readonly<Record<string, number>> }
+  /** Solve the shown design's free parameters and move the sliders to the answer. */
+  | { readonly type: 'solve' }
+  /** Write these free values into the file (one undoable edit). */
+  | { readonly type: 'applyFree'; readonly values: Readonly<Record<string, number>> }
   /** The selector chose another element to sweep (slider values of the previous one are dropped). */
   | { readonly type: 'compensation'; readonly target: CompensationTarget }
   | { readonly type: 'exportCsv'; readonly chart: ChartId; readonly csv: string }
@@ -23,6 +29,8 @@ export interface PanelState {
   readonly selected: ChartId;
   readonly cc?: number;
   readonly rz?: number;
+  /** Free parameters' slider values, by name (SI), for the design shown. */
+  readonly free?: Readonly<Record<string, number>>;
   /** The step chart is zoomed to its settling band. */
   readonly stepBandZoom?: boolean;
   /** The compensation element the panel sweeps (absent: the design's first). */

@@ -316,7 +316,7 @@ const emptyAnalysis = {
 } as const;
 
 /** Each requirement's worst value over the runs and the corner that sets it. */
-function outcomes(runs: readonly CornerRun[]): RequirementOutcome[] {
+export function outcomes(runs: readonly CornerRun[]): RequirementOutcome[] {
   const nominal = runs[0]!.model;
   return nominal.requirements.map((req, index) => {
     let worst: { slack: number; value?: number; text: string; corner: string } | undefined;
