@@ -3,7 +3,13 @@
 import { describe, expect, it } from 'vitest';
 import { applyRefusal, parseWebviewMessage } from '../../client/src/webviewGuard';
 import { boundedRestarts } from '../../client/src/restartPolicy';
-import { positionToValue, valueToPosition, STEPS } from '../../client/src/webview/sliderScale';
+import {
+  freePositionToValue,
+  freeValueToPosition,
+  positionToValue,
+  valueToPosition,
+  STEPS,
+} from '../../client/src/webview/sliderScale';
 import { symlog, symlogInverse, symlogKnee } from '../../shared/src/charts/symlog';
 import { chartCsv } from '../../shared/src/charts/csv';
 import { withAlpha } from '../../shared/src/charts/colors';
@@ -33,6 +39,21 @@ describe('messages from the webview', () => {
       cc: undefined,
       rz: undefined,
     });
+  });
+
+  it('keeps free-parameter values by name and drops a message whose values are not numbers', () => {
+    expect(parseWebviewMessage({ type: 'free', values: { id1: 4e-6, cc: 1e-12 } })).toEqual({
+      type: 'free',
+      values: { id1: 4e-6, cc: 1e-12 },
+    });
+    // Numbers the engine cannot use are passed on, so that it refuses them with the reason.
+    expect(parseWebviewMessage({ type: 'applyFree', values: { rz: -1 } })).toEqual({
+      type: 'applyFree',
+      values: { rz: -1 },
+    });
+    expect(parseWebviewMessage({ type: 'solve', extra: 1 })).toEqual({ type: 'solve' });
+    for (const values of [undefined, null, 3, [1, 2], { id1: '4u' }, { id1: null }])
+      expect(parseWebviewMessage({ type: 'free', values })).toBeUndefined();
   });
 
   it('refuses to apply values a design cannot hold, with the reason', () => {
@@ -114,6 +135,21 @@ describe('slider scale', () => {
     expect(positionToValue(0, range, true)).toBe(0);
     expect(valueToPosition(0, range, true)).toBe(0);
     expect(valueToPosition(1, range, false)).toBe(STEPS);
+  });
+  it('runs a free parameter geometrically between positive bounds and linearly from 0, within the bounds', () => {
+    const log = { low: 1e-6, high: 100e-6, log: true };
+    // Halfway on a log scale of two decades is one decade up.
+    expect(freePositionToValue(STEPS / 2, log)).toBeCloseTo(10e-6, 18);
+    const linear = { low: 0, high: 50e3, log: false };
+    expect(freePositionToValue(0, linear)).toBe(0);
+    expect(freePositionToValue(STEPS / 2, linear)).toBe(25e3);
+    expect(freePositionToValue(STEPS, linear)).toBe(50e3);
+    // A bound with more digits than the slider's three: rounding never steps past it.
+    const odd = { low: 1.2345e-12, high: 9.8765e-12, log: true };
+    expect(freePositionToValue(0, odd)).toBe(1.2345e-12);
+    expect(freePositionToValue(STEPS, odd)).toBe(9.8765e-12);
+    for (const p of [0, 250, 731, STEPS])
+      expect(freeValueToPosition(freePositionToValue(p, log), log)).toBe(p);
   });
 });
 
