@@ -310,6 +310,28 @@ describe('language server over stdio', () => {
     expect(edit!.edits.map((e) => e.newText)).toEqual(['1.5 pF', ' rz = 3 kohm']);
   });
 
+  it('answers the panel at free-parameter values, and the solve with the values it found', async () => {
+    const file = 'examples/twoStageFromBiasCurrents.ampnote';
+    const uri = client.openFile(file);
+    const design = parseDocument(readFileSync(resolve(ROOT, file), 'utf8')).designs[0]!.name;
+    type Panel = {
+      free: { sliders: { name: string; value: number }[]; edits: { newText: string }[]; refused?: string };
+    } | null;
+    const moved = await client.request<Panel>('ampnote/panelData', { uri, design, free: { id1: 10e-6 } });
+    expect(moved!.free.sliders.map((s) => s.name)).toEqual(['id1', 'id2', 'cc', 'rz']);
+    expect(moved!.free.sliders[0]!.value).toBe(10e-6);
+    // Only the moved value, in the file's own spelling (`param id1 = 4 uA`).
+    expect(moved!.free.edits.map((e) => e.newText)).toEqual(['10 uA']);
+    const junk = await client.request<Panel>('ampnote/panelData', { uri, design, free: { id1: 'x', cc: 1 } });
+    expect(junk!.free.refused).toMatch(/cc = 1 F lies outside its bounds/);
+    const solve = await client.request<{ status: string; values: { name: string; value: number }[] } | null>(
+      'ampnote/solveDesign',
+      { uri, design },
+    );
+    expect(solve!.status).toBe('met');
+    expect(solve!.values.map((v) => v.name)).toEqual(['id1', 'id2', 'cc', 'rz']);
+  });
+
   it('sweeps and writes the compensation element asked for, on a nested-Miller design', async () => {
     const file = 'examples/threeStageNestedMiller.ampnote';
     const uri = client.openFile(file);
