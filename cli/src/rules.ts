@@ -84,6 +84,11 @@ export const RULES: Readonly<Record<CheckCode, RuleInfo>> = {
     short: 'Open-loop DC gain misses the requirement',
     help: "The open-loop DC gain, the product of the stages' gm·rout, does not meet the design's `require` on DC gain.",
   },
+  sweep: {
+    name: 'Sweep',
+    short: 'A requirement fails somewhere in a swept range, or the closed loop is unstable there',
+    help: 'A `sweep` varies a parameter over a range and every requirement must hold at every value in it. The finding names the worst value of the swept parameter, its corner, and the sub-ranges where the requirement fails; the lowest margins between the sampled values are searched for, so a narrow dip is not missed. Small-signal only: the sweep is a family of linear models, not a large-signal simulation.',
+  },
   syntax: {
     name: 'Syntax',
     short: 'The text does not follow the design-file language',

@@ -2,6 +2,7 @@
 import type { DesignAnalysis } from './analysis/types';
 import type { Finding } from './checks/types';
 import type { DesignModel, DesignSource, ParsedDocument } from './language/model';
+import type { SweepSummary } from './sweep/summary';
 
 /** One analysed variant of a design. `corner` is `nominal` for the nominal model. */
 export interface CornerRun {
@@ -42,6 +43,8 @@ export interface DesignReport {
    * dropped, and a rule's verdict on such a model would mislead. Its findings are then the language's.
    */
   readonly notChecked?: 'language-errors';
+  /** The design's `sweep` statements, judged after the ordinary checks (absent when it has none). */
+  readonly sweeps?: readonly SweepSummary[];
 }
 
 export interface DocumentReport {

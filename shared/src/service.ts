@@ -17,6 +17,9 @@ import type { DesignModel, DesignSource, ParsedDocument } from './language/model
 import type { SourcePosition, SourceRange } from './language/source';
 import type { CornerRun, DesignReport, DocumentReport } from './report';
 import { splitLines } from './text/lines';
+import { sweepFindings } from './sweep/judgeSweep';
+import { summarizeSweep, type SweepSummary } from './sweep/summary';
+import { specOf, sweepDesign } from './sweep/sweepDesign';
 
 /** The analysis engine as the checks use it to solve and re-check fixes. */
 export const ENGINE: CheckEngine = {
@@ -126,7 +129,23 @@ export function analyzeDesignSource(
   const findings = incomplete
     ? []
     : [...problemFindings(source, runs), ...withSolveFix(runChecks(input), source, settings)];
-  return { source, runs, worst, findings, ...notChecked };
+  const sweeps = incomplete ? [] : runSweeps(source, findings, token);
+  return { source, runs, worst, findings, ...notChecked, ...(sweeps.length ? { sweeps } : {}) };
+}
+
+/**
+ * The design's sweeps, after the ordinary checks: each adds its findings (only when it finished) and a
+ * summary for the editor.
+ */
+function runSweeps(source: DesignSource, findings: Finding[], token?: CancelToken): SweepSummary[] {
+  const out: SweepSummary[] = [];
+  for (const sweep of source.nominal?.sweeps ?? []) {
+    if (token?.isCancellationRequested) break;
+    const result = sweepDesign(source, specOf(sweep), token);
+    if (result.complete) findings.push(...sweepFindings(source, sweep, result));
+    out.push(summarizeSweep(result, sweep.origin.range));
+  }
+  return out;
 }
 
 /** A network the engine cannot solve (a node with no DC path and no capacitance): an error at that node. */

@@ -18,6 +18,7 @@ export const CHECK_CODES = [
   'plausibility',
   'ugf',
   'dc-gain',
+  'sweep',
   'syntax',
   'unit',
   'reference',
