@@ -286,6 +286,7 @@ function renderFree(d: PanelData): void {
       return li;
     }),
   );
+  ui.freeSolve.disabled = false;
   ui.freeApply.disabled = free.edits.length === 0 || free.refused !== undefined;
   ui.freeReset.disabled = free.edits.length === 0 && state.free === undefined;
 }
@@ -469,6 +470,7 @@ ui.freeSolve.addEventListener('click', () => {
   // The host answers with the solved values as new data, then the solve's summary as the status.
   pending = undefined;
   inFlight = true;
+  ui.freeSolve.disabled = true;
   setStatus('solving…');
   post({ type: 'solve' });
 });
@@ -534,7 +536,10 @@ window.addEventListener('message', (event: MessageEvent<HostToWebview>) => {
       redraw();
       break;
     case 'status':
-      if (msg.error) inFlight = false;
+      if (msg.error) {
+        inFlight = false;
+        ui.freeSolve.disabled = false;
+      }
       setStatus(msg.text, msg.error === true);
       break;
   }

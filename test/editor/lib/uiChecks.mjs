@@ -25,7 +25,9 @@ function pickShowcase(expected, workspace) {
     const strong = e.findings.filter((f) => f.severity !== 'info').length;
     // The project's examples make the picture; the tests' own fixtures only when there is nothing else.
     const own = e.file.includes('/') ? -1000 : 0;
-    return { e, score: own + strong + (/^\s*miller\b/m.test(text) ? 100 : 0) };
+    // A design with free parameters shows their sliders instead of the Cc slider these checks move.
+    const free = /^\s*param\b.*\bfree\b/m.test(text) ? -50 : 0;
+    return { e, score: own + free + strong + (/^\s*miller\b/m.test(text) ? 100 : 0) };
   });
   scored.sort((a, b) => b.score - a.score);
   return scored[0]?.e;
