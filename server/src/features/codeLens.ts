@@ -1,10 +1,12 @@
-// Above each design: UGF, PM and the worst corner, and a lens that opens the pole-split panel.
+// Above each design: UGF, PM and the worst corner, and a lens that opens the pole-split panel. Above each
+// `sweep`: the range of the phase margin over the swept values and where it is lowest.
 import type { CodeLens } from 'vscode-languageserver';
 import { formatDeg, formatHz } from '../../../shared/src/format/si';
 import type { DocumentReport } from '../../../shared/src/report';
 import { toRange } from '../convert';
 import { nominal } from './describe';
 import { hasFreeParameters } from '../../../shared/src/solve/solveFix';
+import { sweepLensTitle } from '../../../shared/src/sweep/summary';
 
 export const SHOW_PANEL_COMMAND = 'ampnote.showPanel';
 export const SOLVE_COMMAND = 'ampnote.solveFreeParameters';
@@ -39,6 +41,8 @@ export function codeLenses(report: DocumentReport, uri: string): CodeLens[] {
         },
       });
     }
+    for (const sweep of design.sweeps ?? [])
+      lenses.push({ range: toRange(sweep.range), command: { title: sweepLensTitle(sweep), command: '' } });
     if (design.source.nominal) {
       lenses.push({
         range,

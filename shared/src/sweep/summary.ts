@@ -1,6 +1,8 @@
 // What the editor shows of a sweep (its code lens): the range of the phase margin over the swept values,
 // the worst one found between samples included.
+import { formatDeg } from '../format/si';
 import type { SourceRange } from '../language/source';
+import { formatSweptValue } from './judgeSweep';
 import { REFINED, metricsOf, type MarginQuantity, type SweepExtreme, type SweepResult } from './sweepDesign';
 
 export interface SweepSummary {
@@ -13,6 +15,8 @@ export interface SweepSummary {
   >;
   /** False when the sweep was cancelled before it finished. */
   readonly complete: boolean;
+  /** Where the phase margin is lowest, for people (`2.1 mA`, with ` in hot` for a corner). */
+  readonly worstText?: string;
 }
 
 export function summarizeSweep(result: SweepResult, range: SourceRange): SweepSummary {
@@ -31,5 +35,24 @@ export function summarizeSweep(result: SweepResult, range: SourceRange): SweepSu
       }
     if (lowest && Number.isFinite(highest)) margins[q] = { lowest, highest };
   }
-  return { param: result.spec.param, range, margins, complete: result.complete };
+  const pm = margins.phaseMarginDeg?.lowest;
+  const worstText = pm
+    ? `${formatSweptValue(result.spec, pm.at)}${result.corners.length > 1 ? ` in ${pm.corner}` : ''}`
+    : undefined;
+  return {
+    param: result.spec.param,
+    range,
+    margins,
+    complete: result.complete,
+    ...(worstText ? { worstText } : {}),
+  };
+}
+
+/** The code lens above a `sweep` line: `PM 38.2–71.0° over iload (worst 2.1 mA)`. */
+export function sweepLensTitle(s: SweepSummary): string {
+  const pm = s.margins.phaseMarginDeg;
+  const body = pm
+    ? `PM ${formatDeg(pm.lowest.value).replace('°', '')}–${formatDeg(pm.highest)} over ${s.param} (worst ${s.worstText})`
+    : `PM — over ${s.param} (no unity crossing)`;
+  return s.complete ? body : `${body} — sweep cancelled`;
 }
