@@ -227,6 +227,21 @@ describe('free parameters in the panel', () => {
     expect(panel.problems).toEqual([]);
   });
 
+  it('fits a narrow panel beside the editor without sideways scrolling', async () => {
+    const narrow = await openPanel(h, { width: 480, height: 1600 });
+    const data = hostData();
+    await narrow.send({ type: 'data', data });
+    await narrow.page.waitForFunction(() => document.querySelectorAll('#free-reqs li').length === 4);
+    const overflow = await narrow.page.evaluate(
+      () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
+    );
+    expect(overflow).toBeLessThanOrEqual(0);
+    expect(await narrow.page.locator('#free-sliders input[type="range"]').count()).toBe(4);
+    await narrow.page.screenshot({ path: join(OUTPUT, 'free-parameters-narrow.png'), fullPage: true });
+    expect(narrow.problems).toEqual([]);
+    await narrow.page.close();
+  });
+
   it('prints the time from a slider move to redrawn charts (a figure, not an assertion on time)', async () => {
     await show(hostData());
     const slider = hostData().free!.sliders[1]!;
