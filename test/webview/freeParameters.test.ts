@@ -141,6 +141,19 @@ describe('free parameters in the panel', () => {
     expect(rel(shown, 2 * id1 + id2)).toBeLessThan(1e-9);
   });
 
+  it('shows a written `minimize` expression and its value', async () => {
+    const text = TEXT.replace(/^(\s*)require ugf/m, '$1minimize 2 * id1 + id2\n$1require ugf');
+    const own = parseDocument(text).designs[0]!;
+    const data = JSON.parse(
+      JSON.stringify(buildPanelData(own.nominal!, URI, { source: own, free: { id2: 50e-6 } })),
+    ) as PanelData;
+    await show(data);
+    // 2 · 4 uA + 50 uA, from the file's id1 and the slider's id2.
+    const shown = (await panel.page.textContent('#free-objective'))!;
+    expect(shown.startsWith('2 * id1 + id2: ')).toBe(true);
+    expect(rel(Number(shown.slice('2 * id1 + id2: '.length)), 58e-6)).toBeLessThan(1e-3);
+  });
+
   it('moves one slider: asks the host, redraws the charts and judges the requirements anew', async () => {
     await show(hostData());
     const before = await requirementLines();

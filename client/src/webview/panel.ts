@@ -273,7 +273,9 @@ function renderFree(d: PanelData): void {
     if (moved || state.free !== undefined) saveState({ free: moved ? values : undefined });
   }
   const o = free.objective;
-  setText(ui.freeObjective, `${o.expression}: ${isNum(o.value) ? formatSi(o.value, o.unit) : '—'}`);
+  // A written expression has no unit of its own here: its number is shown plain, as the solve shows it.
+  const objective = !isNum(o.value) ? '—' : o.unit ? formatSi(o.value, o.unit) : `${+o.value.toPrecision(4)}`;
+  setText(ui.freeObjective, `${o.expression}: ${objective}`);
   ui.freeReqs.replaceChildren(
     ...free.requirements.map((r) => {
       const li = document.createElement('li');
