@@ -108,7 +108,7 @@ export function solveKnob(
       : '';
     return {
       ok: false,
-      reason: `no value of ${knob.name} from ${knob.write(round3(lo))} to ${knob.write(round3(hi))} meets it${where}`,
+      reason: `no value of ${knob.name} from ${knob.write(round3(lo))} to ${knob.write(round3(hi))} meets it${where}${overridingCorners(input, knob)}`,
     };
   }
   candidates.sort((a, b) => Math.abs(Math.log(a.x / knob.value)) - Math.abs(Math.log(b.x / knob.value)));
@@ -137,6 +137,15 @@ export function solveKnob(
 }
 
 const round3 = (x: number) => Number(x.toPrecision(3));
+
+/** `; corner slow sets its own gm3` when corners override the knob's parameter (the edit cannot reach them). */
+function overridingCorners(input: CheckInput, knob: Knob): string {
+  const names = input.source.corners
+    .filter((c) => c.origin.fields[knob.name] !== undefined)
+    .map((c) => c.name);
+  if (!names.length) return '';
+  return `; corner${names.length > 1 ? 's' : ''} ${names.join(', ')} set${names.length > 1 ? '' : 's'} ${names.length > 1 ? 'their' : 'its'} own ${knob.name}`;
+}
 
 /** Equal to rounding; an infinite slack (no such root at all) equals only itself. */
 const sameSlack = (a: number, b: number) =>
