@@ -34,13 +34,25 @@ export type Command =
       readonly json: boolean;
       /** --write: put the solved values into the file (only the free parameters' values change). */
       readonly write: boolean;
+    })
+  | (Common & {
+      readonly kind: 'sweep';
+      readonly file: string;
+      readonly design?: string;
+      /** --param NAME --from X --to Y: an ad-hoc sweep of any parameter instead of the file's own. */
+      readonly param?: string;
+      readonly from?: string;
+      readonly to?: string;
+      readonly points?: number;
+      readonly json: boolean;
+      readonly csv: boolean;
     });
 
 export type ParseResult =
   | { readonly ok: true; readonly command: Command }
   | { readonly ok: false; readonly error: string; readonly topic?: Subcommand };
 
-const SUBCOMMANDS = ['check', 'analyze', 'report', 'solve'] as const;
+const SUBCOMMANDS = ['check', 'analyze', 'report', 'solve', 'sweep'] as const;
 type Subcommand = (typeof SUBCOMMANDS)[number];
 
 /** Options that take a value, by subcommand. Short aliases map to their long name. */
@@ -49,12 +61,14 @@ const VALUE_OPTIONS: Record<Subcommand, readonly string[]> = {
   analyze: ['design', 'config', 'output'],
   report: ['design', 'config', 'output'],
   solve: ['design', 'config', 'output'],
+  sweep: ['design', 'config', 'output', 'param', 'from', 'to', 'points'],
 };
 const FLAG_OPTIONS: Record<Subcommand, readonly string[]> = {
   check: ['quiet', 'help'],
   analyze: ['json', 'quiet', 'help'],
   report: ['quiet', 'help'],
   solve: ['json', 'write', 'quiet', 'help'],
+  sweep: ['json', 'csv', 'quiet', 'help'],
 };
 const SHORT: Record<string, string> = {
   o: 'output',
@@ -170,6 +184,34 @@ export function parseArgs(argv: readonly string[]): ParseResult {
           design: values.get('design'),
           json: flags.has('json'),
           write: flags.has('write'),
+        },
+      };
+    }
+    case 'sweep': {
+      if (positionals.length !== 1) return fail(`'sweep' takes exactly one file (got ${positionals.length})`);
+      if (flags.has('json') && flags.has('csv')) return fail(`'--json' and '--csv' exclude each other`);
+      const param = values.get('param');
+      const from = values.get('from');
+      const to = values.get('to');
+      if (param !== undefined && (from === undefined || to === undefined))
+        return fail(`'--param' needs '--from' and '--to'`);
+      if (param === undefined && (from !== undefined || to !== undefined))
+        return fail(`'--from' and '--to' need '--param'`);
+      const pointsText = values.get('points');
+      const points = pointsText === undefined ? undefined : Number(pointsText);
+      if (points !== undefined && !(Number.isInteger(points) && points >= 2 && points <= 2001))
+        return fail(`'--points' must be a whole number from 2 to 2001`);
+      return {
+        ok: true,
+        command: {
+          kind: 'sweep',
+          ...common,
+          file: positionals[0]!,
+          design: values.get('design'),
+          ...(param !== undefined ? { param, from, to } : {}),
+          ...(points !== undefined ? { points } : {}),
+          json: flags.has('json'),
+          csv: flags.has('csv'),
         },
       };
     }

@@ -11,6 +11,7 @@ import type { CliContext } from './context';
 import { readText, warn, type Streams } from './io';
 import { runReport } from './reportCommand';
 import { runSolve } from './solveCommand';
+import { runSweep } from './sweepCommand';
 import { EXIT_OK, EXIT_USAGE } from './run';
 import { usage } from './usage';
 
@@ -47,6 +48,8 @@ export function main(argv: readonly string[], streams: Streams, cwd: string, pac
       return runReport(cmd, ctx);
     case 'solve':
       return runSolve(cmd, ctx);
+    case 'sweep':
+      return runSweep(cmd, ctx);
     default: {
       const never: never = cmd;
       return never;

@@ -12,6 +12,8 @@ Usage:
   ampnote analyze FILE           [--design NAME] [--json] [--config FILE] [-o FILE]
   ampnote report FILE -o OUT.html [--design NAME] [--config FILE] [--quiet]
   ampnote solve FILE             [--design NAME] [--json] [--write] [--config FILE] [-o FILE]
+  ampnote sweep FILE             [--design NAME] [--param NAME --from X --to Y] [--points N]
+                                 [--json | --csv] [--config FILE] [-o FILE]
   ampnote --help | ampnote COMMAND --help
   ampnote --version
 
@@ -91,7 +93,33 @@ bounds, 2 bad usage or an unreadable input.
 ${wrap(CAUTION)}
 `;
 
-export function usage(topic?: 'check' | 'analyze' | 'report' | 'solve'): string {
+const SWEEP = `Usage: ampnote sweep FILE [options]
+
+Runs each design's sweeps (\`sweep NAME from LOW to HIGH\`), or with --param one sweep of any parameter:
+the phase margin, UGF, gain margin, loop DC gain and closed-loop stability at every point and corner, the
+lowest of each over the range (the margins' searched for between points), and every requirement judged
+over the whole range.
+
+Options:
+  -d, --design NAME     only this design
+      --param NAME      sweep this parameter instead of the file's own sweeps (needs --from and --to)
+      --from X          the lower end, a number with an optional unit (\`1pF\`, \`1e-12\`)
+      --to Y            the upper end
+      --points N        points per sweep (2 to 2001; default the sweep's own, else 61)
+      --json            JSON (schemaVersion 1, see docs/cli.md)
+      --csv             CSV: one row per point and corner, units in the header
+  -c, --config FILE     JSON file of check thresholds
+  -o, --output FILE     write the output to FILE instead of standard output
+  -q, --quiet           no progress line
+  -h, --help            this help
+
+Exit status: 0 every requirement holds over every range, 1 one fails somewhere or the closed loop is
+unstable, 2 bad usage or an unreadable input.
+
+${wrap(CAUTION)}
+`;
+
+export function usage(topic?: 'check' | 'analyze' | 'report' | 'solve' | 'sweep'): string {
   switch (topic) {
     case 'check':
       return CHECK;
@@ -101,6 +129,8 @@ export function usage(topic?: 'check' | 'analyze' | 'report' | 'solve'): string 
       return REPORT;
     case 'solve':
       return SOLVE;
+    case 'sweep':
+      return SWEEP;
     case undefined:
       return OVERVIEW;
     default: {

@@ -142,7 +142,7 @@ function runSweeps(source: DesignSource, findings: Finding[], token?: CancelToke
   for (const sweep of source.nominal?.sweeps ?? []) {
     if (token?.isCancellationRequested) break;
     const result = sweepDesign(source, specOf(sweep), token);
-    if (result.complete) findings.push(...sweepFindings(source, sweep, result));
+    if (result.complete) findings.push(...sweepFindings(source, sweep.origin.range, result));
     out.push(summarizeSweep(result, sweep.origin.range));
   }
   return out;

@@ -5,7 +5,8 @@
 import { judge, measure } from '../checks/measure';
 import type { Finding } from '../checks/types';
 import { formatSi } from '../format/si';
-import type { DesignSource, Requirement, Sweep } from '../language/model';
+import type { DesignSource, Requirement } from '../language/model';
+import type { SourceRange } from '../language/source';
 import {
   fromScale,
   metricsOf,
@@ -76,7 +77,8 @@ export function failingRanges(
 }
 
 /** Findings of one sweep: one per requirement that fails somewhere in the range, and instability. */
-export function sweepFindings(source: DesignSource, sweep: Sweep, result: SweepResult): Finding[] {
+/** `range`: where the findings are shown (the `sweep` line; the design's name for an ad-hoc sweep). */
+export function sweepFindings(source: DesignSource, range: SourceRange, result: SweepResult): Finding[] {
   const nominal = source.nominal;
   if (!nominal) return [];
   const { spec, corners } = result;
@@ -95,7 +97,7 @@ export function sweepFindings(source: DesignSource, sweep: Sweep, result: SweepR
   const findings: Finding[] = [];
   const base = {
     design: source.name,
-    range: sweep.origin.range,
+    range,
     fixes: [],
   } as const;
 

@@ -53,7 +53,7 @@ describe('sweep findings', () => {
     expect(ranges[0]!.to / failing[failing.length - 1]!.x).toBeGreaterThan(1 / step);
     expect(ranges[0]!.to / failing[failing.length - 1]!.x).toBeLessThan(step);
 
-    const findings = sweepFindings(source, sweep, result);
+    const findings = sweepFindings(source, sweep.origin.range, result);
     expect(findings).toHaveLength(1);
     const f = findings[0]!;
     expect(f.code).toBe('sweep');
@@ -73,12 +73,12 @@ describe('sweep findings', () => {
 
   it('says nothing when the requirement holds over the whole range', () => {
     const { source, sweep, result } = sweepOf(buffer('45 deg'));
-    expect(sweepFindings(source, sweep, result)).toEqual([]);
+    expect(sweepFindings(source, sweep.origin.range, result)).toEqual([]);
   });
 
   it('says the whole range fails when it does', () => {
     const { source, sweep, result } = sweepOf(buffer('85 deg'));
-    const [f] = sweepFindings(source, sweep, result);
+    const [f] = sweepFindings(source, sweep.origin.range, result);
     expect(f!.message).toContain('fails over the whole sweep of cl');
   });
 
