@@ -1,5 +1,10 @@
 // Figures for a sweep: 61 points of a two-stage design over three decades of load capacitance, with the
-// margins' minima searched for between points. Medians of a few runs; numbers only.
+// margins' minima searched for between points; then the same with a second corner and the findings (the
+// bundled example, as the editor runs it). Medians of a few runs; numbers only.
+import { readFileSync } from 'node:fs';
+import { loadavg } from 'node:os';
+import { analyzeDesignSource } from '../shared/src/service';
+import { DEFAULT_CHECK_SETTINGS } from '../shared/src/checks/settings';
 import { parseDocument } from '../shared/src/language';
 import { specOf, sweepDesign } from '../shared/src/sweep/sweepDesign';
 
@@ -18,21 +23,23 @@ const text = `design buf
 end
 `;
 
+function time(label: string, f: () => void, runs = 7): void {
+  f();
+  const ms: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    const t = performance.now();
+    f();
+    ms.push(performance.now() - t);
+  }
+  console.log(`${label.padEnd(66)} ${median(ms).toFixed(1).padStart(7)} ms`);
+}
+
 const source = parseDocument(text).designs[0]!;
 const spec = specOf(source.nominal!.sweeps![0]!);
-let evaluations = 0;
-const run = () => {
-  const r = sweepDesign(source, spec);
-  evaluations = r.samples.length;
-  return r;
-};
-run();
-const ms: number[] = [];
-for (let i = 0; i < 7; i++) {
-  const t = performance.now();
-  run();
-  ms.push(performance.now() - t);
-}
-console.log(
-  `${'sweep of a two-stage design, 61 points + minima between them'.padEnd(58)} ${median(ms).toFixed(1).padStart(7)} ms  (${evaluations} points)`,
+time('sweep of a two-stage design, 61 points + minima between them', () => sweepDesign(source, spec));
+
+const example = parseDocument(readFileSync('examples/twoStageLoadSweep.ampnote', 'utf8')).designs[0]!;
+time('examples/twoStageLoadSweep: whole design (2 corners, checks, sweep)', () =>
+  analyzeDesignSource(example, DEFAULT_CHECK_SETTINGS, undefined, { stepResponse: 'when-required' }),
 );
+console.log(`load average ${loadavg()[0]!.toFixed(2)}`);

@@ -180,12 +180,29 @@ const LOCATE_TOLERANCE = 1e-4;
 
 export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: CancelToken): SweepResult {
   const corners = ['nominal', ...source.corners.filter((c) => c.model).map((c) => c.name)];
-  const memo = new Map<number, SweepSample>();
-  const evaluate = (value: number): SweepSample => {
+  // Per value: the models of every corner (one parse), and each corner's analysis once it is asked for,
+  // so that a search between samples in one corner analyses only that corner.
+  const memo = new Map<number, { models: (DesignModel | undefined)[]; runs: (SweepRun | null)[] }>();
+  const at = (value: number) => {
     let hit = memo.get(value);
-    if (!hit) memo.set(value, (hit = evaluateAt(source, spec, corners, value)));
+    if (!hit) memo.set(value, (hit = { models: modelsAt(source, spec, corners, value), runs: [] }));
     return hit;
   };
+  const runAt = (value: number, c: number): SweepRun | undefined => {
+    const hit = at(value);
+    let run = hit.runs[c];
+    if (run === undefined) {
+      const model = hit.models[c];
+      const analysis = model && analyzeDesign(model, { step: false, participation: false });
+      hit.runs[c] = run =
+        model && analysis && !analysis.problems.length ? { corner: corners[c]!, model, analysis } : null;
+    }
+    return run ?? undefined;
+  };
+  const evaluate = (value: number): SweepSample => ({
+    value,
+    runs: corners.map((_, c) => runAt(value, c)),
+  });
   const samples: SweepSample[] = [];
   let complete = true;
   for (const v of sweepValues(spec)) {
@@ -202,7 +219,7 @@ export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: Cance
         complete = false;
         break;
       }
-      const m = lowest(spec, samples, c, q, corners[c]!, evaluate);
+      const m = lowest(spec, samples, c, q, corners[c]!, (x) => runAt(x, c));
       if (m) out[q] = m;
     }
     return out;
@@ -210,14 +227,14 @@ export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: Cance
   return { spec, corners, samples, minima, complete, evaluate };
 }
 
-/** The analyses of every corner at one value, from the design's text with the value written in. */
-function evaluateAt(
+/** The models of every corner at one value, from the design's text with the value written in. */
+function modelsAt(
   source: DesignSource,
   spec: SweepSpec,
   corners: readonly string[],
   value: number,
-): SweepSample {
-  const none = { value, runs: corners.map(() => undefined) };
+): (DesignModel | undefined)[] {
+  const none = corners.map(() => undefined);
   const literal = writeValue(value, spec.dimension);
   if (literal === undefined) return none;
   const edits = [spec.valueRange, ...spec.cornerOverrides].map((range) => ({ range, newText: literal }));
@@ -228,15 +245,7 @@ function evaluateAt(
   if (!design?.nominal || parsed.diagnostics.some((d) => d.severity === 'error')) return none;
   const models = new Map<string, DesignModel>([['nominal', design.nominal]]);
   for (const c of design.corners) if (c.model) models.set(c.name, c.model);
-  return {
-    value,
-    runs: corners.map((corner) => {
-      const model = models.get(corner);
-      if (!model) return undefined;
-      const analysis = analyzeDesign(model, { step: false, participation: false });
-      return analysis.problems.length ? undefined : { corner, model, analysis };
-    }),
-  };
+  return corners.map((corner) => models.get(corner));
 }
 
 /** A quantity of one corner in a sample. */
@@ -265,8 +274,12 @@ function lowest(
   c: number,
   q: MarginQuantity,
   corner: string,
-  evaluate: (v: number) => SweepSample,
+  runAt: (v: number) => SweepRun | undefined,
 ): SweepExtreme | undefined {
+  const marginOf = (x: number) => {
+    const run = runAt(x);
+    return run ? metricsOf(run.analysis)[q] : undefined;
+  };
   const m = samples.map((s) => marginAt(s, c, q));
   let best: SweepExtreme | undefined;
   const consider = (value: number | undefined, at: number) => {
@@ -285,13 +298,13 @@ function lowest(
     if (!(b > a)) continue;
     const f = (u: number) => {
       const x = fromScale(spec, u);
-      const y = marginAt(evaluate(x), c, q);
+      const y = marginOf(x);
       return y === undefined ? -Infinity : -y;
     };
     // goldenMax's tolerance is relative to |a| + |b|; the width wanted is absolute on the scale.
     const { x: u } = goldenMax(f, a, b, (width * LOCATE_TOLERANCE) / (Math.abs(a) + Math.abs(b) || 1), 60);
     const x = fromScale(spec, u);
-    consider(marginAt(evaluate(x), c, q), x);
+    consider(marginOf(x), x);
   }
   return best;
 }
