@@ -35,7 +35,7 @@ function time(label: string, f: () => void, runs = 7): void {
 }
 
 const source = parseDocument(text).designs[0]!;
-const spec = specOf(source.nominal!.sweeps![0]!);
+const spec = specOf(source, source.nominal!.sweeps![0]!)!;
 time('sweep of a two-stage design, 61 points + minima between them', () => sweepDesign(source, spec));
 
 const example = parseDocument(readFileSync('examples/twoStageLoadSweep.ampnote', 'utf8')).designs[0]!;

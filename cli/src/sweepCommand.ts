@@ -74,10 +74,13 @@ function specsOf(
 ): { spec: SweepSpec; range: DesignReport['source']['range'] }[] | string {
   if (cmd.param === undefined) {
     const own = d.source.nominal?.sweeps ?? [];
-    return own.map((s) => ({
-      spec: cmd.points !== undefined ? { ...specOf(s), points: cmd.points } : specOf(s),
-      range: s.origin.range,
-    }));
+    return own.flatMap((s) => {
+      const spec = specOf(d.source, s);
+      if (!spec) return [];
+      return [
+        { spec: cmd.points !== undefined ? { ...spec, points: cmd.points } : spec, range: s.origin.range },
+      ];
+    });
   }
   const param = d.source.nominal?.params.find((p) => p.name === cmd.param);
   if (!param) return `design ${d.source.name} has no parameter "${cmd.param}"`;

@@ -141,7 +141,9 @@ function runSweeps(source: DesignSource, findings: Finding[], token?: CancelToke
   const out: SweepSummary[] = [];
   for (const sweep of source.nominal?.sweeps ?? []) {
     if (token?.isCancellationRequested) break;
-    const result = sweepDesign(source, specOf(sweep), token);
+    const spec = specOf(source, sweep);
+    if (!spec) continue;
+    const result = sweepDesign(source, spec, token);
     if (result.complete) findings.push(...sweepFindings(source, sweep.origin.range, result));
     out.push(summarizeSweep(result, sweep.origin.range));
   }

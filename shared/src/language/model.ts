@@ -187,10 +187,6 @@ export interface Sweep {
   readonly high: number;
   readonly points: number;
   readonly scale: SweepScale;
-  /** The parameter's value expression in the text: a point is evaluated by writing its value there. */
-  readonly valueRange: SourceRange;
-  /** Corner overrides of the parameter, which the sweep sets to the same value. */
-  readonly cornerOverrides: readonly SourceRange[];
   readonly origin: Origin;
 }
 

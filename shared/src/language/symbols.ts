@@ -36,6 +36,8 @@ export function collectSymbols(scope: DesignScope): SymbolInfo[] {
         forEachRef(o.expr, ref);
       }
     }
+    // The swept parameter, named by the sweep: rename and go to definition reach it.
+    if (s.kind === 'sweep' && s.name) ref(s.name.text, tokenRange(s.name));
   }
   for (const [name, c] of scope.corners)
     result.push({ name, kind: 'corner', declaration: tokenRange(c.name!), references: [] });

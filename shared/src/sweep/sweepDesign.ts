@@ -91,10 +91,10 @@ export function metricsOf(a: DesignAnalysis): SweepMetrics {
   };
 }
 
-/** The sweep a statement states, as a spec. */
-export function specOf(s: Sweep): SweepSpec {
-  const { param, dimension, low, high, points, scale, valueRange, cornerOverrides } = s;
-  return { param, dimension, low, high, points, scale, valueRange, cornerOverrides };
+/** The sweep a statement states, as a spec; undefined when its parameter is not in the model. */
+export function specOf(source: DesignSource, s: Sweep): SweepSpec | undefined {
+  const { low, high, points, scale } = s;
+  return adHocSpec(source, s.param, { low, high, points, scale });
 }
 
 /**

@@ -94,7 +94,7 @@ describe('sweep statement', () => {
     expect(errs[0]!.message).toContain('`to`');
   });
 
-  it('warns on a corner that overrides the swept parameter, and records the override', () => {
+  it('warns on a corner that overrides the swept parameter, and keeps the sweep', () => {
     const lines = '  sweep cl from 1 pF to 1 nF\n  corner heavy cl = 50 pF';
     const { doc, model, text } = parse(lines);
     const warnings = doc.diagnostics.filter((d) => d.severity === 'warning');
@@ -102,6 +102,16 @@ describe('sweep statement', () => {
     expect(covered(text, warnings[0]!)).toBe('cl');
     expect(warnings[0]!.range.start.line).toBe(8); // the corner line
     expect(warnings[0]!.message).toContain('sweep');
-    expect(model.sweeps![0]!.cornerOverrides).toHaveLength(1);
+    expect(model.sweeps).toHaveLength(1);
+  });
+});
+
+describe('sweep and the names of the design', () => {
+  it('counts the swept parameter as a reference of it (rename, go to definition)', () => {
+    const { doc, text } = parse('  sweep cl from 1 pF to 1 nF');
+    const cl = doc.designs[0]!.symbols.find((s) => s.name === 'cl')!;
+    const onSweepLine = cl.references.filter((r) => r.start.line === 7);
+    expect(onSweepLine).toHaveLength(1);
+    expect(covered(text, { range: onSweepLine[0]! })).toBe('cl');
   });
 });

@@ -27,7 +27,7 @@ end
 function sweepOf(text: string) {
   const source = parseDocument(text).designs[0]!;
   const sweep = source.nominal!.sweeps![0]!;
-  return { source, sweep, result: sweepDesign(source, specOf(sweep)) };
+  return { source, sweep, result: sweepDesign(source, specOf(source, sweep)!) };
 }
 
 describe('sweep findings', () => {

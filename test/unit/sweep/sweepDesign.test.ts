@@ -36,7 +36,8 @@ function sourceOf(text: string) {
 
 describe('sweepDesign', () => {
   it('spaces points evenly on a log scale with exact ends', () => {
-    const spec = specOf(sourceOf(buffer()).nominal!.sweeps![0]!);
+    const source = sourceOf(buffer());
+    const spec = specOf(source, source.nominal!.sweeps![0]!)!;
     const v = sweepValues(spec);
     expect(v).toHaveLength(13);
     expect(v[0]).toBe(spec.low);
@@ -47,7 +48,7 @@ describe('sweepDesign', () => {
 
   it('equals a single analysis of the design written at each point, in every corner (exactly)', () => {
     const source = sourceOf(buffer());
-    const result = sweepDesign(source, specOf(source.nominal!.sweeps![0]!));
+    const result = sweepDesign(source, specOf(source, source.nominal!.sweeps![0]!)!);
     expect(result.complete).toBe(true);
     expect(result.corners).toEqual(['nominal', 'slow']);
     for (const sample of result.samples.filter((_, i) => i % 4 === 0)) {
@@ -65,7 +66,7 @@ describe('sweepDesign', () => {
   it('sets the swept parameter in a corner that overrides it', () => {
     const text = buffer('10 pF', '  corner heavy cl = 500 pF\n');
     const source = sourceOf(text);
-    const result = sweepDesign(source, specOf(source.nominal!.sweeps![0]!));
+    const result = sweepDesign(source, specOf(source, source.nominal!.sweeps![0]!)!);
     const heavy = result.corners.indexOf('heavy');
     const nominal = result.samples[0]!.runs[0]!;
     // With the override replaced by the sweep's value, the corner is the nominal design at that value.
@@ -75,7 +76,7 @@ describe('sweepDesign', () => {
   it('finds the lowest phase margin between points as a dense sweep (10× the points) does, to 0.05°', () => {
     const source = sourceOf(buffer());
     // Half a decade between points, so that the samples alone miss the minimum.
-    const spec = { ...specOf(source.nominal!.sweeps![0]!), points: 7 };
+    const spec = { ...specOf(source, source.nominal!.sweeps![0]!)!, points: 7 };
     const coarse = sweepDesign(source, spec);
     const dense = sweepDesign(source, { ...spec, points: spec.points * 10 });
     coarse.corners.forEach((_, c) => {
@@ -101,14 +102,14 @@ describe('sweepDesign', () => {
         return ++n > 3;
       },
     };
-    const result = sweepDesign(source, specOf(source.nominal!.sweeps![0]!), token);
+    const result = sweepDesign(source, specOf(source, source.nominal!.sweeps![0]!)!, token);
     expect(result.complete).toBe(false);
     expect(result.samples.length).toBe(3);
   });
 
   it('keeps the poles and zeros along the sweep', () => {
     const source = sourceOf(buffer());
-    const result = sweepDesign(source, specOf(source.nominal!.sweeps![0]!));
+    const result = sweepDesign(source, specOf(source, source.nominal!.sweeps![0]!)!);
     const locus = locusOf(result, 0);
     expect(locus).toHaveLength(13);
     expect(locus[0]!.poles).toEqual(result.samples[0]!.runs[0]!.analysis.poles.map((p) => p.s));

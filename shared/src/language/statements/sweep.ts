@@ -5,7 +5,6 @@ import { quote } from '../diagnostics';
 import { tokenRange, type Token } from '../lexer';
 import type { SweepScale } from '../model';
 import { NOTHING } from '../modelParts';
-import type { SourceRange } from '../source';
 import type { StatementCommon } from '../syntax';
 import type { StatementDescriptor } from './statementKind';
 
@@ -148,11 +147,9 @@ export const sweepKind: StatementDescriptor<SweepStatement> = {
       return NOTHING;
     }
     // The sweep sets the parameter in every corner too: a corner's own value for it is not used.
-    const cornerOverrides: SourceRange[] = [];
     for (const corner of ctx.scope.corners.values())
       for (const o of corner.overrides)
         if (!o.field && o.target.text === name.text) {
-          cornerOverrides.push(o.expr.range);
           ctx.sink.warning(
             'syntax',
             `The sweep of ${quote(name.text)} sets it in this corner too: this value is not used in the sweep.`,
@@ -168,8 +165,6 @@ export const sweepKind: StatementDescriptor<SweepStatement> = {
           high: high.value,
           points,
           scale,
-          valueRange: param.fields[0]!.expr.range,
-          cornerOverrides,
           origin: ctx.origin(s, { low: low.origin, high: high.origin }),
         },
       ],
