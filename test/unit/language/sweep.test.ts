@@ -88,6 +88,15 @@ describe('sweep statement', () => {
     expect(covered(parse(lines).text, errs[0]!)).toBe('1.5');
   });
 
+  it('reports a parameter whose dimension has no unit word at its name', () => {
+    const lines = '  param k = 2 * 1 uS * 1 pF\n  sweep k from 1 to 2';
+    const { text } = parse(lines);
+    const errs = errorsOf(lines);
+    expect(errs).toHaveLength(1);
+    expect(covered(text, errs[0]!)).toBe('k');
+    expect(errs[0]!.range.start.line).toBe(8);
+  });
+
   it('reports a missing `to` as a syntax error', () => {
     const errs = errorsOf('  sweep cl from 1 pF 1 nF');
     expect(errs).toHaveLength(1);

@@ -6,6 +6,7 @@ import { tokenRange, type Token } from '../lexer';
 import type { SweepScale } from '../model';
 import { NOTHING } from '../modelParts';
 import type { StatementCommon } from '../syntax';
+import { DIM } from '../unitTable';
 import type { StatementDescriptor } from './statementKind';
 
 export type SweepStatement = StatementCommon & {
@@ -97,6 +98,15 @@ export const sweepKind: StatementDescriptor<SweepStatement> = {
     const low = ctx.quantity(s, 'low');
     const high = ctx.quantity(s, 'high');
     if (!own || !low || !high) return NOTHING;
+    // A point writes the parameter as one literal in an SI unit, so its dimension needs a unit word.
+    if (own.dimension !== '1' && (own.dimension === 'ugf' || !(own.dimension in DIM))) {
+      ctx.sink.error(
+        'unit',
+        `A sweep writes ${quote(name.text)} as a number with a unit, and a quantity in ${own.dimension} has no unit word; sweep a parameter it is derived from.`,
+        tokenRange(name),
+      );
+      return NOTHING;
+    }
     const lowExpr = s.fields.find((f) => f.name === 'low')!.expr;
     const highExpr = s.fields.find((f) => f.name === 'high')!.expr;
     for (const [b, e] of [
