@@ -377,6 +377,44 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
       );
     },
   );
+
+  // A design with free parameters: the panel shows a slider for each, and Solve meets every requirement.
+  const freeFile = expected
+    .map((e) => e.file)
+    .find((f) => /\bfree\b[^\n#]*\.\./.test(readFileSync(join(workspace, f), 'utf8')));
+  await check(
+    'UI: the panel of a design with free parameters has their sliders, and Solve meets every requirement',
+    async () => {
+      if (!freeFile) throw new Error('no example has free parameters');
+      const text = readFileSync(join(workspace, freeFile), 'utf8');
+      const freeCount = text.split(/\r?\n/).filter((l) => /^\s*param\s+\w+\s*=.*\bfree\b/.test(l)).length;
+      await quickOpen(page, freeFile);
+      await goToLine(page, 1, 1);
+      await runCommand(page, commandTitle(root, 'ampnote.showPanel'));
+      const panel = page.frameLocator('iframe.webview.ready').last().frameLocator('#active-frame');
+      const sliders = panel.locator('#free-sliders .free-slider');
+      await poll(
+        `${freeCount} free-parameter sliders`,
+        async () => ((await sliders.count()) === freeCount ? true : undefined),
+        30_000,
+      );
+      const failing = panel.locator('#free-reqs li.fail');
+      await poll('a failing requirement before the solve', async () =>
+        (await failing.count()) > 0 ? true : undefined,
+      );
+      await panel.locator('#free-solve').click();
+      await poll(
+        'every requirement to pass after Solve',
+        async () => {
+          const total = await panel.locator('#free-reqs li').count();
+          return total > 0 && (await failing.count()) === 0 ? true : undefined;
+        },
+        60_000,
+      );
+      console.log(`        ${(await panel.locator('#free-objective').innerText()).replace(/\s+/g, ' ')}`);
+      await screenshot(page, output, 'panel-free-solved');
+    },
+  );
 }
 
 /** A phase-margin finding whose preferred fix sets a value for a stated margin, examples first. */
