@@ -6,6 +6,7 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { LspClient, ROOT, waitFor } from './lspClient';
+import { LANGUAGE_WORDS, OPERATORS } from '../fuzzWords';
 
 /** A small seeded generator (mulberry32), so that a failing run can be repeated from its seed. */
 export function prng(seed: number) {
@@ -28,62 +29,12 @@ const EXAMPLES = readdirSync(resolve(ROOT, 'examples'))
   .map((f) => readFileSync(resolve(ROOT, 'examples', f), 'utf8'));
 
 const TOKENS = [
-  'design',
-  'end',
-  'param',
-  'node',
-  'stage',
-  'load',
-  'miller',
-  'indirect',
-  'feedforward',
-  'element',
-  'output',
-  'feedback',
-  'require',
-  'corner',
-  'from',
-  'at',
-  'within',
-  'inverting',
-  'noninverting',
-  'res',
-  'cap',
-  'gm',
-  'rout',
-  'bias',
-  'cc',
-  'rz',
-  'beta',
-  'ugf',
-  'pm',
-  'gainmargin',
-  'zero',
-  'slew',
-  'settle',
-  'dcgain',
-  'in',
-  'gnd',
-  'out',
+  ...LANGUAGE_WORDS,
+  ...OPERATORS,
   'first',
   'second',
   'third',
   'gm1',
-  '=',
-  '->',
-  '>=',
-  '<=',
-  ',',
-  '.',
-  '+',
-  '-',
-  '*',
-  '/',
-  '^',
-  '(',
-  ')',
-  '%',
-  '#',
   '0',
   '1',
   '2.2',
@@ -116,11 +67,10 @@ const TOKENS = [
   '\u2028',
   'sqrt(',
   'max(',
-  '||',
   '\r',
   '\n',
   '\r\n',
-] as const;
+];
 
 /** A text made from an example by a few random edits, or (one time in eight) token soup. */
 export function randomDocument(rng: Rng): string {
