@@ -165,6 +165,12 @@ export interface DesignAnalysis {
   readonly stability?: Stability;
   /** Roots that did not pass the check against the network (the results are still given). */
   readonly warnings?: readonly string[];
+  /**
+   * Present when the loop is closed by the design's own elements (`feedback at NODE`): then `poles`,
+   * `zeros`, `dcGain` and `loop` describe the loop gain T(s) = −v(NODE)/v(test) at the break, and this
+   * holds the whole circuit's responses.
+   */
+  readonly closedCircuit?: ClosedCircuit;
 }
 
 /** Poles and zeros at one value of a swept component. */
@@ -190,4 +196,68 @@ export type SynthesisResult =
 /** Cooperative cancellation: long loops check this between steps and stop early. */
 export interface CancelToken {
   readonly isCancellationRequested: boolean;
+}
+
+/** A transfer function in pole/zero/gain form, H(s) = k·Π(s − z)/Π(s − p) (roots in rad/s). */
+export interface Transfer {
+  readonly poles: readonly Complex[];
+  readonly zeros: readonly Complex[];
+  readonly k: number;
+  /** H(0), signed (±Infinity with a pole at the origin). */
+  readonly dc: number;
+}
+
+/** The band over which closed-circuit responses are plotted and their worst values searched (Hz). */
+export interface FrequencyBand {
+  readonly loHz: number;
+  readonly hiHz: number;
+}
+
+/** The supply → output transfer of one `supply` node. Rejection is −20·log10|v(out)/v(supply)|. */
+export interface SupplyRejection {
+  readonly node: string;
+  readonly transfer: Transfer;
+  /** Rejection at DC, dB (positive when the output moves less than the supply). */
+  readonly dcDb: number;
+  /** The lowest rejection over `band`, dB, and where it is. */
+  readonly worstDb: number;
+  readonly worstHz: number;
+}
+
+/** The output's deviation for a load-current step of one ampere drawn from the output node. */
+export interface LoadStepResponse {
+  /** Seconds. */
+  readonly t: readonly number[];
+  /** v(out) deviation per ampere of step (V/A); negative when the output droops. */
+  readonly y: readonly number[];
+  /** The deviation's final value (V/A): −Zout(0). */
+  readonly final: number;
+  /** The largest |deviation| (V/A). */
+  readonly peakDeviation: number;
+  /** Time to enter and stay within ±tolerance·peakDeviation of the final value; absent when it never does. */
+  readonly settlingTime?: number;
+  readonly tolerance: number;
+}
+
+/**
+ * A loop closed by the design's own elements (`feedback at NODE`): the whole circuit's responses. The
+ * loop gain T(s) (from the break at the sensing transconductors) is the analysis' `poles`, `zeros` and
+ * `loop`; these are the closed circuit's.
+ */
+export interface ClosedCircuit {
+  readonly feedbackNode: string;
+  /** in → out of the whole circuit. */
+  readonly gain: Transfer;
+  /** −3 dB frequency of |in → out| relative to its DC value; absent when it never falls 3 dB. */
+  readonly bandwidthHz?: number;
+  /** v(out)/i for a current injected into the output (Ω). */
+  readonly outputImpedance: Transfer & {
+    readonly dcOhm: number;
+    readonly peakOhm: number;
+    readonly peakHz: number;
+  };
+  readonly loadStep?: LoadStepResponse;
+  /** One per `supply`, in text order. */
+  readonly supplies: readonly SupplyRejection[];
+  readonly band: FrequencyBand;
 }
