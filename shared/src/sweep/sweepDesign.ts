@@ -5,11 +5,10 @@
 // two samples is found.
 import { analyzeDesign } from '../analysis/analyzeDesign';
 import type { CancelToken, Complex, DesignAnalysis } from '../analysis/types';
-import { editDesignText } from '../checks/fixes';
-import { parseDocument } from '../language';
 import type { DesignModel, DesignSource, Sweep, SweepScale } from '../language/model';
 import type { SourceRange } from '../language/source';
-import { goldenMax } from '../numeric/roots';
+import { minimizeOnInterval } from './minimize';
+import { modelSource } from './modelsAt';
 
 /** What a sweep varies and how: a `sweep` statement, or one asked for from outside (the terminal). */
 export interface SweepSpec {
@@ -183,9 +182,10 @@ export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: Cance
   // Per value: the models of every corner (one parse), and each corner's analysis once it is asked for,
   // so that a search between samples in one corner analyses only that corner.
   const memo = new Map<number, { models: (DesignModel | undefined)[]; runs: (SweepRun | null)[] }>();
+  const models = modelSource(source, spec, corners);
   const at = (value: number) => {
     let hit = memo.get(value);
-    if (!hit) memo.set(value, (hit = { models: modelsAt(source, spec, corners, value), runs: [] }));
+    if (!hit) memo.set(value, (hit = { models: models.at(value), runs: [] }));
     return hit;
   };
   const runAt = (value: number, c: number): SweepRun | undefined => {
@@ -227,27 +227,6 @@ export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: Cance
   return { spec, corners, samples, minima, complete, evaluate };
 }
 
-/** The models of every corner at one value, from the design's text with the value written in. */
-function modelsAt(
-  source: DesignSource,
-  spec: SweepSpec,
-  corners: readonly string[],
-  value: number,
-): (DesignModel | undefined)[] {
-  const none = corners.map(() => undefined);
-  const literal = writeValue(value, spec.dimension);
-  if (literal === undefined) return none;
-  const edits = [spec.valueRange, ...spec.cornerOverrides].map((range) => ({ range, newText: literal }));
-  const text = editDesignText(source, edits);
-  if (text === undefined) return none;
-  const parsed = parseDocument(text);
-  const design = parsed.designs[0];
-  if (!design?.nominal || parsed.diagnostics.some((d) => d.severity === 'error')) return none;
-  const models = new Map<string, DesignModel>([['nominal', design.nominal]]);
-  for (const c of design.corners) if (c.model) models.set(c.name, c.model);
-  return corners.map((corner) => models.get(corner));
-}
-
 /** A quantity of one corner in a sample. */
 export function quantityOf(
   sample: SweepSample,
@@ -264,7 +243,7 @@ function marginAt(sample: SweepSample, corner: number, q: MarginQuantity): numbe
 }
 
 /**
- * The lowest value of a margin in one corner: the lowest sample, improved by a golden-section search
+ * The lowest value of a margin in one corner: the lowest sample, improved by a search (minimize.ts)
  * between the neighbours of every sampled local minimum (a dip narrower than the spacing shows at least
  * as a local minimum of the samples beside it).
  */
@@ -296,13 +275,8 @@ function lowest(
     const a = toScale(spec, samples[Math.max(0, i - 1)]!.value);
     const b = toScale(spec, samples[Math.min(m.length - 1, i + 1)]!.value);
     if (!(b > a)) continue;
-    const f = (u: number) => {
-      const x = fromScale(spec, u);
-      const y = marginOf(x);
-      return y === undefined ? -Infinity : -y;
-    };
-    // goldenMax's tolerance is relative to |a| + |b|; the width wanted is absolute on the scale.
-    const { x: u } = goldenMax(f, a, b, (width * LOCATE_TOLERANCE) / (Math.abs(a) + Math.abs(b) || 1), 60);
+    const f = (u: number) => marginOf(fromScale(spec, u)) ?? Infinity;
+    const { x: u } = minimizeOnInterval(f, a, b, width * LOCATE_TOLERANCE);
     const x = fromScale(spec, u);
     consider(marginOf(x), x);
   }
