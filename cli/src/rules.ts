@@ -84,6 +84,26 @@ export const RULES: Readonly<Record<CheckCode, RuleInfo>> = {
     short: 'Open-loop DC gain misses the requirement',
     help: "The open-loop DC gain, the product of the stages' gm·rout, does not meet the design's `require` on DC gain.",
   },
+  'closed-loop-gain': {
+    name: 'ClosedLoopGain',
+    short: 'Closed-loop DC gain misses the requirement',
+    help: "The closed loop's DC gain from the input to the output does not meet `require clgain`. For a loop written as a circuit it is the whole circuit's gain, set mostly by the feedback network; for `feedback beta` it is |A(0)|/(1 + β·|A(0)|).",
+  },
+  'output-impedance': {
+    name: 'OutputImpedance',
+    short: 'Closed-loop output impedance above the requirement',
+    help: "The closed circuit's output impedance (a test current into the output, every source held) exceeds `require zout`, at the stated frequency or at its peak over frequency. Needs `feedback at NODE`.",
+  },
+  'supply-rejection': {
+    name: 'SupplyRejection',
+    short: 'Supply rejection below the requirement',
+    help: 'The rejection −20·log10|v(out)/v(supply)| of a `supply` node at the stated frequency is below `require psrr`. Needs `feedback at NODE` and a `supply`.',
+  },
+  'load-step': {
+    name: 'LoadStep',
+    short: 'Output deviation for a load step above the requirement',
+    help: "The output's largest deviation for a load-current step of the stated size (the exact small-signal step response of the closed circuit's output impedance) exceeds `require loadstep`. Needs `feedback at NODE`.",
+  },
   sweep: {
     name: 'Sweep',
     short: 'A requirement fails somewhere in a swept range, or the closed loop is unstable there',

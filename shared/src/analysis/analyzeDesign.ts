@@ -2,10 +2,12 @@
 // `problems`, located by node.
 import type { DesignModel } from '../language/model';
 import type { AnalysisProblem, DesignAnalysis, Pole, Zero } from './types';
-import { buildNetwork } from '../circuit/buildNetwork';
-import { analyzeCore, type CoreResult } from './core';
+import type { CoreResult } from './core';
+import { analyzeLoop } from './loopCore';
+import { analyzeClosedCircuit } from './closedCircuit';
 import { checkPole, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
+import { largeSignalFields } from './largeSignalStep';
 import { slewEstimate } from './slew';
 import { handEstimates } from './handEstimates';
 import { judgeStability } from './stability';
@@ -32,10 +34,9 @@ export function emptyAnalysis(problems: AnalysisProblem[]): DesignAnalysis {
 
 export function analyzeDesign(model: DesignModel, options: AnalyzeOptions = {}): DesignAnalysis {
   try {
-    const built = buildNetwork(model);
-    if (!built.ok) return emptyAnalysis(built.problems);
-    const core = analyzeCore(built.network, model.beta);
+    const core = analyzeLoop(model);
     if (!core.ok) return emptyAnalysis(core.problems);
+    if (model.feedbackAt) return assembleCircuit(model, core.result, options);
     return assemble(model, core.result, options);
   } catch (err) {
     return emptyAnalysis([
@@ -100,6 +101,17 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     if (outcome.ok) step = outcome.step;
     else stepUnavailable = outcome.reason;
   }
+  // A loop closed by the design's own elements is assembled without its step here (see its caller).
+  const large =
+    options.step !== false
+      ? largeSignalFields(
+          model,
+          r.network,
+          { kind: 'factor', beta: r.beta, sign: r.sign },
+          r.closedPoles,
+          step,
+        )
+      : {};
   const analysis: DesignAnalysis = {
     poles,
     zeros,
@@ -108,6 +120,7 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     loop: r.loop,
     step,
     ...(stepUnavailable !== undefined ? { stepUnavailable } : {}),
+    ...large,
     slew: slewEstimate(model),
     hand: handEstimates(model, r.open.poles, r.open.zeros),
     problems: [],
@@ -116,6 +129,33 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     ...(warnings.length > 0 ? { warnings } : {}),
   };
   return analysis;
+}
+
+/**
+ * A loop closed by the design's own elements: `poles`, `zeros` and `loop` are the loop gain T(s) at the
+ * break, `dcGain` is T(0) (positive for negative feedback), and the step, the closed-loop poles and the
+ * rest of the closed circuit's responses come from the whole circuit.
+ */
+function assembleCircuit(model: DesignModel, r: CoreResult, options: AnalyzeOptions): DesignAnalysis {
+  const loop = assemble(model, r, { ...options, step: false });
+  const tolerance = options.settleTolerance ?? settleRequirement(model) ?? DEFAULT_TOLERANCE;
+  const closed = analyzeClosedCircuit(
+    model,
+    [...r.open.poles, ...r.open.zeros],
+    tolerance,
+    options.step !== false,
+  );
+  if (!closed.ok) return emptyAnalysis(closed.problems);
+  const { hand: _hand, ...rest } = loop;
+  return {
+    ...rest,
+    // T = −A at the break (loopCore.ts): the sign the loop really has at DC.
+    dcGain: -r.dcGain,
+    openLoopUgfHz: r.loop.ugfHz,
+    ...(closed.value.step ? { step: closed.value.step } : {}),
+    ...(closed.value.stepUnavailable !== undefined ? { stepUnavailable: closed.value.stepUnavailable } : {}),
+    closedCircuit: closed.value.circuit,
+  };
 }
 
 function settleRequirement(model: DesignModel): number | undefined {

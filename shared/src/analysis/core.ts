@@ -52,7 +52,13 @@ export function closeLoop(sys: StateSpace, beta: number, sign: number): StateSpa
  * `light`: only what the synthesis and sweeps read (roots, DC gain, crossings, phase margin); the closed
  * loop, gain margin, peaking and the open-loop UGF are left out.
  */
-export function analyzeCore(network: Network, beta: number, light = false): CoreOutcome {
+export function analyzeCore(
+  network: Network,
+  beta: number,
+  light = false,
+  /** σ as given instead of normalised (a loop broken in the circuit keeps its own sign). */
+  fixedSign?: number,
+): CoreOutcome {
   const real = realize(network);
   if (!real.ok) return real;
   const system = real.system;
@@ -66,7 +72,7 @@ export function analyzeCore(network: Network, beta: number, light = false): Core
   const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale, polish, residuals).sort(byMagnitude);
   const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, polish, residuals).sort(byMagnitude);
   const open = { poles, zeros, k: pz.k, relativeDegree: pz.relativeDegree };
-  const sign = lowFrequencySign(open);
+  const sign = fixedSign ?? lowFrequencySign(open);
   const atOrigin = (r: Complex) => r.re === 0 && r.im === 0;
   let dcGain = nodalDcGain(network);
   if (dcGain === undefined) dcGain = sign * Infinity;

@@ -3,7 +3,7 @@
 import type { DesignModel } from '../language/model';
 import type { Network } from '../circuit/network';
 import type { AnalysisProblem } from './types';
-import { buildNetwork } from '../circuit/buildNetwork';
+import { loopNetwork } from './loopCore';
 import { analyzeCore, type CoreResult } from './core';
 import { nodalBode, pzBode, unwrappedPhaseDeg, type Bode } from './frequency';
 
@@ -19,14 +19,16 @@ function coreOf(
   try {
     let net: Network;
     let b = beta ?? 1;
+    let sign: number | undefined;
     if ('G' in source) net = source;
     else {
-      const built = buildNetwork(source);
+      const built = loopNetwork(source);
       if (!built.ok) return built;
-      net = built.network;
-      b = beta ?? source.beta;
+      net = built.loop.network;
+      b = beta ?? built.loop.beta;
+      sign = built.loop.sign;
     }
-    const r = analyzeCore(net, b);
+    const r = analyzeCore(net, b, false, sign);
     return r.ok ? { ok: true, core: r.result } : r;
   } catch (err) {
     return { ok: false, problems: [{ message: `the analysis failed: ${String(err)}` }] };

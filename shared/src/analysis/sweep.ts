@@ -3,7 +3,7 @@
 import type { DesignModel } from '../language/model';
 import type { Network } from '../circuit/network';
 import type { CancelToken, Complex, LocusPoint } from './types';
-import { buildNetwork } from '../circuit/buildNetwork';
+import { buildLoopNetwork } from './loopCore';
 import { realize } from './realization';
 import { poleZeroGain } from './polesZeros';
 import { byMagnitude } from './core';
@@ -28,8 +28,8 @@ export function sweepCompensation(
 ): LocusPoint[] {
   const out: LocusPoint[] = [];
   if (target.field === 'cc') {
-    const n0 = buildNetwork(withValue(model, target, 0));
-    const n1 = buildNetwork(withValue(model, target, 1));
+    const n0 = buildLoopNetwork(withValue(model, target, 0));
+    const n1 = buildLoopNetwork(withValue(model, target, 1));
     if (n0.ok && n1.ok && n0.network.n === n1.network.n) {
       const a = n0.network;
       const dC = a.C.map((x, i) => n1.network.C[i] - x);
@@ -48,7 +48,7 @@ export function sweepCompensation(
   }
   for (const v of values) {
     if (token?.isCancellationRequested) break;
-    const built = buildNetwork(withValue(model, target, v));
+    const built = buildLoopNetwork(withValue(model, target, v));
     out.push({ value: v, ...(built.ok ? rootsOf(built.network) : { poles: [], zeros: [] }) });
   }
   return out;

@@ -3,8 +3,9 @@
 // solved on their rule's own quantity in checks/solveKnob.ts.)
 import type { DesignModel } from '../language/model';
 import type { Complex, SynthesisResult } from './types';
-import { buildNetwork } from '../circuit/buildNetwork';
-import { analyzeCore, type CoreResult } from './core';
+import { buildLoopNetwork } from './loopCore';
+import type { CoreResult } from './core';
+import { analyzeLoop } from './loopCore';
 import { realize } from './realization';
 import { zerosOf } from './polesZeros';
 import { withValue, type CompensationTarget } from './variants';
@@ -16,9 +17,7 @@ const fmt = (x: number, unit: string) => `${x.toPrecision(3)} ${unit}`;
 
 function core(model: DesignModel): CoreResult | undefined {
   try {
-    const built = buildNetwork(model);
-    if (!built.ok) return undefined;
-    const r = analyzeCore(built.network, model.beta, true);
+    const r = analyzeLoop(model, true);
     return r.ok ? r.result : undefined;
   } catch {
     return undefined;
@@ -53,7 +52,7 @@ function millerExists(model: DesignModel, index: number): string | undefined {
  * function, so it is comparable across values, and it passes through zero where a zero goes to infinity.
  */
 function markov(model: DesignModel, rho: number): number {
-  const built = buildNetwork(model);
+  const built = buildLoopNetwork(model);
   if (!built.ok) return NaN;
   const r = realize(built.network);
   if (!r.ok) return NaN;
@@ -70,7 +69,7 @@ function markov(model: DesignModel, rho: number): number {
 }
 
 function relativeDegree(model: DesignModel): number | undefined {
-  const built = buildNetwork(model);
+  const built = buildLoopNetwork(model);
   if (!built.ok) return undefined;
   const r = realize(built.network);
   return r.ok ? zerosOf(r.system).relativeDegree : undefined;

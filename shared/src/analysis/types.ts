@@ -95,6 +95,38 @@ export interface StepResponse {
   readonly tolerance: number;
 }
 
+/**
+ * The closed loop's response to an input step of a stated size with each stage's current limited to its
+ * bias (analysis/largeSignalStep.ts): slewing and linear settling together.
+ */
+export interface LargeSignalStep {
+  /** The input step, volts. */
+  readonly amplitude: number;
+  readonly tolerance: number;
+  /**
+   * The output in volts at times in seconds, sign-normalised like `step` (σ·v(out) with a feedback
+   * factor), from the instant after the step. The small-signal response to the same step is
+   * amplitude·`step.y`.
+   */
+  readonly samples: { readonly t: readonly number[]; readonly y: readonly number[] };
+  /** The output's final value, volts (the nonlinear equilibrium). */
+  readonly final: number;
+  /** Time to enter and stay within ±tolerance of `final`; absent when it does not within the span. */
+  readonly settlingTime?: number;
+  /** The small-signal settling time for the same tolerance, for comparison. */
+  readonly smallSignalSettlingTime?: number;
+  /** Total time during which some stage delivers more than 90 % of its bias. */
+  readonly slewingTime: number;
+  /** The spans of `slewingTime`, seconds. */
+  readonly slewing: readonly { readonly start: number; readonly end: number }[];
+  /** The largest |dy/dt| reached, V/s. */
+  readonly slewRateReached: number;
+  /** Percent beyond the final value (0 when it never passes it). */
+  readonly overshootPct: number;
+  /** The stage that spends the longest time above 90 % of its bias; absent when none does. */
+  readonly limitingStage?: NodeName;
+}
+
 export interface SlewEstimate {
   /** V/s: the smallest of the node slew limits. */
   readonly rate: number;
@@ -155,6 +187,10 @@ export interface DesignAnalysis {
   /** Why the step response was asked for but not computed (a refused tolerance, a value out of range). */
   readonly stepUnavailable?: string;
   readonly slew?: SlewEstimate;
+  /** Present when a `settle` requirement states a `step`: the large-signal step response. */
+  readonly largeSignalStep?: LargeSignalStep;
+  /** Why the large-signal step was asked for but not computed. */
+  readonly largeSignalStepUnavailable?: string;
   /** Present for designs that are the classic two-stage Miller case. */
   readonly hand?: readonly HandEstimate[];
   /** Non-empty when the network could not be solved; other fields are then empty. */
@@ -246,6 +282,8 @@ export interface LoadStepResponse {
  */
 export interface ClosedCircuit {
   readonly feedbackNode: string;
+  /** The closed circuit's poles (its natural frequencies), with their participation in its nodes. */
+  readonly poles: readonly Pole[];
   /** in → out of the whole circuit. */
   readonly gain: Transfer;
   /** −3 dB frequency of |in → out| relative to its DC value; absent when it never falls 3 dB. */

@@ -4,6 +4,12 @@ import type { ParsedDocument } from '../language/model';
 import type { SourcePosition, SourceRange } from '../language/source';
 import { approximationCheck } from './approximation';
 import { complexPolesCheck } from './complexPoles';
+import {
+  closedLoopGainCheck,
+  loadStepCheck,
+  outputImpedanceCheck,
+  supplyRejectionCheck,
+} from './closedLoopRequirements';
 import type { Check, CheckInput } from './context';
 import { dcGainCheck } from './dcGain';
 import { doubletCheck } from './doublet';
@@ -36,6 +42,10 @@ export const ALL_CHECKS: readonly (readonly [CheckCode, Check])[] = [
   ['slew-rate', slewRateCheck],
   ['settling', settlingCheck],
   ['dc-gain', dcGainCheck],
+  ['closed-loop-gain', closedLoopGainCheck],
+  ['output-impedance', outputImpedanceCheck],
+  ['supply-rejection', supplyRejectionCheck],
+  ['load-step', loadStepCheck],
   ['approximation', approximationCheck],
 ];
 

@@ -94,6 +94,7 @@ export function judgedAsLoop(model: DesignModel): boolean {
   return (
     model.stages.length > 0 ||
     model.betaOrigin !== undefined ||
+    model.feedbackAt !== undefined ||
     model.requirements.some(
       (r) =>
         r.kind === 'pm' ||

@@ -4,8 +4,15 @@ import { formatDcGain, formatRatio, formatSlewRate, formatTolerance } from '../f
 import { formatDb, formatDeg, formatHz, formatSi } from '../format/si';
 import type { Requirement } from '../language/model';
 import { violates } from './locate';
-import { settlingTimeFor } from './settling';
+import { largeSignalOf, requiredSettlingTime, settlingUnavailable } from './settling';
+import { largeSignalSummary } from '../format/largeSignal';
 import { gainDb } from '../units';
+import {
+  closedLoopDcGain,
+  loadStepDeviation,
+  outputImpedance,
+  supplyRejection,
+} from '../analysis/closedLoopValues';
 
 export interface Measurement {
   /** What the requirement is about, for people (`phase margin`). */
@@ -56,14 +63,32 @@ export function judge(
     case 'slew':
       return bound(a.slew?.rate, req.op, req.value);
     case 'settle': {
-      const v = a.step ? settlingTimeFor(a.step, req.tolerance) : undefined;
+      const v = requiredSettlingTime(req, a);
       return v === undefined ? { pass: false } : { value: v, pass: v <= req.within };
     }
     case 'dc-gain': {
       const v = gainDb(a.dcGain);
       return { value: v, pass: !Number.isNaN(v) && !violates(req.op, v, req.value) };
     }
+    case 'closed-loop-gain': {
+      const g = closedLoopDcGain(a);
+      return g === undefined ? { pass: false } : bound(gainDb(g), req.op, req.value);
+    }
+    case 'output-impedance':
+      return bound(outputImpedance(a, req.atHz), req.op, req.value);
+    case 'supply-rejection':
+      return bound(supplyRejection(a, req.atHz, req.supply)?.db, req.op, req.value);
+    case 'load-step':
+      return bound(loadStepDeviation(a, req.step), req.op, req.value);
   }
+}
+
+/** Why a closed-circuit requirement has no value in this analysis, in words. */
+function notMeasured(a: DesignAnalysis, what: string): string {
+  if (a.problems.length > 0) return 'not computed';
+  if (!a.closedCircuit)
+    return `needs the loop written as a circuit (\`feedback at NODE\`) to compute the ${what}`;
+  return 'no supply is declared (`supply NODE`)';
 }
 
 export function measure(req: Requirement, a: DesignAnalysis): Measurement {
@@ -143,16 +168,21 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
       };
     }
     case 'settle': {
-      const v = a.step ? settlingTimeFor(a.step, req.tolerance) : undefined;
+      const v = requiredSettlingTime(req, a);
       const pct = formatTolerance(req.tolerance);
+      const unavailable = settlingUnavailable(req, a);
+      const large = largeSignalOf(req, a);
       return {
-        label: `settling to ±${pct}`,
+        label:
+          req.step !== undefined
+            ? `settling of a ${formatSi(req.step, 'V')} step to ±${pct}`
+            : `settling to ±${pct}`,
         measured:
-          a.stepUnavailable !== undefined
-            ? `not computed: ${a.stepUnavailable}`
+          unavailable !== undefined
+            ? `not computed: ${unavailable}`
             : v === undefined
               ? 'does not settle in the computed span'
-              : formatSi(v, 's'),
+              : formatSi(v, 's') + (large ? ` (${largeSignalSummary(large, a.slew)})` : ''),
         required: `≤ ${formatSi(req.within, 's')}`,
         pass: j.pass,
         ...(v !== undefined
@@ -160,10 +190,72 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
           : {}),
       };
     }
+    case 'closed-loop-gain': {
+      const g = closedLoopDcGain(a);
+      const v = g === undefined ? undefined : gainDb(g);
+      return {
+        label: 'closed-loop DC gain',
+        measured: g === undefined ? 'not computed' : formatDcGain(g),
+        required: `${OP[req.op]} ${formatDb(req.value)}`,
+        pass: j.pass,
+        ...(v !== undefined ? { value: v } : {}),
+        ...(v !== undefined && Number.isFinite(v)
+          ? { margin: signed(v - req.value, formatDb(Math.abs(v - req.value))) }
+          : {}),
+      };
+    }
+    case 'output-impedance': {
+      const v = j.value;
+      const where = req.atHz === undefined ? 'peak' : `at ${formatHz(req.atHz)}`;
+      return {
+        label: `output impedance (${where})`,
+        measured:
+          v === undefined
+            ? notMeasured(a, 'output impedance')
+            : req.atHz === undefined && a.closedCircuit
+              ? `${formatSi(v, 'ohm')} at ${formatHz(a.closedCircuit.outputImpedance.peakHz)}`
+              : formatSi(v, 'ohm'),
+        required: `≤ ${formatSi(req.value, 'ohm')}`,
+        pass: j.pass,
+        ...(v !== undefined
+          ? { value: v, margin: signed(req.value - v, formatSi(Math.abs(req.value - v), 'ohm')) }
+          : {}),
+      };
+    }
+    case 'supply-rejection': {
+      const r = supplyRejection(a, req.atHz, req.supply);
+      const of =
+        req.supply ??
+        (a.closedCircuit?.supplies.length === 1 ? a.closedCircuit.supplies[0]!.node : 'every supply');
+      return {
+        label: `supply rejection from ${of} at ${formatHz(req.atHz)}`,
+        measured:
+          r === undefined
+            ? notMeasured(a, 'supply rejection')
+            : `${formatDb(r.db)}${req.supply === undefined && (a.closedCircuit?.supplies.length ?? 0) > 1 ? ` (from ${r.node})` : ''}`,
+        required: `≥ ${formatDb(req.value)}`,
+        pass: j.pass,
+        ...(r !== undefined
+          ? { value: r.db, margin: signed(r.db - req.value, formatDb(Math.abs(r.db - req.value))) }
+          : {}),
+      };
+    }
+    case 'load-step': {
+      const v = j.value;
+      return {
+        label: `output deviation for a ${formatSi(req.step, 'A')} load step`,
+        measured: v === undefined ? notMeasured(a, 'load step') : formatSi(v, 'V'),
+        required: `≤ ${formatSi(req.value, 'V')}`,
+        pass: j.pass,
+        ...(v !== undefined
+          ? { value: v, margin: signed(req.value - v, formatSi(Math.abs(req.value - v), 'V')) }
+          : {}),
+      };
+    }
     case 'dc-gain': {
       const v = gainDb(a.dcGain);
       return {
-        label: 'open-loop DC gain',
+        label: a.closedCircuit ? 'loop gain at DC' : 'open-loop DC gain',
         measured: formatDcGain(a.dcGain),
         required: `${OP[req.op]} ${formatDb(req.value)}`,
         pass: j.pass,

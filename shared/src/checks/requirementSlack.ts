@@ -27,7 +27,13 @@ export function requirementSlack(req: Requirement, a: DesignAnalysis): number {
     case 'gain-margin':
       return signed((v - req.value) / 10, req.op);
     case 'dc-gain':
+    case 'closed-loop-gain':
       return signed((v - req.value) / 20, req.op);
+    case 'supply-rejection':
+      return signed((v - req.value) / 20, req.op);
+    case 'output-impedance':
+    case 'load-step':
+      return v > 0 ? signed(Math.log(v / req.value), req.op) : UNMEASURED;
     default: {
       const never: never = req;
       return never;

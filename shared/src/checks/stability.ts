@@ -3,6 +3,7 @@
 // plot do not decide stability (Nyquist criterion), and the finding says so.
 import type { Pole } from '../analysis/types';
 import { formatHz } from '../format/si';
+import { formatDcGain } from '../format/quantities';
 import { formatRootHz } from '../format/root';
 import type { DesignModel, Origin } from '../language/model';
 import type { CornerRun } from '../report';
@@ -20,6 +21,8 @@ export const stabilityCheck: Check = (input: CheckInput) =>
     (run): Hit[] => {
       const stability = run.analysis.stability;
       if (!stability || !judgedAsLoop(run.model)) return [];
+      const positive = positiveFeedback(run);
+      if (positive) return [positive];
       const range = compensationRange(input.source, primaryCompensation(run.model), run);
       const rhpOpen = run.analysis.poles.filter((p) => p.s.re > 0);
       const related = openLoopCulprits(run.model, rhpOpen);
@@ -92,6 +95,28 @@ export const stabilityCheck: Check = (input: CheckInput) =>
     },
     ({ worst, worstRun }) => (worst.key === 'open-rhp' ? [] : polarityFixes(input, worstRun)),
   );
+
+/**
+ * A loop closed by the circuit whose return ratio is negative at DC feeds back positively: a polarity slip
+ * (a stage's sense, or the side of a differential input that senses the feedback node). The analysis never
+ * normalises that sign away, so it is named here whatever the closed-loop poles do.
+ */
+function positiveFeedback(run: CornerRun): Hit | undefined {
+  const at = run.model.feedbackAt;
+  const t0 = run.analysis.dcGain;
+  if (!at || !(t0 < 0)) return undefined;
+  const size = Number.isFinite(t0) ? `T(0) = ${formatDcGain(t0)}` : 'an integrator in the loop';
+  return {
+    key: 'positive-feedback',
+    severity: 'error',
+    message:
+      `The loop closed at ${at.node} feeds back positively at DC (${size}): check the polarity of the stages ` +
+      `in the loop, and which side of a differential input senses ${at.node}`,
+    range: at.origin.keywordRange,
+    related: [],
+    badness: Number.isFinite(t0) ? Math.abs(t0) : Number.MAX_VALUE,
+  };
+}
 
 function openLoopNote(count: number): string {
   return (

@@ -6,17 +6,38 @@ import { NetworkBuilder, type Network, type NetworkNode, type Terminal } from '.
 
 export type BuildResult = { ok: true; network: Network } | { ok: false; problems: AnalysisProblem[] };
 
+/**
+ * What the network's source is (docs/analysis.md, The loop of a circuit). Every `supply` node and, unless
+ * it is the source, the input `in` are held at AC ground.
+ * - `input`: the design's input `in` (the default).
+ * - `supply`: that supply node is the driven voltage; `in` is grounded.
+ * - `current`: a unit current injected into `node` (the source is a current; `in` is grounded).
+ * - `break`: the loop opened at the feedback node: every transconductor input that senses `node` senses a
+ *   test voltage instead, and the output is `node`. Transconductor inputs draw no current, so every element
+ *   stays loaded as in the closed circuit.
+ */
+export type NetworkSource =
+  | { readonly kind: 'input' }
+  | { readonly kind: 'supply'; readonly node: string }
+  | { readonly kind: 'current'; readonly node: string }
+  | { readonly kind: 'break'; readonly node: string };
+
+const INPUT: NetworkSource = { kind: 'input' };
+
 /** Name of the internal node between a nulling resistor and its Miller capacitor (1-based index). */
 export const millerMidpointName = (index: number) => `miller${index + 1}.mid`;
 /** Name of the internal input node of a current buffer (1-based index). */
 export const bufferInputName = (index: number) => `buffer${index + 1}.in`;
 
-export function buildNetwork(model: DesignModel): BuildResult {
+export function buildNetwork(model: DesignModel, source: NetworkSource = INPUT): BuildResult {
   const problems: AnalysisProblem[] = [];
   const nodes: NetworkNode[] = [];
   const index = new Map<string, number>();
+  const supplies = new Set<string>(model.supplies?.map((s) => s.node));
+  const driven = source.kind === 'supply' ? source.node : source.kind === 'input' ? model.input : undefined;
+  const grounded = (name: string) => (name === model.input || supplies.has(name)) && name !== driven;
   for (const decl of model.nodes) {
-    if (decl.name === model.input || index.has(decl.name)) continue;
+    if (decl.name === model.input || supplies.has(decl.name) || index.has(decl.name)) continue;
     index.set(decl.name, nodes.length);
     nodes.push({ name: decl.name, kind: 'design' });
   }
@@ -34,7 +55,8 @@ export function buildNetwork(model: DesignModel): BuildResult {
   );
 
   const terminalOf = (name: string, what: string): Terminal | undefined => {
-    if (name === model.input) return 'input';
+    if (name === driven) return 'input';
+    if (grounded(name)) return 'ground';
     const i = index.get(name);
     if (i === undefined)
       problems.push({ message: `${what} refers to node '${name}', which is not declared`, node: name });
@@ -61,7 +83,25 @@ export function buildNetwork(model: DesignModel): BuildResult {
   };
 
   const b = new NetworkBuilder(nodes.length);
-  const out = terminalOf(model.output, 'the design output');
+  const out = terminalOf(source.kind === 'break' ? source.node : model.output, 'the design output');
+  const breakAt = source.kind === 'break' ? source.node : undefined;
+  let sensesBreak = false;
+  /** A sensing input: at the break it senses the test voltage instead of the node. */
+  const sensing = (ref: NodeRef, what: string): Terminal | undefined => {
+    if (ref.kind === 'node' && ref.name === breakAt) {
+      sensesBreak = true;
+      return 'input';
+    }
+    return terminal(ref, what);
+  };
+  /** gm·(v(p) − v(n)) into `node`; `n` absent is ground. */
+  const transconductor = (p: NodeRef, n: NodeRef | undefined, node: Terminal, gm: number, what: string) => {
+    const tp = sensing(p, what);
+    const tn = n ? sensing(n, what) : 'ground';
+    if (tp === undefined || tn === undefined) return;
+    b.transconductance(tp, node, gm);
+    b.transconductance(tn, node, -gm);
+  };
   if (model.output === model.input) {
     problems.push({ message: 'the output is the driven input node', node: model.output });
   }
@@ -69,14 +109,13 @@ export function buildNetwork(model: DesignModel): BuildResult {
   for (const st of model.stages) {
     const what = `stage ${st.name}`;
     const node = terminalOf(st.name, what);
-    const input = terminal(st.input, what);
-    if (node === undefined || input === undefined) continue;
+    if (node === undefined) continue;
     if (node === 'input') {
       problems.push({ message: `${what} drives the input node`, node: st.name });
       continue;
     }
     if (finite(st.gm, `${what}: gm`, st.name)) {
-      b.transconductance(input, node, st.polarity === 'inverting' ? -st.gm : st.gm);
+      transconductor(st.input, st.inputN, node, st.polarity === 'inverting' ? -st.gm : st.gm, what);
     }
     const g = resistance(st.rout, `${what}: rout`, st.name);
     if (g !== undefined) b.conductance(node, 'ground', g);
@@ -131,10 +170,15 @@ export function buildNetwork(model: DesignModel): BuildResult {
   for (const el of model.elements) {
     if (el.kind === 'gm') {
       const what = 'element gm';
-      const control = terminal(el.control, what);
       const output = terminal(el.output, what);
-      if (control === undefined || output === undefined || !finite(el.value, what)) continue;
-      b.transconductance(control, output, el.polarity === 'inverting' ? -el.value : el.value);
+      if (output === undefined || !finite(el.value, what)) continue;
+      transconductor(
+        el.control,
+        el.controlN,
+        output,
+        el.polarity === 'inverting' ? -el.value : el.value,
+        what,
+      );
       continue;
     }
     const what = `element ${el.kind}`;
@@ -149,6 +193,16 @@ export function buildNetwork(model: DesignModel): BuildResult {
     }
   }
 
+  if (breakAt !== undefined && !sensesBreak)
+    problems.push({
+      message: `no stage or transconductance senses the feedback node '${breakAt}', so nothing closes the loop there`,
+      node: breakAt,
+    });
+  if (source.kind === 'current' && typeof index.get(source.node) === 'number') {
+    // A unit current into the node: KCL rows hold currents leaving, so the source column is −1 there.
+    b.gIn[index.get(source.node)!] -= 1;
+    b.gInAbs[index.get(source.node)!] += 1;
+  }
   if (problems.length > 0 || typeof out !== 'number') {
     if (problems.length === 0)
       problems.push({ message: 'the design has no output node', node: model.output });
@@ -164,7 +218,7 @@ export function buildNetwork(model: DesignModel): BuildResult {
       gIn: b.gIn,
       cIn: b.cIn,
       output: out,
-      inputName: model.input,
+      inputName: sourceName(source, model.input),
       capRank: b.capRank(),
       gAbs: absolute(b.gAbs),
       gInAbs: absolute(b.gInAbs),
@@ -176,4 +230,18 @@ export function buildNetwork(model: DesignModel): BuildResult {
 function absolute(a: Float64Array): Float64Array {
   for (let i = 0; i < a.length; i++) a[i] = Math.abs(a[i]);
   return a;
+}
+
+/** The source's name where results show it. */
+function sourceName(source: NetworkSource, input: string): string {
+  switch (source.kind) {
+    case 'input':
+      return input;
+    case 'supply':
+      return source.node;
+    case 'current':
+      return `${source.node} (test current)`;
+    case 'break':
+      return `${source.node} (test voltage)`;
+  }
 }

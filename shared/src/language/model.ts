@@ -11,6 +11,7 @@ import type {
   Ratio,
   Seconds,
   Siemens,
+  Volts,
   VoltsPerSecond,
 } from '../units';
 import type { LanguageDiagnostic, SourcePosition, SourceRange } from './source';
@@ -60,6 +61,8 @@ export interface NodeDecl {
 export interface Stage {
   readonly name: NodeName;
   readonly input: NodeRef;
+  /** `from P, N`: the stage senses v(input) − v(inputN). Absent for a single-ended input (N is ground). */
+  readonly inputN?: NodeRef;
   readonly gm: Siemens;
   readonly rout: Ohms;
   readonly cap: Farads;
@@ -120,6 +123,8 @@ export type Element =
       /** A voltage-controlled current: gm·v(control) injected into `output` (drawn out when inverting). */
       readonly kind: 'gm';
       readonly control: NodeRef;
+      /** `element gm P, N -> OUT`: the control is v(control) − v(controlN); absent when N is ground. */
+      readonly controlN?: NodeRef;
       readonly output: NodeRef;
       readonly value: Siemens;
       readonly polarity: Polarity;
@@ -145,9 +150,46 @@ export type Requirement =
       readonly value: VoltsPerSecond;
       readonly origin: Origin;
     }
-  /** Closed-loop step settles into ±tolerance (a fraction, 0.001 for 0.1 %) of its final value within `within`. */
-  | { readonly kind: 'settle'; readonly tolerance: Ratio; readonly within: Seconds; readonly origin: Origin }
-  | { readonly kind: 'dc-gain'; readonly op: Comparison; readonly value: Decibels; readonly origin: Origin };
+  /**
+   * Closed-loop step settles into ±tolerance (a fraction, 0.001 for 0.1 %) of its final value within
+   * `within`. With `step`, for an input step of that size with the stages' currents limited by their bias
+   * (large-signal); without, for the small-signal response.
+   */
+  | {
+      readonly kind: 'settle';
+      readonly tolerance: Ratio;
+      readonly within: Seconds;
+      readonly step?: Volts;
+      readonly origin: Origin;
+    }
+  | { readonly kind: 'dc-gain'; readonly op: Comparison; readonly value: Decibels; readonly origin: Origin }
+  /** Closed-loop output impedance at most `value`: at `atHz`, or its peak over frequency without it. */
+  | {
+      readonly kind: 'output-impedance';
+      readonly op: '<=';
+      readonly value: Ohms;
+      readonly atHz?: Hertz;
+      readonly origin: Origin;
+    }
+  /** Rejection −20·log10|v(out)/v(supply)| at `atHz` at least `value`, for `supply` or every supply. */
+  | {
+      readonly kind: 'supply-rejection';
+      readonly op: '>=';
+      readonly value: Decibels;
+      readonly atHz: Hertz;
+      readonly supply?: NodeName;
+      readonly origin: Origin;
+    }
+  /** The output's largest deviation for a load-current step of `step` amperes at most `value`. */
+  | {
+      readonly kind: 'load-step';
+      readonly op: '<=';
+      readonly value: Volts;
+      readonly step: Amperes;
+      readonly origin: Origin;
+    }
+  /** The closed loop's DC gain from `in` to the output, in dB. */
+  | { readonly kind: 'closed-loop-gain'; readonly op: Comparison; readonly value: Decibels; readonly origin: Origin };
 
 export type RequirementKind = Requirement['kind'];
 
@@ -190,6 +232,16 @@ export interface Sweep {
   readonly origin: Origin;
 }
 
+export interface FeedbackNode {
+  readonly node: NodeName;
+  readonly origin: Origin;
+}
+
+export interface SupplyNode {
+  readonly node: NodeName;
+  readonly origin: Origin;
+}
+
 /** One evaluated variant of a design: the nominal one, or a corner with its overrides applied. */
 export interface DesignModel {
   readonly name: string;
@@ -203,10 +255,20 @@ export interface DesignModel {
   readonly millers: readonly Miller[];
   readonly buffered: readonly BufferedCap[];
   readonly elements: readonly Element[];
-  /** Feedback factor for loop-gain margins (1 for a unity-gain follower). */
+  /**
+   * Feedback factor for loop-gain margins (1 for a unity-gain follower). Not used when `feedbackAt` is set:
+   * the language makes `feedback beta` and `feedback at` exclusive, and leaves `beta` at 1 then.
+   */
   readonly beta: Ratio;
-  /** Origin of the `feedback` statement, when written. */
+  /** Origin of the `feedback beta` statement, when written. */
   readonly betaOrigin?: Origin;
+  /**
+   * `feedback at NODE`: the loop is closed by the design's own elements, and NODE is the node the
+   * amplifier senses (docs/analysis.md, The loop of a circuit).
+   */
+  readonly feedbackAt?: FeedbackNode;
+  /** `supply NODE`: nodes held by ideal small-signal voltage sources (AC ground but in supply rejection). */
+  readonly supplies?: readonly SupplyNode[];
   readonly requirements: readonly Requirement[];
   readonly params: readonly Param[];
   /** The design's `minimize` statement, when written (see solve/objective.ts for the default). */

@@ -4,20 +4,21 @@ import type { Ratio } from '../units';
 import type {
   BufferedCap,
   Element,
+  FeedbackNode,
   Load,
   Miller,
   Objective,
   Origin,
   Requirement,
   Stage,
+  SupplyNode,
   Sweep,
 } from './model';
 
-/** What a `feedback` statement gives the model; the model takes the first. */
-export interface FeedbackPart {
-  readonly beta: Ratio;
-  readonly origin: Origin;
-}
+/** What a `feedback` statement gives the model (a factor, or the node the loop closes at); the model takes the first. */
+export type FeedbackPart =
+  | { readonly kind: 'factor'; readonly beta: Ratio; readonly origin: Origin }
+  | { readonly kind: 'node'; readonly at: FeedbackNode };
 
 export interface ModelParts {
   readonly stages: readonly Stage[];
@@ -30,6 +31,7 @@ export interface ModelParts {
   /** What a `minimize` statement gives the model; the model takes the first. */
   readonly objective: readonly Objective[];
   readonly sweeps: readonly Sweep[];
+  readonly supplies: readonly SupplyNode[];
 }
 
 /** What one statement adds: some of the lists, usually one item in one. */
@@ -48,6 +50,7 @@ const PART_NAMES = Object.keys({
   feedback: true,
   objective: true,
   sweeps: true,
+  supplies: true,
 } satisfies Record<keyof ModelParts, true>) as (keyof ModelParts)[];
 
 /** A model's lists while statements add to them. */

@@ -20,7 +20,14 @@ export type ValueRole =
   | 'zero'
   | 'slew'
   | 'tolerance'
-  | 'within';
+  | 'within'
+  | 'step'
+  | 'zout'
+  | 'psrr'
+  | 'clgain'
+  | 'deviation'
+  | 'load-step'
+  | 'at-frequency';
 
 export interface ValueRange {
   /** The SI unit the range is in (`''` for a plain number). */
@@ -200,6 +207,69 @@ export const VALUE_RANGES: Readonly<Record<ValueRole, ValueRange>> = {
     what: 'a settling time',
     noun: 'settling time',
     fields: '`require settle … within`',
+  },
+  step: {
+    unit: 'V',
+    low: 1e-6,
+    high: 100,
+    typical: 1,
+    what: 'a step amplitude',
+    noun: 'step amplitude',
+    fields: '`require settle … step`',
+  },
+  zout: {
+    unit: 'ohm',
+    low: 1e-4,
+    high: 1e6,
+    typical: 0.1,
+    what: 'an output impedance',
+    noun: 'output impedance',
+    fields: '`require zout`',
+  },
+  psrr: {
+    unit: 'dB',
+    low: 0,
+    high: 160,
+    typical: 60,
+    what: 'a supply rejection',
+    noun: 'supply rejection',
+    fields: '`require psrr`',
+  },
+  clgain: {
+    unit: 'dB',
+    low: -60,
+    high: 80,
+    typical: 6,
+    what: 'a closed-loop gain',
+    noun: 'closed-loop gain',
+    fields: '`require clgain`',
+  },
+  deviation: {
+    unit: 'V',
+    low: 1e-6,
+    high: 10,
+    typical: 0.03,
+    what: 'an output deviation',
+    noun: 'output deviation',
+    fields: '`require loadstep` deviation',
+  },
+  'load-step': {
+    unit: 'A',
+    low: 1e-9,
+    high: 100,
+    typical: 0.01,
+    what: 'a load-current step',
+    noun: 'load-current step',
+    fields: '`require loadstep … for`',
+  },
+  'at-frequency': {
+    unit: 'Hz',
+    low: 1e-3,
+    high: 1e12,
+    typical: 1e3,
+    what: 'a frequency',
+    noun: 'frequency',
+    fields: '`require zout … at`, `require psrr … at`',
   },
 };
 

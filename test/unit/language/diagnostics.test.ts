@@ -42,7 +42,7 @@ const cases: Case[] = [
     d('  ⟦miler⟧ s -> in cc = 1 pF'),
     'syntax',
     'error',
-    'Unknown statement `miler`. Did you mean `miller`? A design holds: param, node, stage, load, miller, indirect, feedforward, element, output, feedback, require, minimize, sweep, corner; it closes with `end`.',
+    'Unknown statement `miler`. Did you mean `miller`? A design holds: param, node, supply, stage, load, miller, indirect, feedforward, element, output, feedback, require, minimize, sweep, corner; it closes with `end`.',
   ],
   ['missing =', d('  load ⟦cap⟧ 3 pF'), 'syntax', 'error', 'Missing `=` after `cap`.'],
   ['missing value at the end', d('  load cap = 1 pF ⟦res =⟧'), 'syntax', 'error', 'Missing value for `res`.'],
@@ -112,7 +112,7 @@ const cases: Case[] = [
     d('  require ⟦ugg⟧ >= 1 MHz'),
     'syntax',
     'error',
-    'Unknown requirement `ugg`; expected ugf, pm, gainmargin, zero, slew, settle, dcgain. Did you mean `ugf`?',
+    'Unknown requirement `ugg`; expected ugf, pm, gainmargin, zero, slew, settle, dcgain, clgain, zout, psrr, loadstep. Did you mean `ugf`?',
   ],
   [
     'missing comparison',
@@ -133,7 +133,7 @@ const cases: Case[] = [
     d('  node a\n  element gm in ⟦a⟧ = 40 uS'),
     'syntax',
     'error',
-    'Expected `->` between the two nodes of `element`.',
+    'Expected `->` between the sensed node(s) and the driven node of `element gm`.',
   ],
   [
     'zero as an upper bound',

@@ -1,10 +1,11 @@
-// `element res|cap NODE NODE = …` and `element gm NODE -> NODE = … [inverting]`: any extra linear element.
+// `element res|cap NODE NODE = …` and `element gm NODE[, NODE] -> NODE = … [inverting]`: any extra linear element.
 import { si } from '../../units';
 import { closest } from '../closestWord';
 import { quote } from '../diagnostics';
 import { spanRange, tokenRange, type Token } from '../lexer';
 import type { NodeRef } from '../model';
 import { NOTHING } from '../modelParts';
+import { sameRef } from '../nodeRefs';
 import type { PolaritySyntax, StatementCommon } from '../syntax';
 import { attached, sensed, type FieldSpec, type StatementDescriptor } from './statementKind';
 
@@ -23,13 +24,12 @@ export type ElementStatement = StatementCommon & {
   readonly element?: ElementKind;
   /** The first node; for `gm`, the one sensed. */
   readonly a?: Token;
+  /** For `gm P, N -> OUT`: the node sensed on the negative side. */
+  readonly aN?: Token;
   /** The second node; for `gm`, the one driven. */
   readonly b?: Token;
   readonly polarity?: PolaritySyntax;
 };
-
-const sameNode = (a: NodeRef, b: NodeRef): boolean =>
-  a.kind === b.kind && (a.kind === 'ground' || (b.kind === 'node' && a.name === b.name));
 
 export const elementKind: StatementDescriptor<ElementStatement> = {
   keyword: 'element',
@@ -50,9 +50,13 @@ export const elementKind: StatementDescriptor<ElementStatement> = {
     const element = k.text as ElementKind;
     parts.element = element;
     if (element === 'gm') {
-      const { from, to } = p.nodePair('the transconductance');
-      parts.a = from;
-      parts.b = to;
+      parts.a = p.name('the node the transconductance senses');
+      if (p.c.isOp(',')) {
+        p.c.next();
+        parts.aN = p.name('the node sensed on the negative side (`gm P, N -> OUT` senses P − N)');
+      }
+      p.op('->', () => 'Expected `->` between the sensed node(s) and the driven node of `element gm`.');
+      parts.b = p.name('the node the transconductance drives');
     } else {
       parts.a = p.name('the first node');
       parts.b = p.name('the second node');
@@ -68,7 +72,10 @@ export const elementKind: StatementDescriptor<ElementStatement> = {
     );
     p.fieldList();
   },
-  nodes: (s) => [...(s.element === 'gm' ? sensed(s.a) : attached(s.a)), ...attached(s.b)],
+  nodes: (s) => [
+    ...(s.element === 'gm' ? [...sensed(s.a), ...sensed(s.aN)] : attached(s.a)),
+    ...attached(s.b),
+  ],
   declares: () => [],
   build(s, ctx) {
     if (!s.element || !s.a || !s.b) return NOTHING;
@@ -83,17 +90,28 @@ export const elementKind: StatementDescriptor<ElementStatement> = {
     };
     switch (s.element) {
       case 'res':
-        if (sameNode(a, b)) return selfLoop('resistor');
+        if (sameRef(a, b)) return selfLoop('resistor');
         return { elements: [{ kind: 'res', a, b, value: si(r.value), origin }] };
       case 'cap':
-        if (sameNode(a, b)) return selfLoop('capacitor');
+        if (sameRef(a, b)) return selfLoop('capacitor');
         return { elements: [{ kind: 'cap', a, b, value: si(r.value), origin }] };
-      case 'gm':
+      case 'gm': {
+        const aN = s.aN ? ctx.resolveNode(s.aN) : undefined;
+        if (s.aN && !aN) return NOTHING;
+        if (aN && sameRef(a, aN)) {
+          ctx.sink.error(
+            'reference',
+            'A transconductance cannot sense the same node on both sides.',
+            tokenRange(s.aN!),
+          );
+          return NOTHING;
+        }
         return {
           elements: [
             {
               kind: 'gm',
               control: a,
+              ...(aN && aN.kind !== 'ground' ? { controlN: aN } : {}),
               output: b,
               value: si(r.value),
               polarity: s.polarity?.value ?? 'noninverting',
@@ -101,6 +119,7 @@ export const elementKind: StatementDescriptor<ElementStatement> = {
             },
           ],
         };
+      }
     }
     const _: never = s.element;
     return _;

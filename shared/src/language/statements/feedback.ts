@@ -1,22 +1,44 @@
-// `feedback beta = …`: the feedback factor for loop-gain margins. The first `feedback` of a design is used.
+// `feedback beta = …`: the feedback factor for loop-gain margins, or `feedback at NODE`: the loop is closed
+// by the design's own elements and NODE is the node the amplifier senses. The first `feedback` is used.
 import { si } from '../../units';
-import { tokenRange } from '../lexer';
+import { tokenRange, type Token } from '../lexer';
 import { NOTHING } from '../modelParts';
 import type { StatementCommon } from '../syntax';
-import type { StatementDescriptor } from './statementKind';
+import { sensed, type StatementDescriptor } from './statementKind';
 
-export type FeedbackStatement = StatementCommon & { readonly kind: 'feedback' };
+export type FeedbackStatement = StatementCommon & {
+  readonly kind: 'feedback';
+  /** `at NODE`: the feedback node. */
+  readonly at?: Token;
+};
 
 export const feedbackKind: StatementDescriptor<FeedbackStatement> = {
   keyword: 'feedback',
   fields: [{ name: 'beta', unit: 'one', role: 'beta', required: true }],
   flags: [],
-  connectors: [],
+  connectors: ['at'],
   overriddenByKeyword: true,
-  parse(p) {
-    p.fieldList();
+  parse(p, parts) {
+    const t = p.c.peek();
+    if (t?.kind === 'ident' && t.text === 'at') {
+      p.c.next();
+      parts.at = p.name('the feedback node the amplifier senses');
+      const rest = p.c.peek();
+      if (rest?.kind === 'ident' && rest.text === 'beta')
+        p.fail(
+          '`feedback at` closes the loop through the circuit itself; a `beta` cannot be given with it.',
+          tokenRange(rest),
+        );
+      p.finish();
+      return;
+    }
+    p.fieldList((w) => {
+      if (w.text === 'at')
+        p.fail('`feedback at NODE` and `feedback beta = …` are exclusive: write one of them.', tokenRange(w));
+      return false;
+    });
   },
-  nodes: () => [],
+  nodes: (s) => sensed(s.at),
   declares: () => [],
   build(s, ctx) {
     const first = ctx.scope.firstLive('feedback');
@@ -26,8 +48,27 @@ export const feedbackKind: StatementDescriptor<FeedbackStatement> = {
       ]);
       return NOTHING;
     }
+    if (s.at) return buildAt(s, s.at, ctx);
     const f = ctx.fields(s, feedbackKind.fields);
     if (!f) return NOTHING;
-    return { feedback: [{ beta: si(f.values.beta!), origin: ctx.origin(s, f.origins) }] };
+    return { feedback: [{ kind: 'factor', beta: si(f.values.beta!), origin: ctx.origin(s, f.origins) }] };
   },
 };
+
+function buildAt(
+  s: FeedbackStatement,
+  at: Token,
+  ctx: Parameters<typeof feedbackKind.build>[1],
+): ReturnType<typeof feedbackKind.build> {
+  const node = ctx.resolveNodeName(at, 'The feedback node');
+  if (!node) return NOTHING;
+  if (node === 'in') {
+    ctx.sink.error(
+      'reference',
+      'The feedback node cannot be the driven input `in`: name the node that the feedback network returns to.',
+      tokenRange(at),
+    );
+    return NOTHING;
+  }
+  return { feedback: [{ kind: 'node', at: { node, origin: ctx.origin(s, {}) } }] };
+}

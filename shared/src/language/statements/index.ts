@@ -14,11 +14,13 @@ import { paramKind, type ParamStatement } from './param';
 import { requireKind, type RequireStatement } from './require';
 import { stageKind, type StageStatement } from './stage';
 import type { StatementDescriptor } from './statementKind';
+import { supplyKind, type SupplyStatement } from './supply';
 import { sweepKind, type SweepStatement } from './sweep';
 
 export type Statement =
   | ParamStatement
   | NodeStatement
+  | SupplyStatement
   | StageStatement
   | LoadStatement
   | MillerStatement
@@ -39,6 +41,7 @@ export type StatementOf<K extends StatementKind> = Extract<Statement, { kind: K 
 export const STATEMENT_KINDS: { readonly [K in StatementKind]: StatementDescriptor<StatementOf<K>> } = {
   param: paramKind,
   node: nodeKind,
+  supply: supplyKind,
   stage: stageKind,
   load: loadKind,
   miller: millerKind,

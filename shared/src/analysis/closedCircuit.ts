@@ -1,0 +1,268 @@
+// The responses of a loop closed by the design's own elements (`feedback at NODE`): in → out, the output
+// impedance, the load step and each supply's rejection, all from the whole circuit's nodal equations with
+// one source at a time (docs/analysis.md, The loop of a circuit). The loop gain itself comes from the break
+// (loopCore.ts); these are the closed circuit's.
+import type { DesignModel } from '../language/model';
+import type { Network } from '../circuit/network';
+import { buildNetwork, type NetworkSource } from '../circuit/buildNetwork';
+import { realize, nodalDcGain, type StateSpace } from './realization';
+import { polesOf, zerosOf } from './polesZeros';
+import { checkPole } from './rootCheck';
+import { byMagnitude } from './core';
+import { logGrid, logMagnitudeFunction } from './loop';
+import { brentRoot, goldenMax } from '../numeric/roots';
+import { stepResponse, type StepOutcome } from './stepResponse';
+import type {
+  AnalysisProblem,
+  ClosedCircuit,
+  Complex,
+  FrequencyBand,
+  LoadStepResponse,
+  Pole,
+  StepResponse,
+  SupplyRejection,
+  Transfer,
+} from './types';
+
+/** A load step has settled when it stays within this fraction of its peak deviation from its final value. */
+export const LOAD_STEP_TOLERANCE = 0.01;
+
+/** Points per decade of the band's grid (the `bode` grid of `analyze --json`). */
+export const BAND_POINTS_PER_DECADE = 10;
+
+export interface ClosedCircuitResult {
+  readonly circuit: ClosedCircuit;
+  /** in → out step response of the whole circuit (unit input step), or why it could not be computed. */
+  readonly step?: StepResponse;
+  readonly stepUnavailable?: string;
+}
+
+interface Realized {
+  readonly network: Network;
+  readonly system: StateSpace;
+  readonly transfer: Transfer;
+}
+
+/** The transfer from one source of the closed circuit to the output; `poles` are shared by all of them. */
+function transferFrom(
+  model: DesignModel,
+  source: NetworkSource,
+  poles: readonly Complex[] | undefined,
+): { ok: true; value: Realized } | { ok: false; problems: AnalysisProblem[] } {
+  const built = buildNetwork(model, source);
+  if (!built.ok) return built;
+  const real = realize(built.network);
+  if (!real.ok) return real;
+  // Every source sees the same G and C, so the same realised A: its eigenvalues are computed once.
+  const ps = poles ?? polesOf(real.system).sort(byMagnitude);
+  const z = zerosOf(real.system);
+  const zeros = z.zeros.sort(byMagnitude);
+  let dc = nodalDcGain(built.network);
+  if (dc === undefined) dc = Math.sign(z.k) * Infinity;
+  if (z.k === 0) dc = 0;
+  return {
+    ok: true,
+    value: { network: built.network, system: real.system, transfer: { poles: ps, zeros, k: z.k, dc } },
+  };
+}
+
+/** The band where the closed circuit's responses are plotted and searched: its roots and the loop's, with room. */
+export function responseBand(roots: readonly Complex[]): FrequencyBand {
+  let min = Infinity;
+  let max = 0;
+  for (const r of roots) {
+    const m = Math.hypot(r.re, r.im);
+    if (m > 0 && Number.isFinite(m)) {
+      min = Math.min(min, m);
+      max = Math.max(max, m);
+    }
+  }
+  if (max === 0) return { loHz: 1, hiHz: 1e9 };
+  // A hundredth of the lowest root to a thousand times the highest: every corner with two decades of
+  // asymptote below and three above.
+  const lo = min / 100 / (2 * Math.PI);
+  const hi = (max * 1000) / (2 * Math.PI);
+  // Decade edges, so the grid is the same whatever the roots' exact values.
+  return { loHz: 10 ** Math.floor(Math.log10(lo)), hiHz: 10 ** Math.ceil(Math.log10(hi)) };
+}
+
+/** The band's grid (Hz): BAND_POINTS_PER_DECADE per decade, both ends included. */
+export function bandGrid(band: FrequencyBand): number[] {
+  return logGrid(band.loHz, band.hiHz, BAND_POINTS_PER_DECADE);
+}
+
+/** The largest |H| over the band and where it is (sampled on the band's grid, refined by golden section). */
+export function peakOver(t: Transfer, band: FrequencyBand): { magnitude: number; hz: number } {
+  const f = logMagnitudeFunction(t);
+  const grid = bandGrid(band);
+  const us = grid.map((hz) => Math.log(2 * Math.PI * hz));
+  let bi = 0;
+  let best = -Infinity;
+  for (let i = 0; i < us.length; i++) {
+    const v = f(us[i]);
+    if (v > best) {
+      best = v;
+      bi = i;
+    }
+  }
+  let u = us[bi];
+  if (bi > 0 && bi < us.length - 1) {
+    const g = goldenMax(f, us[bi - 1], us[bi + 1], 1e-10);
+    if (g.value > best) {
+      best = g.value;
+      u = g.x;
+    }
+  }
+  return { magnitude: Math.sqrt(Math.exp(best)), hz: Math.exp(u) / (2 * Math.PI) };
+}
+
+/** The lowest frequency where |H| falls 3 dB below |H(0)|, from DC up (undefined when it never does). */
+export function bandwidthHz(t: Transfer, band: FrequencyBand): number | undefined {
+  if (!(Math.abs(t.dc) > 0) || !Number.isFinite(t.dc)) return undefined;
+  const f = logMagnitudeFunction(t);
+  // ln|H|² − ln(|H(0)|²/2): negative once the response is 3 dB down.
+  const level = Math.log((t.dc * t.dc) / 2);
+  const g = (u: number) => f(u) - level;
+  const grid = bandGrid(band);
+  let prevU = Math.log(2 * Math.PI * grid[0]);
+  let prev = g(prevU);
+  if (!(prev > 0)) return undefined;
+  for (let i = 1; i < grid.length; i++) {
+    const u = Math.log(2 * Math.PI * grid[i]);
+    const v = g(u);
+    if (v <= 0) return Math.exp(brentRoot(g, prevU, u, prev, v, 1e-12)) / (2 * Math.PI);
+    prevU = u;
+    prev = v;
+  }
+  return undefined;
+}
+
+/**
+ * Output deviation per ampere for a one-ampere load step drawn from the output: −Zout(s)/s, from the
+ * exact step response of the current-driven network with its output negated.
+ */
+function loadStepOf(z: Realized, stable: boolean): LoadStepResponse | undefined {
+  const { system, transfer } = z;
+  const negated = { ...system, c: system.c.map((x) => -x), d: -system.d };
+  const final = stable ? -transfer.dc : NaN;
+  const outcome: StepOutcome = stepResponse(negated, transfer.poles, final, LOAD_STEP_TOLERANCE);
+  if (!outcome.ok) return undefined;
+  const { t, y } = outcome.step;
+  let peak = 0;
+  for (const v of y) peak = Math.max(peak, Math.abs(v));
+  const settlingTime = stable
+    ? recoveryTime(t, y, outcome.step.final, LOAD_STEP_TOLERANCE * peak)
+    : undefined;
+  return {
+    t,
+    y,
+    final: outcome.step.final,
+    peakDeviation: peak,
+    ...(settlingTime !== undefined ? { settlingTime } : {}),
+    tolerance: LOAD_STEP_TOLERANCE,
+  };
+}
+
+/**
+ * When the response enters ±band of its final value for good, interpolated linearly between the samples
+ * around the last one outside (the load step's band is a fraction of its peak, not of its final value).
+ */
+function recoveryTime(
+  t: readonly number[],
+  y: readonly number[],
+  final: number,
+  band: number,
+): number | undefined {
+  let last = -1;
+  for (let i = 0; i < y.length; i++) if (Math.abs(y[i] - final) > band) last = i;
+  if (last === -1) return 0;
+  if (last === y.length - 1) return undefined;
+  const e0 = Math.abs(y[last] - final) - band;
+  const e1 = Math.abs(y[last + 1] - final) - band;
+  const frac = e0 - e1 > 0 ? e0 / (e0 - e1) : 1;
+  return t[last] + frac * (t[last + 1] - t[last]);
+}
+
+/** −20·log10|H| (positive when the output moves less than the supply). */
+const rejectionDb = (magnitude: number) => -20 * Math.log10(magnitude);
+
+export function analyzeClosedCircuit(
+  model: DesignModel,
+  loopRoots: readonly Complex[],
+  tolerance: number,
+  withStep: boolean,
+): { ok: true; value: ClosedCircuitResult } | { ok: false; problems: AnalysisProblem[] } {
+  const at = model.feedbackAt;
+  if (!at) return { ok: false, problems: [{ message: 'the design has no `feedback at` node' }] };
+  const gain = transferFrom(model, { kind: 'input' }, undefined);
+  if (!gain.ok) return gain;
+  const poles = gain.value.transfer.poles;
+  const stable = poles.every((p) => p.re < 0);
+  const zout = transferFrom(model, { kind: 'current', node: model.output }, poles);
+  if (!zout.ok) return zout;
+  const band = responseBand([
+    ...loopRoots,
+    ...poles,
+    ...gain.value.transfer.zeros,
+    ...zout.value.transfer.zeros,
+  ]);
+  const supplies: SupplyRejection[] = [];
+  for (const s of model.supplies ?? []) {
+    const r = transferFrom(model, { kind: 'supply', node: s.node }, poles);
+    if (!r.ok) return r;
+    const worst = peakOver(r.value.transfer, band);
+    supplies.push({
+      node: s.node,
+      transfer: r.value.transfer,
+      dcDb: rejectionDb(Math.abs(r.value.transfer.dc)),
+      worstDb: rejectionDb(worst.magnitude),
+      worstHz: worst.hz,
+    });
+  }
+  const zPeak = peakOver(zout.value.transfer, band);
+  const loadStep = loadStepOf(zout.value, stable);
+  let step: StepResponse | undefined;
+  let stepUnavailable: string | undefined;
+  if (withStep) {
+    const outcome = stepResponse(gain.value.system, poles, stable ? gain.value.transfer.dc : NaN, tolerance);
+    if (outcome.ok) step = outcome.step;
+    else stepUnavailable = outcome.reason;
+  }
+  const bw = bandwidthHz(gain.value.transfer, band);
+  const net = gain.value.network;
+  const circuitPoles: Pole[] = poles.map((s) => {
+    const magnitude = Math.hypot(s.re, s.im);
+    const check = checkPole(net, s);
+    return {
+      s,
+      hz: magnitude / (2 * Math.PI),
+      damping: magnitude === 0 ? 1 : -s.re / magnitude,
+      participation: check.participation,
+      namedAfter: check.namedAfter,
+      residual: check.residual,
+    };
+  });
+  const circuit: ClosedCircuit = {
+    feedbackNode: at.node,
+    poles: circuitPoles,
+    gain: gain.value.transfer,
+    ...(bw !== undefined ? { bandwidthHz: bw } : {}),
+    outputImpedance: {
+      ...zout.value.transfer,
+      dcOhm: zout.value.transfer.dc,
+      peakOhm: zPeak.magnitude,
+      peakHz: zPeak.hz,
+    },
+    ...(loadStep ? { loadStep } : {}),
+    supplies,
+    band,
+  };
+  return {
+    ok: true,
+    value: {
+      circuit,
+      ...(step ? { step } : {}),
+      ...(stepUnavailable !== undefined ? { stepUnavailable } : {}),
+    },
+  };
+}
