@@ -75,6 +75,16 @@ export interface CornerJson {
     readonly overshootPct: Num;
     readonly final: Num;
   } | null;
+  /** The large-signal step a `settle … step` requirement asks for; null when none does. */
+  readonly largeSignalStep: {
+    readonly amplitude: Num;
+    readonly settlingTime: Num;
+    readonly slewingTime: Num;
+    readonly slewRateReached: Num;
+    readonly overshootPct: Num;
+    readonly limitingStage: string | null;
+    readonly samples: { readonly t: readonly Num[]; readonly y: readonly Num[] };
+  } | null;
   readonly hand: readonly {
     readonly quantity: string;
     readonly formula: string;
@@ -202,6 +212,17 @@ export function cornerJson(run: CornerRun, moved: readonly Sensitivity[] = []): 
           tolerance: num(a.step.tolerance),
           overshootPct: num(a.step.overshootPct),
           final: num(a.step.final),
+        }
+      : null,
+    largeSignalStep: a.largeSignalStep
+      ? {
+          amplitude: num(a.largeSignalStep.amplitude),
+          settlingTime: num(a.largeSignalStep.settlingTime),
+          slewingTime: num(a.largeSignalStep.slewingTime),
+          slewRateReached: num(a.largeSignalStep.slewRateReached),
+          overshootPct: num(a.largeSignalStep.overshootPct),
+          limitingStage: a.largeSignalStep.limitingStage ?? null,
+          samples: { t: a.largeSignalStep.samples.t.map(num), y: a.largeSignalStep.samples.y.map(num) },
         }
       : null,
     hand: (a.hand ?? []).map((h) => ({

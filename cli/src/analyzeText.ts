@@ -1,6 +1,6 @@
 // `analyze` without --json: readable tables of the exact results, one block per design.
 import { closedLoopVerdict } from '../../shared/src/format/closedLoop';
-import type { DesignAnalysis, Pole, Zero } from '../../shared/src/analysis/types';
+import type { DesignAnalysis, LargeSignalStep, Pole, Zero } from '../../shared/src/analysis/types';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
 import { formatGainMargin } from '../../shared/src/format/quantities';
 import { dampingRatio, modulusHz } from '../../shared/src/numeric/complex';
@@ -82,6 +82,28 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
     row('overshoot', (a) =>
       a.step && a.stability?.verdict !== 'unstable' ? `${roundSignificant(a.step.overshootPct)} %` : DASH,
     ),
+    ...largeSignalRows(runs),
+  ];
+}
+
+/** The large-signal step's rows, when a `settle … step` requirement asks for it. */
+function largeSignalRows(runs: readonly CornerRun[]): string[][] {
+  const first = runs.find((r) => r.analysis.largeSignalStep)?.analysis.largeSignalStep;
+  if (!first) return [];
+  const cell = (r: CornerRun, f: (l: LargeSignalStep) => string) => {
+    const l = r.analysis.largeSignalStep;
+    return r.analysis.problems.length > 0 ? 'not solved' : l ? f(l) : DASH;
+  };
+  const row = (label: string, f: (l: LargeSignalStep) => string) => [label, ...runs.map((r) => cell(r, f))];
+  return [
+    row(
+      `settling, ${formatSi(first.amplitude, 'V')} step (±${roundSignificant(first.tolerance * 100)} %)`,
+      (l) => (l.settlingTime !== undefined ? formatSi(l.settlingTime, 's') : 'does not settle'),
+    ),
+    row('  of which slewing', (l) => formatSi(l.slewingTime, 's')),
+    row('  slew rate reached', (l) => slewText(l.slewRateReached)),
+    row('  limiting stage', (l) => l.limitingStage ?? 'none slews'),
+    row('  overshoot', (l) => `${roundSignificant(l.overshootPct)} %`),
   ];
 }
 

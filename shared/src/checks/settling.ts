@@ -1,5 +1,8 @@
-// Settling into ±tolerance of the final value, read from the exact closed-loop step response.
-import type { StepResponse } from '../analysis/types';
+// Settling into ±tolerance of the final value, read from the exact closed-loop step response, or with
+// `step` from the large-signal one (analysis/largeSignalStep.ts).
+import type { DesignAnalysis, LargeSignalStep, StepResponse } from '../analysis/types';
+import type { Requirement } from '../language/model';
+import { largeSignalSummary } from '../format/largeSignal';
 import { settleBand } from '../analysis/stepResponse';
 import { settleToleranceProblem } from '../analysis/settleTolerance';
 import { formatPercent, formatTolerance } from '../format/quantities';
@@ -23,19 +26,42 @@ export function settlingTimeFor(step: StepResponse, tolerance: number): number |
   return last < 0 ? 0 : step.t[last + 1];
 }
 
+type SettleRequirement = Extract<Requirement, { kind: 'settle' }>;
+
+/** The large-signal step computed for `req` (a `settle … step` requirement), when it was. */
+export function largeSignalOf(req: SettleRequirement, a: DesignAnalysis): LargeSignalStep | undefined {
+  const l = a.largeSignalStep;
+  return req.step !== undefined && l && l.amplitude === req.step && l.tolerance === req.tolerance
+    ? l
+    : undefined;
+}
+
+/** The settling time `req` is judged by: the large-signal one with `step`, else the small-signal one. */
+export function requiredSettlingTime(req: SettleRequirement, a: DesignAnalysis): number | undefined {
+  if (req.step !== undefined) return largeSignalOf(req, a)?.settlingTime;
+  return a.step ? settlingTimeFor(a.step, req.tolerance) : undefined;
+}
+
+/** Why the response `req` is judged by was not computed, when it was asked for and not computed. */
+export function settlingUnavailable(req: SettleRequirement, a: DesignAnalysis): string | undefined {
+  if (req.step === undefined) return a.stepUnavailable;
+  return a.largeSignalStepUnavailable ?? (a.step ? undefined : a.stepUnavailable);
+}
+
 export const settlingCheck: Check = (input: CheckInput) =>
   acrossRuns(input, 'settling', (run): Hit[] => {
     const req = requirementOf(run.model, 'settle');
     if (!req) return [];
-    const step = run.analysis.step;
+    const a = run.analysis;
+    const step = req.step !== undefined ? largeSignalOf(req, a) : a.step;
     const pct = formatTolerance(req.tolerance);
     const range = compensationRange(input.source, primaryCompensation(run.model), run);
+    const what = req.step !== undefined ? `a ${formatSi(req.step, 'V')} step to ±${pct}` : `to ±${pct}`;
     const required = {
       range: req.origin.range,
-      message: `required: settle to ±${pct} within ${formatSi(req.within, 's')}`,
+      message: `required: settle ${what} within ${formatSi(req.within, 's')}`,
     };
-    const refused =
-      settleToleranceProblem(req.tolerance) ?? (step ? undefined : run.analysis.stepUnavailable);
+    const refused = settleToleranceProblem(req.tolerance) ?? (step ? undefined : settlingUnavailable(req, a));
     if (refused !== undefined) {
       return [
         {
@@ -49,19 +75,40 @@ export const settlingCheck: Check = (input: CheckInput) =>
       ];
     }
     if (!step) return [];
-    const ts = settlingTimeFor(step, req.tolerance);
+    const ts = requiredSettlingTime(req, a);
     if (ts !== undefined && ts <= req.within) return [];
+    const large = largeSignalOf(req, a);
+    // An overshoot that rounds to 0.0 % says nothing; the small-signal wording keeps any overshoot.
+    const overshoot = large ? step.overshootPct >= 0.05 : step.overshootPct > 0;
+    // When slewing is most of the settling, the stage whose bias limits it is where to act.
+    const limiting =
+      large && large.limitingStage !== undefined && ts !== undefined && large.slewingTime > ts / 2
+        ? run.model.stages.find((st) => st.name === large.limitingStage)
+        : undefined;
+    const biasRange = limiting?.origin.fields['bias']?.range;
     return [
       {
         key: 'settle',
         severity: 'error',
         message:
-          ts === undefined
-            ? `The step response does not settle into ±${pct} within the computed span (required ${formatSi(req.within, 's')})`
-            : `Settling to ±${pct} takes ${formatSi(ts, 's')}, longer than the required ${formatSi(req.within, 's')}` +
-              (step.overshootPct > 0 ? ` (overshoot ${formatPercent(step.overshootPct / 100)})` : ''),
+          (ts === undefined
+            ? `The step response does not settle ${req.step !== undefined ? `(${what})` : `into ±${pct}`} within the computed span (required ${formatSi(req.within, 's')})`
+            : `Settling ${what} takes ${formatSi(ts, 's')}, longer than the required ${formatSi(req.within, 's')}` +
+              (overshoot ? ` (overshoot ${formatPercent(step.overshootPct / 100)})` : '')) +
+          // Which part dominates: the slewing or the linear tail (the small-signal time beside it).
+          (large
+            ? `: ${largeSignalSummary(large, a.slew)}` +
+              (large.smallSignalSettlingTime !== undefined
+                ? ` (small-signal settling alone: ${formatSi(large.smallSignalSettlingTime, 's')})`
+                : '')
+            : ''),
         range,
-        related: [required],
+        related: [
+          required,
+          ...(biasRange && limiting
+            ? [{ range: biasRange, message: `the bias of stage ${limiting.name} limits the slewing` }]
+            : []),
+        ],
         badness: ts === undefined ? Infinity : ts / req.within,
       },
     ];

@@ -163,6 +163,7 @@ export function checkValue(
     case 'ugf':
     case 'slew':
     case 'within':
+    case 'step':
     case 'zero':
       if (value <= 0)
         return impossible(`${rule.what[0]!.toUpperCase()}${rule.what.slice(1)} must be positive.`);

@@ -1,0 +1,436 @@
+// The closed loop's response to an input step of a given size, with each stage's output current limited by
+// its bias (analysis/saturatingStages.ts): the stiff nonlinear nodal equations integrated in time.
+//
+// Unknowns are the network's node voltages y. The input node's voltage is algebraic: with a feedback
+// factor it is vin = A − β·σ·v(out) (the loop as core.ts closes it, u = r − β·σ·y); when the design's own
+// elements close the loop it is the step itself, vin = A. In charge form, with q(y) = C·y + cIn·vin(y),
+//
+//     d/dt q(y) = f(y) = −(G·y + gIn·vin(y) + Σ corrections of the saturating stages),
+//
+// that is M·y' = f(y) with the constant M = C + cIn·(∂vin/∂y)ᵀ, singular when some node has no capacitance
+// (its row is algebraic). The charge on every node is continuous across the step (the currents into a node
+// are bounded), which gives the state just after it; from there three-stage Radau IIA steps (order 5,
+// numeric/radau.ts) with step doubling for the local error: each step is taken whole and as two halves,
+// and the halves' result is kept when (halves − whole)/31 is within the tolerance (Richardson's estimate for
+// an order-5 method, whose local error scales as h⁶).
+import type { Network } from '../circuit/network';
+import type { DesignModel } from '../language/model';
+import { luFactor, luSolve } from '../numeric/luReal';
+import { END_SLOPE, radauStep, type ImplicitSystem } from '../numeric/radau';
+import { brentRoot } from '../numeric/roots';
+import { settleToleranceProblem } from './settleTolerance';
+import { saturatingStages, stageFraction, type SaturatingStage } from './saturatingStages';
+import type { Complex, LargeSignalStep, StepResponse } from './types';
+
+/** How the design's input node is driven during the step. */
+export type StepDrive =
+  { readonly kind: 'factor'; readonly beta: number; readonly sign: number } | { readonly kind: 'circuit' };
+
+export type LargeSignalOutcome =
+  { readonly ok: true; readonly step: LargeSignalStep } | { readonly ok: false; readonly reason: string };
+
+/** A stage delivering more than this fraction of its bias is slewing. */
+export const SLEWING_FRACTION = 0.9;
+/** Below this fraction of its bias every stage is linear to within 1 % of its gm (1 − tanh² ≥ 0.99). */
+const LINEAR_FRACTION = 0.1;
+/** The local error allowed per step, relative to the signal's scale (see `errorTolerance`). */
+const MAX_RELATIVE_ERROR = 1e-7;
+/** Newton's update must be this far below the error tolerance. */
+const NEWTON_FRACTION = 1e-3;
+/** A bound on the work of one response, far beyond any amplifier's step. */
+const MAX_STEPS = 200_000;
+/** At least this many samples over the small-signal span, so that the response can be drawn. */
+const SAMPLES_PER_SPAN = 20;
+
+/**
+ * The local error per step relative to the signal: fine enough that the error at the settling instant,
+ * divided by the slope there (tolerance·final/τ at least), moves the settling time by far less than
+ * 0.1 % of itself.
+ */
+const errorTolerance = (tolerance: number) => Math.min(MAX_RELATIVE_ERROR, tolerance * 1e-4);
+
+export interface LargeSignalInput {
+  readonly model: DesignModel;
+  readonly network: Network;
+  readonly drive: StepDrive;
+  readonly amplitude: number;
+  readonly tolerance: number;
+  /** The closed loop's small-signal poles (rad/s): its time scales. */
+  readonly closedPoles: readonly Complex[];
+  readonly smallSignalSettlingTime?: number;
+}
+
+/** The nodal system during the step, with what the judging needs. */
+interface StepSystem extends ImplicitSystem {
+  readonly stages: readonly SaturatingStage[];
+  /** The output as reported (σ·v(out) with a feedback factor). */
+  output(y: Float64Array): number;
+  /** Each stage's current over its bias. */
+  fractions(y: Float64Array): number[];
+  /** cIn·A: the charge the step puts on each node's capacitors to the input. */
+  readonly inputCharge: Float64Array;
+}
+
+function stepSystem(input: LargeSignalInput): StepSystem {
+  const { network, drive, amplitude: A } = input;
+  const n = network.n;
+  const o = network.output;
+  // vin(y) = A + dvin·y(o)
+  const dvin = drive.kind === 'factor' ? -drive.beta * drive.sign : 0;
+  const outSign = drive.kind === 'factor' ? drive.sign : 1;
+  const M = Float64Array.from(network.C);
+  for (let i = 0; i < n; i++) M[i * n + o] += network.cIn[i]! * dvin;
+  const stages = saturatingStages(input.model, network);
+  const vin = (y: Float64Array) => A + dvin * y[o]!;
+  const at = (t: SaturatingStage['plus'], y: Float64Array) =>
+    t === 'ground' ? 0 : t === 'input' ? vin(y) : y[t]!;
+  const control = (s: SaturatingStage, y: Float64Array) => at(s.plus, y) - at(s.minus, y);
+  const inputCharge = new Float64Array(n);
+  for (let i = 0; i < n; i++) inputCharge[i] = network.cIn[i]! * A;
+  return {
+    n,
+    M,
+    stages,
+    inputCharge,
+    output: (y) => outSign * y[o]!,
+    fractions: (y) => stages.map((s) => stageFraction(s, control(s, y))),
+    f(y, out) {
+      const u = vin(y);
+      for (let i = 0; i < n; i++) {
+        let s = network.gIn[i]! * u;
+        for (let k = 0; k < n; k++) s += network.G[i * n + k]! * y[k]!;
+        out[i] = -s;
+      }
+      // The network stamps −sign·gm·v in the row of the stage's node (current leaving); the stage delivers
+      // sign·bias·tanh(gm·v/bias) instead.
+      for (const s of stages) {
+        const v = control(s, y);
+        out[s.node]! += s.sign * (s.bias * Math.tanh((s.gm * v) / s.bias) - s.gm * v);
+      }
+    },
+    jacobian(y, out) {
+      for (let i = 0; i < n * n; i++) out[i] = -network.G[i]!;
+      for (let i = 0; i < n; i++) out[i * n + o]! -= network.gIn[i]! * dvin;
+      for (const s of stages) {
+        const th = Math.tanh((s.gm * control(s, y)) / s.bias);
+        // ∂/∂v of sign·(bias·tanh(gm·v/bias) − gm·v) = −sign·gm·tanh²
+        const d = -s.sign * s.gm * th * th;
+        const add = (t: SaturatingStage['plus'], w: number) => {
+          if (t === 'ground') return;
+          if (t === 'input') out[s.node * n + o]! += d * w * dvin;
+          else out[s.node * n + t]! += d * w;
+        };
+        add(s.plus, 1);
+        add(s.minus, -1);
+      }
+    },
+  };
+}
+
+/** Newton's method on g(y) = 0 with Jacobian `jac`; undefined when it does not converge. */
+function newton(
+  n: number,
+  y0: Float64Array,
+  residual: (y: Float64Array, out: Float64Array) => void,
+  jac: (y: Float64Array, out: Float64Array) => void,
+  scale: Float64Array,
+): Float64Array | undefined {
+  const y = Float64Array.from(y0);
+  const r = new Float64Array(n);
+  const J = new Float64Array(n * n);
+  for (let iter = 0; iter < 100; iter++) {
+    residual(y, r);
+    jac(y, J);
+    // Equilibrate rows (charges and currents differ by many decades).
+    for (let i = 0; i < n; i++) {
+      let m = 0;
+      for (let k = 0; k < n; k++) m = Math.max(m, Math.abs(J[i * n + k]!));
+      const w = m > 0 ? 1 / m : 1;
+      for (let k = 0; k < n; k++) J[i * n + k]! *= w;
+      r[i]! *= -w;
+    }
+    const lu = luFactor(J, n);
+    if (lu.singular) return undefined;
+    const dy = luSolve(lu, r);
+    // Damped: a saturating stage's tanh makes full steps overshoot far from the solution.
+    let worst = 0;
+    for (let i = 0; i < n; i++) worst = Math.max(worst, Math.abs(dy[i]!) / scale[i]!);
+    const damp = worst > 1e6 ? 1e6 / worst : 1;
+    for (let i = 0; i < n; i++) y[i]! += damp * dy[i]!;
+    if (!dy.every(Number.isFinite)) return undefined;
+    if (worst <= 1e-12) return y;
+  }
+  return undefined;
+}
+
+export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
+  const { amplitude: A, tolerance } = input;
+  if (!(Number.isFinite(A) && A > 0))
+    return { ok: false, reason: 'the step amplitude must be a positive number' };
+  const refused = settleToleranceProblem(tolerance);
+  if (refused !== undefined) return { ok: false, reason: refused };
+  const poles = input.closedPoles;
+  if (poles.length === 0 || !poles.every((p) => Number.isFinite(p.re) && Number.isFinite(p.im)))
+    return { ok: false, reason: 'the closed loop has no finite poles to set a time scale' };
+  if (!poles.every((p) => p.re < 0))
+    return { ok: false, reason: 'the closed loop is not stable, so the step never settles' };
+  const sys = stepSystem(input);
+  const n = sys.n;
+  const fastest = Math.max(...poles.map((p) => Math.hypot(p.re, p.im)));
+  const slowestDecay = Math.min(...poles.map((p) => -p.re));
+  const tail = (Math.log(1 / tolerance) + 6) / slowestDecay;
+  const rtol = errorTolerance(tolerance);
+
+  // The final value: the nonlinear equilibrium f(y) = 0, from the linear one.
+  const unit = new Float64Array(n).fill(Math.abs(A));
+  const linearFinal = linearEquilibrium(input);
+  if (!linearFinal) return { ok: false, reason: 'the closed loop has no equilibrium for this step' };
+  const finalState = newton(n, linearFinal, (y, out) => negate(sys.f, y, out), negated(sys), unit);
+  let yRef = Math.abs(A);
+  for (let i = 0; i < n; i++) yRef = Math.max(yRef, Math.abs((finalState ?? linearFinal)[i]!));
+  const scaleOf = (y: Float64Array) => {
+    const sc = new Float64Array(n);
+    for (let i = 0; i < n; i++) sc[i] = rtol * (yRef + Math.abs(y[i]!));
+    return sc;
+  };
+
+  // Just after the step: charge conservation (q(y) = q(0⁻) = 0) on the charged directions and the algebraic
+  // rows satisfied, as the limit of one backward-Euler step of vanishing length.
+  const h0 = 1e-9 / fastest;
+  const fy = new Float64Array(n);
+  const y0 = newton(
+    n,
+    new Float64Array(n),
+    (y, out) => {
+      sys.f(y, fy);
+      for (let i = 0; i < n; i++) {
+        let s = sys.inputCharge[i]! - h0 * fy[i]!;
+        for (let k = 0; k < n; k++) s += sys.M[i * n + k]! * y[k]!;
+        out[i] = s;
+      }
+    },
+    (y, out) => {
+      sys.jacobian(y, out);
+      for (let i = 0; i < n * n; i++) out[i] = sys.M[i]! - h0 * out[i]!;
+    },
+    unit,
+  );
+  if (!y0) return { ok: false, reason: 'no consistent state after the step was found' };
+
+  const t: number[] = [0];
+  const states: Float64Array[] = [y0];
+  const y: number[] = [sys.output(y0)];
+  const fractions: number[][] = [sys.fractions(y0)];
+  let slewRate = 0;
+  const slope = (start: Float64Array, stages: readonly Float64Array[], h: number) => {
+    let s = END_SLOPE[0]! * sys.output(start);
+    for (let j = 0; j < 3; j++) s += END_SLOPE[j + 1]! * sys.output(stages[j]!);
+    return Math.abs(s / h);
+  };
+  const linearSpan = Math.max(tail, input.smallSignalSettlingTime ?? 0);
+  const hMax = linearSpan / SAMPLES_PER_SPAN;
+  let now = 0;
+  let state = y0;
+  let h = Math.min(hMax, 1e-3 / fastest);
+  let lastNonlinear = 0;
+  let stop = linearSpan;
+  const hMin = 1e-14 / fastest;
+  for (let steps = 0; now < stop; steps++) {
+    if (steps > MAX_STEPS)
+      return { ok: false, reason: 'the step response takes too many steps to integrate' };
+    const sc = scaleOf(state);
+    const whole = radauStep(sys, state, h, sc, NEWTON_FRACTION);
+    const first = whole && radauStep(sys, state, h / 2, sc, NEWTON_FRACTION);
+    const second = first && radauStep(sys, first.y, h / 2, sc, NEWTON_FRACTION);
+    if (!whole || !first || !second) {
+      h /= 4;
+      if (h < hMin) return { ok: false, reason: 'the integration of the step response failed to converge' };
+      continue;
+    }
+    let err = 0;
+    for (let i = 0; i < n; i++) {
+      const e = (second.y[i]! - whole.y[i]!) / 31 / sc[i]!;
+      err += e * e;
+    }
+    err = Math.sqrt(err / n);
+    if (err <= 1) {
+      slewRate = Math.max(slewRate, slope(state, first.stages, h / 2), slope(first.y, second.stages, h / 2));
+      now += h;
+      state = second.y;
+      t.push(now);
+      states.push(state);
+      y.push(sys.output(state));
+      const fr = sys.fractions(state);
+      fractions.push(fr);
+      if (fr.some((x) => Math.abs(x) > LINEAR_FRACTION)) {
+        lastNonlinear = now;
+        // Once every stage is back in its linear range, the rest is the linear decay.
+        stop = Math.max(stop, lastNonlinear + tail);
+      }
+    }
+    const grow = err === 0 ? 4 : Math.min(4, Math.max(0.2, 0.9 * Math.pow(err, -1 / 6)));
+    h = Math.min(hMax, h * grow);
+  }
+
+  // Without a converged equilibrium, the end of the integration (a full linear tail after the last
+  // nonlinear instant) stands for it.
+  const final = finalState ? sys.output(finalState) : y[y.length - 1]!;
+  const settling = settlingTime(sys, t, y, states, final, tolerance, scaleOf);
+  const slewing = slewingSpans(t, fractions, sys.stages.length);
+  const dir = final >= 0 ? 1 : -1;
+  let peak = 0;
+  for (const v of y) peak = Math.max(peak, dir * (v - final));
+  const overshootPct = final !== 0 ? (100 * peak) / Math.abs(final) : 0;
+  return {
+    ok: true,
+    step: {
+      amplitude: A,
+      tolerance,
+      samples: { t, y },
+      final,
+      ...(settling !== undefined ? { settlingTime: settling } : {}),
+      ...(input.smallSignalSettlingTime !== undefined
+        ? { smallSignalSettlingTime: input.smallSignalSettlingTime }
+        : {}),
+      slewingTime: slewing.spans.reduce((s, x) => s + (x.end - x.start), 0),
+      slewing: slewing.spans,
+      slewRateReached: slewRate,
+      overshootPct,
+      ...(slewing.limiting !== undefined ? { limitingStage: sys.stages[slewing.limiting]!.name } : {}),
+    },
+  };
+}
+
+/** The linear closed loop's equilibrium (every stage at gm·v): (G + gIn·∂vin/∂y)·y = −gIn·A. */
+function linearEquilibrium(input: LargeSignalInput): Float64Array | undefined {
+  const { network, drive, amplitude: A } = input;
+  const n = network.n;
+  const dvin = drive.kind === 'factor' ? -drive.beta * drive.sign : 0;
+  const G = Float64Array.from(network.G);
+  for (let i = 0; i < n; i++) G[i * n + network.output]! += network.gIn[i]! * dvin;
+  const lu = luFactor(G, n);
+  if (lu.singular) return undefined;
+  const x = luSolve(
+    lu,
+    network.gIn.map((g) => -g * A),
+  );
+  return x.every(Number.isFinite) ? x : undefined;
+}
+
+/** The Jacobian of −f. */
+function negated(sys: StepSystem) {
+  return (y: Float64Array, out: Float64Array) => {
+    sys.jacobian(y, out);
+    for (let i = 0; i < out.length; i++) out[i] = -out[i]!;
+  };
+}
+
+function negate(f: (y: Float64Array, out: Float64Array) => void, y: Float64Array, out: Float64Array): void {
+  f(y, out);
+  for (let i = 0; i < out.length; i++) out[i] = -out[i]!;
+}
+
+/**
+ * The last sampled time outside ±tolerance·|final|, refined by Brent's method on the integration itself
+ * from that sample (two half steps, as accurate as the accepted steps).
+ */
+function settlingTime(
+  sys: StepSystem,
+  t: number[],
+  y: number[],
+  states: Float64Array[],
+  final: number,
+  tolerance: number,
+  scaleOf: (y: Float64Array) => Float64Array,
+): number | undefined {
+  const band = tolerance * Math.abs(final);
+  let last = -1;
+  for (let i = 0; i < y.length; i++) if (Math.abs(y[i]! - final) > band) last = i;
+  if (last === -1) return 0;
+  if (last === y.length - 1) return undefined;
+  const start = states[last]!;
+  const sc = scaleOf(start);
+  const at = (tau: number): number => {
+    if (tau === 0) return y[last]!;
+    const a = radauStep(sys, start, tau / 2, sc, NEWTON_FRACTION);
+    const b = a && radauStep(sys, a.y, tau / 2, sc, NEWTON_FRACTION);
+    return b ? sys.output(b.y) : NaN;
+  };
+  const h = t[last + 1]! - t[last]!;
+  const err = (tau: number) => Math.abs(at(tau) - final) - band;
+  const e0 = err(0);
+  const eh = Math.abs(y[last + 1]! - final) - band;
+  const tau = brentRoot(err, 0, h, e0, eh, h * 1e-9);
+  return Number.isFinite(tau) && tau >= 0 && tau <= h ? t[last]! + tau : t[last + 1];
+}
+
+/**
+ * The spans during which some stage delivers more than SLEWING_FRACTION of its bias (edges interpolated
+ * linearly between samples), and the stage that spends the longest time there.
+ */
+function slewingSpans(
+  t: readonly number[],
+  fractions: readonly number[][],
+  count: number,
+): { spans: { start: number; end: number }[]; limiting?: number } {
+  const over = (k: number | undefined) => (i: number) =>
+    k === undefined
+      ? Math.max(0, ...fractions[i]!.map(Math.abs)) - SLEWING_FRACTION
+      : Math.abs(fractions[i]![k]!) - SLEWING_FRACTION;
+  const spansOf = (g: (i: number) => number) => {
+    const spans: { start: number; end: number }[] = [];
+    let open: number | undefined;
+    const edge = (i: number) => {
+      const a = g(i - 1);
+      const b = g(i);
+      return t[i - 1]! + ((t[i]! - t[i - 1]!) * a) / (a - b);
+    };
+    for (let i = 0; i < t.length; i++) {
+      const inside = g(i) > 0;
+      if (inside && open === undefined) open = i === 0 ? 0 : edge(i);
+      else if (!inside && open !== undefined) {
+        spans.push({ start: open, end: edge(i) });
+        open = undefined;
+      }
+    }
+    if (open !== undefined) spans.push({ start: open, end: t[t.length - 1]! });
+    return spans;
+  };
+  const spans = spansOf(over(undefined));
+  let limiting: number | undefined;
+  let longest = 0;
+  for (let k = 0; k < count; k++) {
+    const time = spansOf(over(k)).reduce((s, x) => s + (x.end - x.start), 0);
+    if (time > longest) {
+      longest = time;
+      limiting = k;
+    }
+  }
+  return { spans, ...(limiting !== undefined ? { limiting } : {}) };
+}
+
+/**
+ * The large-signal step a design's `settle … step` requirement asks for (the first such requirement), for
+ * `assemble`: nothing when no requirement states a step.
+ */
+export function largeSignalFields(
+  model: DesignModel,
+  network: Network,
+  drive: StepDrive,
+  closedPoles: readonly Complex[],
+  small: StepResponse | undefined,
+): { largeSignalStep?: LargeSignalStep; largeSignalStepUnavailable?: string } {
+  const req = model.requirements.find((r) => r.kind === 'settle' && r.step !== undefined);
+  if (!req || req.kind !== 'settle' || req.step === undefined) return {};
+  const smallSignalSettlingTime = small?.tolerance === req.tolerance ? small.settlingTime : undefined;
+  const outcome = largeSignalStep({
+    model,
+    network,
+    drive,
+    amplitude: req.step,
+    tolerance: req.tolerance,
+    closedPoles,
+    ...(smallSignalSettlingTime !== undefined ? { smallSignalSettlingTime } : {}),
+  });
+  return outcome.ok ? { largeSignalStep: outcome.step } : { largeSignalStepUnavailable: outcome.reason };
+}

@@ -1,0 +1,22 @@
+// The large-signal step in words: which part of the settling dominates, slewing or the linear tail, and the
+// stage that limits the slewing with the current it has and the capacitance it charges. The settle check's
+// finding, the requirement's hover and the terminal's analyze output all read this one sentence.
+import type { LargeSignalStep, SlewEstimate } from '../analysis/types';
+import { formatSi } from './si';
+
+const ORDINALS = ['first', 'second', 'third', 'fourth', 'fifth', 'sixth', 'seventh', 'eighth'];
+
+/** `the second stage` for a stage named by its rank, else `stage NAME`. */
+const stageWords = (name: string) => (ORDINALS.includes(name) ? `the ${name} stage` : `stage ${name}`);
+
+/**
+ * `slewing 140 ns of 212 ns; the second stage limits: 95 uA into 13 pF`, or `no stage slews: the settling is
+ * linear` when no stage passes 90 % of its bias.
+ */
+export function largeSignalSummary(l: LargeSignalStep, slew: SlewEstimate | undefined): string {
+  if (l.slewingTime <= 0 || l.limitingStage === undefined) return 'no stage slews: the settling is linear';
+  const total = l.settlingTime !== undefined ? ` of ${formatSi(l.settlingTime, 's')}` : '';
+  const limit = slew?.limits.find((x) => x.stage === l.limitingStage);
+  const detail = limit ? `: ${formatSi(limit.current, 'A')} into ${formatSi(limit.cap, 'F')}` : '';
+  return `slewing ${formatSi(l.slewingTime, 's')}${total}; ${stageWords(l.limitingStage)} limits${detail}`;
+}
