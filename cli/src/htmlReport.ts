@@ -6,7 +6,9 @@ import type { Finding, Severity } from '../../shared/src/checks/types';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
 import { formatGainMargin } from '../../shared/src/format/quantities';
 import { CHARTS } from '../../shared/src/charts/descriptors';
-import { CAUTION, type PanelData } from '../../shared/src/protocol/panelData';
+import { CAUTION, type PanelData, type PanelSweep } from '../../shared/src/protocol/panelData';
+import { chartAbsent } from '../../shared/src/charts/presence';
+import { sweptText } from '../../shared/src/charts/sweepCharts';
 import type { DesignAnalysis } from '../../shared/src/analysis/types';
 import type { CornerRun, DesignReport, Worst } from '../../shared/src/report';
 import { dbText, errorText, radText, rootText, slewText } from './display';
@@ -119,6 +121,11 @@ ${body}
 `;
 }
 
+/** `cl from 1 pF to 1 nF`: which sweep a chart shows. */
+function sweepRangeText(sw: PanelSweep): string {
+  return `${sw.param} from ${sweptText(sw, sw.values[0]!)} to ${sweptText(sw, sw.values.at(-1)!)}`;
+}
+
 function count(input: ReportInput, severity: Severity): number {
   return [...input.fileFindings, ...input.designs.flatMap((d) => d.findings)].filter(
     (f) => f.severity === severity,
@@ -175,17 +182,29 @@ function designSection(d: ReportDesign, index: number): string {
   else if (d.panel.problems.length > 0) {
     parts.push(`<p class="problem">Charts not drawn: ${d.panel.problems.map(escapeHtml).join('; ')}</p>`);
   } else {
+    const panel = d.panel;
+    const figure = (c: (typeof CHARTS)[number], note: string, sweep?: number, extraClass = '') =>
+      `<figure class="chart${extraClass}"><figcaption><strong>${escapeHtml(c.title)}</strong> ${escapeHtml(note)}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}"${sweep !== undefined ? ` data-sweep="${sweep}"` : ''} role="img" aria-label="${escapeHtml(c.title)} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`;
+    // Each sweep after the first has its own pair of sweep charts (the first is drawn with the others).
+    const sweepCharts = CHARTS.filter((c) => 'onlyWhenPresent' in c && c.onlyWhenPresent);
+    const laterSweeps = (panel.sweeps ?? [])
+      .slice(1)
+      .flatMap((sw, k) => sweepCharts.map((c) => figure(c, `${sweepRangeText(sw)}. ${c.shows}`, k + 1)));
     parts.push(
       `<div class="charts">`,
-      ...CHARTS.map((c) => {
+      ...CHARTS.filter((c) => !chartAbsent(c.id, panel)).map((c) => {
         // Without a compensation capacitor there is nothing to sweep: say so instead of showing empty axes.
-        // (The drawing code still draws into the hidden canvas; it draws all four charts together.)
-        const noSweep = c.id === 'locus' && !d.panel?.compensation;
+        // (The drawing code still draws into the hidden canvas; it draws all the charts together.)
+        const noSweep = c.id === 'locus' && !panel.compensation;
+        const first = panel.sweeps?.[0];
         const note = noSweep
           ? 'This design has no compensation capacitor, so there is no pole split to show.'
-          : c.shows;
-        return `<figure class="chart${noSweep ? ' no-sweep' : ''}"><figcaption><strong>${escapeHtml(c.title)}</strong> ${escapeHtml(note)}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}" role="img" aria-label="${escapeHtml(c.title)} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`;
+          : 'onlyWhenPresent' in c && first
+            ? `${sweepRangeText(first)}. ${c.shows}`
+            : c.shows;
+        return figure(c, note, undefined, noSweep ? ' no-sweep' : '');
       }),
+      ...laterSweeps,
       `</div>`,
       `<noscript><p class="problem">The charts need JavaScript; the tables above hold the same values.</p></noscript>`,
     );
@@ -413,11 +432,17 @@ const PAGE_SCRIPT = `(function () {
     var section = document.querySelector('[data-design-index="' + i + '"]');
     var root = section && section.querySelector('.charts');
     if (!root || !d.panel) return;
-    var canvases = root.querySelectorAll('canvas[data-chart]');
+    var canvases = root.querySelectorAll('canvas[data-chart]:not([data-sweep])');
     canvases.forEach(function (c) { c.id = 'chart-' + c.getAttribute('data-chart'); });
     try {
       var set = window.AmpnoteCharts.drawCharts(root, d.panel, { colors: colors });
       report.drawn.push({ design: d.name, charts: set });
+      // A design's later sweeps: one chart at a time, into their own canvases.
+      root.querySelectorAll('canvas[data-sweep]').forEach(function (c) {
+        var sweep = Number(c.getAttribute('data-sweep'));
+        var chart = window.AmpnoteCharts.drawChart(c, c.getAttribute('data-chart'), d.panel, { colors: colors, sweep: sweep });
+        report.drawn.push({ design: d.name, sweep: sweep, charts: { [c.getAttribute('data-chart')]: chart } });
+      });
     } catch (err) {
       report.failed.push({ design: d.name, message: String(err && err.message || err) });
       var p = document.createElement('p');

@@ -27,7 +27,11 @@ export function runReport(cmd: ReportCommand, ctx: CliContext): number {
     let panel;
     if (model && d.runs.length > 0) {
       try {
-        panel = buildPanelData(model, uri, { settleTolerance: ctx.settings.settleTolerance });
+        panel = buildPanelData(model, uri, {
+          settleTolerance: ctx.settings.settleTolerance,
+          // The design's source gives the panel its sweeps (and free parameters at their written values).
+          source: d.source,
+        });
       } catch (err) {
         progress.done();
         warn(

@@ -33,7 +33,7 @@ export function panelHtml(input: PanelHtmlInput): string {
       <section class="card" id="card-${c.id}" data-chart="${c.id}">
         <header class="card-head">
           <button class="card-title" type="button" data-action="select" data-chart="${c.id}" title="${attr(c.shows)}">${attr(c.title)}</button>
-          <span class="card-tools">${c.id === 'step' ? '\n            <button type="button" id="step-zoom" data-action="zoom" data-chart="step" aria-pressed="false" title="Zoom to the settling band">Band</button>' : ''}
+          <span class="card-tools">${c.id === 'step' ? '\n            <button type="button" id="step-zoom" data-action="zoom" data-chart="step" aria-pressed="false" title="Zoom to the settling band">Band</button>' : ''}${c.id === 'sweep-margins' ? '\n            <select id="sweep-select" class="hidden" aria-label="Which sweep the sweep charts show"></select>' : ''}
             <button type="button" data-action="png" data-chart="${c.id}" title="Save this chart as PNG">PNG</button>
             <button type="button" data-action="csv" data-chart="${c.id}" title="Save this chart's data as CSV">CSV</button>
           </span>

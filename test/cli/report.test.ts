@@ -8,9 +8,13 @@ import { formatDeg, formatHz } from '../../shared/src/format/si';
 import { CAUTION } from '../../shared/src/protocol/panelData';
 import { analyzeDocument } from '../../shared/src/service';
 import { CHART_IDS, CHARTS as CHART_TABLE } from '../../shared/src/charts/descriptors';
+import { parseDocument } from '../../shared/src/language';
+import { panelSweeps } from '../../shared/src/panel/sweepPanel';
 import { cli, ensureBuilt, FIXTURES, ROOT, tempDir } from './helpers';
 
-const CHARTS = CHART_IDS;
+/** The charts every analysable design has (the sweep charts are only for designs with sweeps). */
+const ALWAYS = CHART_TABLE.filter((c) => !('onlyWhenPresent' in c && c.onlyWhenPresent));
+const CHARTS = ALWAYS.map((c) => c.id);
 let dir: ReturnType<typeof tempDir>;
 let browser: Browser;
 
@@ -124,7 +128,7 @@ describe('ampnote report', () => {
       const captions = await page.$$eval('#design-0 figcaption strong', (els) =>
         els.map((e) => e.textContent),
       );
-      expect(captions).toEqual(CHART_TABLE.map((c) => c.title));
+      expect(captions).toEqual(ALWAYS.map((c) => c.title));
       expect(errors).toEqual([]);
       expect(requests).toEqual([url]);
       // Kept for review (test-output/ is not committed).
@@ -140,6 +144,47 @@ describe('ampnote report', () => {
     expect(html).toMatch(
       /<meta http-equiv="Content-Security-Policy" content="default-src &#39;none&#39;; script-src &#39;sha256-/,
     );
+  });
+
+  it('draws the sweep charts of a design with sweeps, one pair per sweep, from the sweep’s data', async () => {
+    const text = readFileSync(join(ROOT, 'examples/twoStageLoadSweep.ampnote'), 'utf8').replace(
+      'sweep cl from 1 pF to 1 nF',
+      'sweep cl from 1 pF to 1 nF\n  sweep gm1 from 50 uS to 400 uS points 21',
+    );
+    const file = join(dir.path, 'twoSweeps.ampnote');
+    writeFileSync(file, text);
+    const sweeps = panelSweeps(parseDocument(text).designs[0]!)!;
+    const { page, errors, requests, url } = await openReport(file, 'sweeps');
+    try {
+      expect(await page.getAttribute('html', 'data-charts')).toBe('drawn');
+      const ids = await page.$$eval('canvas:not([data-sweep])', (els) => els.map((e) => e.id));
+      expect(ids).toEqual(CHART_IDS.map((c) => `chart-${c}-0`));
+      // The second sweep's pair, in canvases of their own.
+      expect(await page.$$eval('canvas[data-sweep="1"]', (els) => els.map((e) => e.dataset.chart))).toEqual([
+        'sweep-margins',
+        'sweep-locus',
+      ]);
+      // Each sweep's phase margins, as drawn, are the sweep's own (nominal corner, first dataset).
+      const drawn = await page.evaluate(() =>
+        (window as any).ampnoteReport.drawn.flatMap((d: any) =>
+          Object.entries(d.charts)
+            .filter(([id]) => id === 'sweep-margins')
+            .map(([, c]: [string, any]) => c.data.datasets[0].data.map((p: any) => p.y)),
+        ),
+      );
+      expect(drawn).toEqual(sweeps.map((s) => s.corners[0]!.phaseMarginDeg.map((v) => v ?? NaN)));
+      for (const sel of ['#chart-sweep-margins-0', '#chart-sweep-locus-0', 'canvas[data-sweep="1"]'])
+        await expect.poll(() => inkedPixels(page, sel), { timeout: 10_000 }).toBeGreaterThan(2000);
+      const captions = await page.$$eval('#design-0 figcaption', (els) => els.map((e) => e.textContent));
+      expect(captions.filter((c) => c!.includes('gm1 from 50 uS to 400 uS'))).toHaveLength(2);
+      expect(errors).toEqual([]);
+      expect(requests).toEqual([url]);
+      await page
+        .locator('#design-0 .charts')
+        .screenshot({ path: join(ROOT, 'test-output', 'cli-report-sweeps.png') });
+    } finally {
+      await page.close();
+    }
   });
 
   it('shows the engine values, the findings and the small-signal caution', async () => {

@@ -9,6 +9,8 @@ import { formatGainMargin } from '../../../shared/src/format/quantities';
 import { NOT_COMPUTED } from '../../../shared/src/format/special';
 import { CHART_IDS, isChartId, type ChartId } from '../../../shared/src/charts/descriptors';
 import { drawCharts, type ChartSet } from '../../../shared/src/charts/draw';
+import { chartAbsent, hasChartData, selectedSweep } from '../../../shared/src/charts/presence';
+import { sweptText } from '../../../shared/src/charts/sweepCharts';
 import { chartCsv } from '../../../shared/src/charts/csv';
 import { readThemeColors } from './theme';
 import { freePositionToValue, freeValueToPosition, positionToValue, valueToPosition } from './sliderScale';
@@ -60,6 +62,7 @@ const ui = {
   freeApply: $<HTMLButtonElement>('free-apply'),
   freeReset: $<HTMLButtonElement>('free-reset'),
   freeStatus: $('free-status'),
+  sweepSelect: $<HTMLSelectElement>('sweep-select'),
 };
 
 let state: PanelState = vscode.getState() ?? { selected: 'locus' };
@@ -162,8 +165,47 @@ function renderNotes(d: PanelData): void {
             : `Does not settle into ±${(100 * d.step.tolerance).toPrecision(2)} % within the time shown.`,
     splane:
       'Axes are symmetric-logarithmic: sign(v)·log10(1 + |v|/v0), with v0 a decade below the smallest root.',
+    'sweep-margins': sweepNote(d),
+    'sweep-locus': selectedSweep(d, sweepIndex(d))
+      ? `Nominal corner, the design as written. ○ where ${selectedSweep(d, sweepIndex(d))!.param} starts, × where it ends; hover a point for its value.`
+      : '',
   };
   for (const id of CHART_IDS) setText($(`note-${id}`), notes[id]);
+}
+
+/** The sweep the sweep charts show: the one chosen, when the design still has it. */
+function sweepIndex(d: PanelData): number {
+  const n = d.sweeps?.length ?? 0;
+  return state.sweep !== undefined && state.sweep < n ? state.sweep : 0;
+}
+
+function sweepNote(d: PanelData): string {
+  const sw = selectedSweep(d, sweepIndex(d));
+  if (!sw) return '';
+  const worst = sw.worstPhaseMargin;
+  const lowest = worst
+    ? `Lowest phase margin ${formatDeg(worst.value)} at ${sw.param} = ${sweptText(sw, worst.at)}${sw.corners.length > 1 ? ` (${worst.corner})` : ''}. `
+    : 'No unity crossing anywhere in the range. ';
+  const fails = sw.failing.length
+    ? `Shaded: ${[...new Set(sw.failing.map((f) => f.label))].join(', ')} fails there.`
+    : 'Every requirement holds over the whole range.';
+  return `${lowest}${fails} The design as written, not the sliders.`;
+}
+
+/** The sweep selector, shown when the design has more than one sweep; names come from the file (text). */
+function renderSweepSelect(d: PanelData): void {
+  const sweeps = d.sweeps ?? [];
+  ui.sweepSelect.classList.toggle('hidden', sweeps.length < 2);
+  if (sweeps.length < 2) return;
+  ui.sweepSelect.replaceChildren(
+    ...sweeps.map((sw, i) => {
+      const o = document.createElement('option');
+      o.value = String(i);
+      o.textContent = `${sw.param}: ${sweptText(sw, sw.values[0]!)} to ${sweptText(sw, sw.values.at(-1)!)}`;
+      return o;
+    }),
+  );
+  ui.sweepSelect.value = String(sweepIndex(d));
 }
 
 const targetValue = (t: CompensationTarget) => `${t.kind}:${t.index}`;
@@ -322,16 +364,12 @@ function onFreeInput(ev: Event): void {
 
 /** Charts with nothing to draw show only their note (no empty axes), and offer nothing to export. */
 function markEmpty(d: PanelData): void {
-  const has: Record<ChartId, boolean> = {
-    locus: d.locus.poles.length > 0,
-    bode: d.bode.hz.length > 0,
-    step: d.step.t.length > 0,
-    splane: d.poles.length + d.zeros.length > 0,
-  };
   for (const id of CHART_IDS) {
     const card = $(`card-${id}`);
-    card.classList.toggle('nodata', !has[id]);
-    for (const b of card.querySelectorAll<HTMLButtonElement>('.card-tools button')) b.disabled = !has[id];
+    const has = hasChartData(id, d);
+    card.classList.toggle('nodata', !has);
+    card.classList.toggle('absent', chartAbsent(id, d));
+    for (const b of card.querySelectorAll<HTMLButtonElement>('.card-tools button')) b.disabled = !has;
   }
 }
 
@@ -377,6 +415,7 @@ function render(d: PanelData | null): void {
   renderNotes(d);
   renderSliders(d);
   renderFree(d);
+  renderSweepSelect(d);
   markEmpty(d);
   layout();
   redraw();
@@ -390,6 +429,7 @@ function redraw(): void {
     colors: readThemeColors(document.body),
     previous: charts,
     stepBandZoom: state.stepBandZoom === true,
+    sweep: sweepIndex(data),
   });
   window.__ampnoteCharts = charts;
 }
@@ -464,6 +504,13 @@ ui.target.addEventListener('change', () => {
   setText(ui.status, 'computing…');
   post({ type: 'compensation', target });
 });
+ui.sweepSelect.addEventListener('change', () => {
+  const i = Number(ui.sweepSelect.value);
+  if (!Number.isInteger(i) || i < 0) return;
+  saveState({ sweep: i });
+  if (data) renderNotes(data);
+  redraw();
+});
 ui.reset.addEventListener('click', () => {
   saveState({ cc: undefined, rz: undefined });
   sendSlider({});
@@ -507,7 +554,7 @@ ui.grid.addEventListener('click', (ev) => {
       break;
     }
     case 'csv':
-      if (data) post({ type: 'exportCsv', chart, csv: chartCsv(chart, data) });
+      if (data) post({ type: 'exportCsv', chart, csv: chartCsv(chart, data, sweepIndex(data)) });
       break;
   }
 });

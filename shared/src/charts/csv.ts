@@ -2,6 +2,7 @@
 import type { PanelData } from '../protocol/panelData';
 import { chart as descriptor, type ChartId } from './descriptors';
 import { modulusHz } from '../numeric/complex';
+import { selectedSweep } from './presence';
 
 function quote(field: string): string {
   return /[",\n\r]/.test(field) ? `"${field.replace(/"/g, '""')}"` : field;
@@ -16,12 +17,13 @@ function rows(
   return [line(header), ...body.map(line)].join('\n') + '\n';
 }
 
-export function chartCsv(chart: ChartId, data: PanelData): string {
-  return rows(descriptor(chart).csvColumns, csvBody(chart, data));
+/** `sweep`: which of the design's sweeps the sweep charts export (the one the panel shows). */
+export function chartCsv(chart: ChartId, data: PanelData, sweep = 0): string {
+  return rows(descriptor(chart).csvColumns, csvBody(chart, data, sweep));
 }
 
 /** One row per point, in the order of the chart's `csvColumns`. */
-function csvBody(chart: ChartId, data: PanelData): (string | number | undefined)[][] {
+function csvBody(chart: ChartId, data: PanelData, sweep: number): (string | number | undefined)[][] {
   switch (chart) {
     case 'locus':
       return [...data.locus.poles, ...data.locus.zeros].flatMap((s) =>
@@ -53,6 +55,27 @@ function csvBody(chart: ChartId, data: PanelData): (string | number | undefined)
           '',
         ]),
       ];
+    case 'sweep-margins': {
+      const sw = selectedSweep(data, sweep);
+      if (!sw) return [];
+      const num = (v: number | null | undefined) => (v === null ? undefined : v);
+      return sw.corners.flatMap((c) =>
+        sw.values.map((x, i) => [
+          c.corner,
+          x,
+          num(c.phaseMarginDeg[i]),
+          num(c.ugfHz[i]),
+          num(c.gainMarginDb[i]),
+        ]),
+      );
+    }
+    case 'sweep-locus': {
+      const sw = selectedSweep(data, sweep);
+      if (!sw) return [];
+      return sw.locus.flatMap((t, k) =>
+        t.values.map((x, i) => [t.kind, k + 1, x, t.s[i]!.re, t.s[i]!.im, modulusHz(t.s[i]!)]),
+      );
+    }
   }
   const _: never = chart;
   return _;

@@ -13,6 +13,11 @@ export interface ChartDescriptor {
   readonly fileName: string;
   /** The CSV header: SI units in each column's name, so the numbers paste into a sheet as they are. */
   readonly csvColumns: readonly string[];
+  /**
+   * Shown only for a design that has what it draws (a sweep, say): absent elsewhere rather than an empty
+   * card on every design. See presence.ts.
+   */
+  readonly onlyWhenPresent?: boolean;
 }
 
 export const CHARTS = [
@@ -53,6 +58,24 @@ export const CHARTS = [
       'named_after',
       'participation',
     ],
+  },
+  {
+    id: 'sweep-margins',
+    title: 'Margins over the sweep',
+    shows:
+      'Phase margin, UGF and gain margin against the swept parameter, one line per corner, with the requirements and the stretches where one fails shaded.',
+    fileName: 'sweep-margins',
+    csvColumns: ['corner', 'swept_value_SI', 'phase_margin_deg', 'ugf_Hz', 'gain_margin_dB'],
+    onlyWhenPresent: true,
+  },
+  {
+    id: 'sweep-locus',
+    title: 'Root locus over the sweep',
+    shows:
+      'Open-loop poles and zeros of the nominal corner as the swept parameter moves from its low end (○) to its high end (×), in the complex plane (rad/s, symmetric logarithmic axes).',
+    fileName: 'sweep-locus',
+    csvColumns: ['kind', 'track', 'swept_value_SI', 'real_rad_per_s', 'imag_rad_per_s', 'magnitude_Hz'],
+    onlyWhenPresent: true,
   },
 ] as const satisfies readonly ChartDescriptor[];
 

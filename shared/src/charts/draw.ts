@@ -1,4 +1,4 @@
-// The four charts, drawn with chart.js from PanelData alone into canvases the caller hands over. No editor
+// The charts, drawn with chart.js from PanelData alone into canvases the caller hands over. No editor
 // API here: the panel's script imports this module, and the terminal checker's report inlines it as a
 // browser script (global `AmpnoteCharts`, see cli/src/chartsScript.ts).
 import {
@@ -24,6 +24,8 @@ import { symlog, symlogInverse, symlogKnee, symlogTicks } from './symlog';
 import { withAlpha, type ChartColors } from './colors';
 import { settlingMarksPlugin, type SettlingMarks } from './settlingInset';
 import { modulusHz } from '../numeric/complex';
+import { chartAbsent } from './presence';
+import { sweepLocusConfig, sweepMarginsConfig, type ChartKit } from './sweepCharts';
 
 Chart.register(
   ScatterController,
@@ -55,7 +57,16 @@ export type DatasetRole =
   | 'settling'
   | 'pole'
   | 'zero'
-  | 'closed-pole';
+  | 'closed-pole'
+  | 'sweep-pm'
+  | 'sweep-ugf'
+  | 'sweep-gm'
+  | 'sweep-requirement'
+  | 'sweep-worst'
+  | 'sweep-pole-track'
+  | 'sweep-zero-track'
+  | 'sweep-start'
+  | 'sweep-end';
 
 /** A data point keeps the value it stands for beside its plotted position (which may be transformed). */
 export interface PlotPoint {
@@ -69,11 +80,18 @@ export interface PlotPoint {
   rhp?: boolean;
   /** A pole of the closed loop (s-plane map). */
   closed?: boolean;
+  /** The swept parameter's value at this point (sweep charts). */
+  swept?: number;
+  /** The corner a sweep line belongs to. */
+  corner?: string;
+  /** Which root a locus point is, along a sweep. */
+  kind?: 'pole' | 'zero';
 }
 
 export type RoleDataset = ChartDataset<'scatter', PlotPoint[]> & { role: DatasetRole };
 
-export type ChartSet = Record<ChartId, Chart<'scatter', PlotPoint[]>>;
+/** The charts drawn, by id; a chart left out for this design (presence.ts) is absent. */
+export type ChartSet = Partial<Record<ChartId, Chart<'scatter', PlotPoint[]>>>;
 
 export interface DrawOptions {
   readonly colors: ChartColors;
@@ -81,6 +99,8 @@ export interface DrawOptions {
   readonly previous?: Partial<ChartSet>;
   /** Step chart: show only a few band widths around the final value, so a tight band is readable. */
   readonly stepBandZoom?: boolean;
+  /** Which of the design's sweeps the sweep charts show (default the first). */
+  readonly sweep?: number;
 }
 
 /** Paints the theme background under each chart, so an exported PNG reads the same as the panel. */
@@ -128,7 +148,7 @@ function describePole(p: PanelPole, index: number): string[] {
   return lines;
 }
 
-function commonOptions(colors: ChartColors) {
+export function commonOptions(colors: ChartColors) {
   return {
     responsive: true,
     maintainAspectRatio: false,
@@ -770,6 +790,20 @@ function bandZoom(data: PanelData, options: DrawOptions): { min?: number; max?: 
   return { min: data.step.final - BAND_ZOOM * band, max: data.step.final + BAND_ZOOM * band };
 }
 
+const KIT: ChartKit = {
+  backgroundPlugin,
+  axis,
+  commonOptions,
+  line,
+  decadeTicks,
+  empty: (colors) => ({
+    type: 'scatter',
+    data: { datasets: [] },
+    plugins: [backgroundPlugin],
+    options: commonOptions(colors),
+  }),
+};
+
 const BUILDERS: Record<
   ChartId,
   (d: PanelData, c: ChartColors, o: DrawOptions) => ChartConfiguration<'scatter', PlotPoint[]>
@@ -778,6 +812,8 @@ const BUILDERS: Record<
   bode: bodeConfig,
   step: stepConfig,
   splane: splaneConfig,
+  'sweep-margins': (d, c, o) => sweepMarginsConfig(KIT, d, c, o.sweep ?? 0),
+  'sweep-locus': (d, c, o) => sweepLocusConfig(KIT, d, c, o.sweep ?? 0),
 };
 
 /** The canvas for a chart: `#chart-<id>` inside root, created (in a sized box) when the page has none. */
@@ -796,24 +832,42 @@ function canvasFor(root: ParentNode, id: ChartId): HTMLCanvasElement {
 }
 
 /**
- * Draws (or redraws in place) the four charts from one PanelData. Returns the Chart objects, keyed by chart,
- * so callers can export them and tests can read back what is drawn.
+ * Draws (or redraws in place) the charts from one PanelData: every chart in the table, except those only
+ * for some designs that this design lacks (presence.ts). Returns the Chart objects, keyed by chart, so
+ * callers can export them and tests can read back what is drawn.
  */
 export function drawCharts(root: ParentNode, data: PanelData, options: DrawOptions): ChartSet {
   const out = {} as ChartSet;
   for (const id of CHART_IDS) {
-    const config = BUILDERS[id](data, options.colors, options);
-    const existing = options.previous?.[id];
-    if (existing && existing.canvas && existing.canvas.isConnected) {
-      existing.data = config.data;
-      existing.options = config.options ?? {};
-      existing.update('none');
-      out[id] = existing;
-    } else {
-      const canvas = canvasFor(root, id);
-      Chart.getChart(canvas)?.destroy();
-      out[id] = new Chart(canvas, config);
+    if (chartAbsent(id, data)) {
+      options.previous?.[id]?.destroy();
+      continue;
     }
+    const existing = options.previous?.[id];
+    out[id] = drawChart(
+      existing && existing.canvas && existing.canvas.isConnected ? existing : canvasFor(root, id),
+      id,
+      data,
+      options,
+    );
   }
   return out;
+}
+
+/** One chart into a canvas (a new Chart), or into a Chart already drawn there (updated in place). */
+export function drawChart(
+  into: HTMLCanvasElement | Chart<'scatter', PlotPoint[]>,
+  id: ChartId,
+  data: PanelData,
+  options: DrawOptions,
+): Chart<'scatter', PlotPoint[]> {
+  const config = BUILDERS[id](data, options.colors, options);
+  if (into instanceof Chart) {
+    into.data = config.data;
+    into.options = config.options ?? {};
+    into.update('none');
+    return into;
+  }
+  Chart.getChart(into)?.destroy();
+  return new Chart(into, config);
 }

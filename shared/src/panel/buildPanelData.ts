@@ -11,6 +11,7 @@ import { formatSi } from '../format/si';
 import { ANALYSABLE_MAGNITUDE } from '../language/valueRanges';
 import type { DesignModel, DesignSource } from '../language/model';
 import { freePanel } from './freeParameters';
+import { panelSweeps } from './sweepPanel';
 import {
   CAUTION,
   type CompensationChoice,
@@ -292,6 +293,8 @@ export function buildPanelData(
   ]);
   const response = loopResponse(shown, hz);
   if (token?.isCancellationRequested) return undefined;
+  const sweeps = options.source ? panelSweeps(options.source, token) : undefined;
+  if (token?.isCancellationRequested) return undefined;
 
   const step = analysis.step;
   const stable = analysis.stability ? analysis.stability.verdict === 'stable' : undefined;
@@ -338,6 +341,7 @@ export function buildPanelData(
       dcGainText: formatDcGain(analysis.dcGain),
       slewVperUs: analysis.slew ? analysis.slew.rate / 1e6 : undefined,
     },
+    ...(sweeps ? { sweeps } : {}),
     problems: [],
   };
 }

@@ -85,6 +85,56 @@ export interface FreePanel {
   readonly refused?: string;
 }
 
+/** The loop figures a sweep chart draws, per corner, one entry per swept value (null: not computed there). */
+export type SweepQuantity = 'phaseMarginDeg' | 'ugfHz' | 'gainMarginDb';
+
+export interface PanelSweepCorner {
+  readonly corner: string;
+  readonly phaseMarginDeg: readonly (number | null)[];
+  readonly ugfHz: readonly (number | null)[];
+  readonly gainMarginDb: readonly (number | null)[];
+}
+
+/** A requirement drawn as a line on the margins chart. */
+export interface PanelSweepRequirement {
+  readonly quantity: SweepQuantity;
+  readonly op: '>=' | '<=';
+  readonly value: number;
+  /** As people read it: `PM ≥ 50°`. */
+  readonly label: string;
+}
+
+/** A stretch of the swept range where a requirement fails in some corner (both ends in SI). */
+export interface PanelSweepFailure {
+  readonly from: number;
+  readonly to: number;
+  /** Which requirement: `PM ≥ 50°`, or `unstable`. */
+  readonly label: string;
+}
+
+/** One root followed along the sweep (nominal corner): its values of the parameter and where it is. */
+export interface PanelLocusTrack {
+  readonly kind: 'pole' | 'zero';
+  readonly values: readonly number[];
+  readonly s: readonly Complex[];
+}
+
+/** One `sweep` of the design, analysed exactly at each value (the design as written, not the sliders). */
+export interface PanelSweep {
+  readonly param: string;
+  /** The SI unit the parameter's values are written in (`F`, `A`, empty for a plain number). */
+  readonly unit: string;
+  readonly scale: 'log' | 'linear';
+  readonly values: readonly number[];
+  /** `nominal` first, then each corner that evaluates. */
+  readonly corners: readonly PanelSweepCorner[];
+  readonly requirements: readonly PanelSweepRequirement[];
+  readonly failing: readonly PanelSweepFailure[];
+  /** The lowest phase margin over corners and range, found between samples too. */
+  readonly worstPhaseMargin?: { readonly value: number; readonly at: number; readonly corner: string };
+  readonly locus: readonly PanelLocusTrack[];
+}
+
 export interface PanelData {
   readonly uri: string;
   readonly design: string;
@@ -145,6 +195,8 @@ export interface PanelData {
     readonly dcGainText?: string;
     readonly slewVperUs?: number;
   };
+  /** The design's sweeps, in the order written; absent when it has none. */
+  readonly sweeps?: readonly PanelSweep[];
   /** Modelling problems that stopped the analysis (then the charts are empty). */
   readonly problems: readonly string[];
   readonly caution: string;

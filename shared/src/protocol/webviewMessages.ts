@@ -33,6 +33,8 @@ export interface PanelState {
   readonly free?: Readonly<Record<string, number>>;
   /** The step chart is zoomed to its settling band. */
   readonly stepBandZoom?: boolean;
+  /** Which of the design's sweeps the sweep charts show (index in the order written). */
+  readonly sweep?: number;
   /** The compensation element the panel sweeps (absent: the design's first). */
   readonly compensation?: CompensationTarget;
   /** The document and design shown, so that a panel restored after a reload shows them again. */

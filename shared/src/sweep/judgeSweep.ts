@@ -76,6 +76,53 @@ export function failingRanges(
   return out;
 }
 
+/** A requirement the sweep judges, and where over the range it fails in any corner. */
+export interface RequirementFailure {
+  readonly req: Requirement;
+  /** Its place in the model's requirements (each corner's model lists them in the same order). */
+  readonly index: number;
+  /** Its verdict in one corner at one sample; undefined where that corner does not evaluate. */
+  readonly verdict: (
+    s: SweepSample,
+    c: number,
+  ) => { readonly value?: number; readonly pass: boolean } | undefined;
+  /** The minima found between samples for this requirement's margin (values that matter besides the samples). */
+  readonly extra: readonly number[];
+  readonly ranges: readonly FailingRange[];
+}
+
+/**
+ * Every requirement a sweep judges with its failing stretches (empty where it holds over the whole
+ * range): the findings and the panel's shading both read these.
+ */
+export function requirementFailures(source: DesignSource, result: SweepResult): RequirementFailure[] {
+  const nominal = source.nominal;
+  if (!nominal) return [];
+  const { corners } = result;
+  const out: RequirementFailure[] = [];
+  nominal.requirements.forEach((req, index) => {
+    if (!JUDGED.has(req.kind)) return;
+    const verdict = (s: SweepSample, c: number) => {
+      const run = s.runs[c];
+      const r = run?.model.requirements[index];
+      return run && r && r.kind === req.kind ? judge(r, run.analysis) : undefined;
+    };
+    const fails = (s: SweepSample) => {
+      let any: boolean | undefined;
+      for (let c = 0; c < corners.length; c++) {
+        const v = verdict(s, c);
+        if (v) any = (any ?? false) || !v.pass;
+      }
+      return any;
+    };
+    // The minima found between samples, for the margins they were searched for.
+    const q = req.kind === 'pm' ? 'phaseMarginDeg' : req.kind === 'gain-margin' ? 'gainMarginDb' : undefined;
+    const extra = q ? result.minima.flatMap((m) => (m[q] ? [m[q].at] : [])) : [];
+    out.push({ req, index, verdict, extra, ranges: failingRanges(result, fails, extra) });
+  });
+  return out;
+}
+
 /** Findings of one sweep: one per requirement that fails somewhere in the range, and instability. */
 /** `range`: where the findings are shown (the `sweep` line; the design's name for an ad-hoc sweep). */
 export function sweepFindings(source: DesignSource, range: SourceRange, result: SweepResult): Finding[] {
@@ -101,26 +148,8 @@ export function sweepFindings(source: DesignSource, range: SourceRange, result: 
     fixes: [],
   } as const;
 
-  nominal.requirements.forEach((req, index) => {
-    if (!JUDGED.has(req.kind)) return;
-    const verdict = (s: SweepSample, c: number) => {
-      const run = s.runs[c];
-      const r = run?.model.requirements[index];
-      return run && r && r.kind === req.kind ? judge(r, run.analysis) : undefined;
-    };
-    const fails = (s: SweepSample) => {
-      let any: boolean | undefined;
-      for (let c = 0; c < corners.length; c++) {
-        const v = verdict(s, c);
-        if (v) any = (any ?? false) || !v.pass;
-      }
-      return any;
-    };
-    // The minima found between samples, for the margins they were searched for.
-    const q = req.kind === 'pm' ? 'phaseMarginDeg' : req.kind === 'gain-margin' ? 'gainMarginDb' : undefined;
-    const extra = q ? result.minima.flatMap((m) => (m[q] ? [m[q].at] : [])) : [];
-    const ranges = failingRanges(result, fails, extra);
-    if (!ranges.length) return;
+  for (const { req, index, verdict, extra, ranges } of requirementFailures(source, result)) {
+    if (!ranges.length) continue;
     // The worst value: lowest for `>=`, highest for `<=`, over samples and minima, in any corner.
     const op = 'op' in req ? req.op : '>=';
     let worst: { x: number; c: number; value?: number } | undefined;
@@ -137,7 +166,7 @@ export function sweepFindings(source: DesignSource, range: SourceRange, result: 
         if (worse) worst = { x, c, ...(v.value !== undefined ? { value: v.value } : {}) };
       }
     }
-    if (!worst) return;
+    if (!worst) continue;
     const run = result.evaluate(worst.x).runs[worst.c]!;
     const m = measure(run.model.requirements[index]!, run.analysis);
     const required = m.required.replace(/^[≥≤] /, '');
@@ -153,7 +182,7 @@ export function sweepFindings(source: DesignSource, range: SourceRange, result: 
       related: [{ range: req.origin.range, message: 'the requirement' }],
       ...(corners.length > 1 ? { corners: [corners[worst.c]!] } : {}),
     });
-  });
+  }
 
   // Instability anywhere is an error whatever the requirements say.
   const unstable = (s: SweepSample) => {
