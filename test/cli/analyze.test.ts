@@ -72,6 +72,17 @@ function expectedCorner(run: CornerRun, moved: readonly Sensitivity[]) {
           final: n(a.step.final),
         }
       : null,
+    largeSignalStep: a.largeSignalStep
+      ? {
+          amplitude: n(a.largeSignalStep.amplitude),
+          settlingTime: n(a.largeSignalStep.settlingTime),
+          slewingTime: n(a.largeSignalStep.slewingTime),
+          slewRateReached: n(a.largeSignalStep.slewRateReached),
+          overshootPct: n(a.largeSignalStep.overshootPct),
+          limitingStage: a.largeSignalStep.limitingStage ?? null,
+          samples: { t: a.largeSignalStep.samples.t.map(n), y: a.largeSignalStep.samples.y.map(n) },
+        }
+      : null,
     hand: (a.hand ?? []).map((h) => ({
       quantity: h.quantity,
       formula: h.formula,
@@ -90,7 +101,13 @@ function expectedCorner(run: CornerRun, moved: readonly Sensitivity[]) {
   };
 }
 
-const FILES = ['marginal.ampnote', 'clean.ampnote', 'broken.ampnote', 'unsolvable.ampnote'];
+const FILES = [
+  'marginal.ampnote',
+  'clean.ampnote',
+  'broken.ampnote',
+  'unsolvable.ampnote',
+  'largeSignal.ampnote',
+];
 const outputs = new Map<string, any>();
 
 beforeAll(() => {
