@@ -10,6 +10,7 @@ import { findingJson, placeJson, SCHEMA_VERSION, type FindingJson, type PlaceJso
 import { findingsOfDesign, sortedFindings } from './run';
 import { gainDb } from '../../shared/src/units';
 import { dampingRatio, modulusHz } from '../../shared/src/numeric/complex';
+import { closedLoopDcGain, loopBode } from '../../shared/src/analysis/closedLoopValues';
 
 type Num = number | null;
 
@@ -31,18 +32,50 @@ export interface CornerJson {
   readonly zeros: readonly { readonly re: Num; readonly im: Num; readonly hz: Num; readonly rhp: boolean }[];
   readonly dcGain: GainJson;
   readonly openLoopUgfHz: Num;
+  /** How the loop is closed: by a factor (`feedback beta`), or by the circuit at a node (`feedback at`). */
+  readonly feedback:
+    { readonly kind: 'beta'; readonly beta: Num } | { readonly kind: 'node'; readonly node: string };
   /** The closed loop's own poles and the stability verdict they give (null verdict: not computed). */
   readonly closedLoop: {
     readonly stability: 'stable' | 'unstable' | 'marginal' | null;
     /** Right-half-plane poles of the open loop: when > 0, Bode margins do not decide stability. */
     readonly openLoopRhpPoles: number | null;
+    /** DC gain from `in` to the output of the closed loop. */
+    readonly dcGain: GainJson | null;
+    /** −3 dB frequency of the closed loop from `in` to the output, relative to its DC gain. */
+    readonly bandwidthHz: Num;
     readonly poles: readonly {
       readonly re: Num;
       readonly im: Num;
       readonly hz: Num;
       readonly damping: Num;
+      /** For a loop written as a circuit: the node holding ≥ 80 % of the pole, or `shared`; else null. */
+      readonly namedAfter: string | null;
+      readonly participation: readonly { readonly node: string; readonly share: Num }[];
     }[];
   };
+  /** The closed circuit's output impedance (`feedback at` designs; else null). */
+  readonly outputImpedance: { readonly dcOhm: Num; readonly peakOhm: Num; readonly peakHz: Num } | null;
+  /** Per `supply` (`feedback at` designs): rejection −20·log10|v(out)/v(supply)| in dB. */
+  readonly supplyRejection: readonly {
+    readonly node: string;
+    readonly dcDb: Num;
+    readonly worstDb: Num;
+    readonly worstHz: Num;
+  }[];
+  /** Output deviation per ampere of a load-current step drawn from the output (`feedback at` designs). */
+  readonly loadStep: {
+    readonly peakDeviation: Num;
+    readonly settlingTime: Num;
+    readonly final: Num;
+    readonly tolerance: Num;
+  } | null;
+  /** The loop gain on the documented grid (10 points per decade, decade-aligned, around its roots). */
+  readonly bode: {
+    readonly frequencyHz: readonly Num[];
+    readonly loopMagDb: readonly Num[];
+    readonly loopPhaseDeg: readonly Num[];
+  } | null;
   readonly loop: {
     readonly dcGain: GainJson;
     readonly ugfHz: Num;
@@ -170,16 +203,66 @@ export function cornerJson(run: CornerRun, moved: readonly Sensitivity[] = []): 
     zeros: a.zeros.map((z) => ({ re: num(z.s.re), im: num(z.s.im), hz: num(z.hz), rhp: z.rhp })),
     dcGain: gain(a.dcGain),
     openLoopUgfHz: num(a.openLoopUgfHz),
+    feedback: run.model.feedbackAt
+      ? { kind: 'node', node: run.model.feedbackAt.node }
+      : { kind: 'beta', beta: num(run.model.beta) },
     closedLoop: {
       stability: a.stability?.verdict ?? null,
       openLoopRhpPoles: a.stability?.openLoopRhpPoles ?? null,
-      poles: (a.closedLoopPoles ?? []).map((p) => ({
-        re: num(p.re),
-        im: num(p.im),
-        hz: num(modulusHz(p)),
-        damping: num(dampingRatio(p)),
-      })),
+      dcGain: (() => {
+        const g = closedLoopDcGain(a);
+        return g === undefined ? null : gain(g);
+      })(),
+      bandwidthHz: num(a.closedLoopBandwidthHz),
+      poles: a.closedCircuit
+        ? a.closedCircuit.poles.map((p) => ({
+            re: num(p.s.re),
+            im: num(p.s.im),
+            hz: num(p.hz),
+            damping: num(p.damping),
+            namedAfter: p.namedAfter,
+            participation: p.participation.map((x) => ({ node: x.node, share: num(x.share) })),
+          }))
+        : (a.closedLoopPoles ?? []).map((p) => ({
+            re: num(p.re),
+            im: num(p.im),
+            hz: num(modulusHz(p)),
+            damping: num(dampingRatio(p)),
+            namedAfter: null,
+            participation: [],
+          })),
     },
+    outputImpedance: a.closedCircuit
+      ? {
+          dcOhm: num(a.closedCircuit.outputImpedance.dcOhm),
+          peakOhm: num(a.closedCircuit.outputImpedance.peakOhm),
+          peakHz: num(a.closedCircuit.outputImpedance.peakHz),
+        }
+      : null,
+    supplyRejection: (a.closedCircuit?.supplies ?? []).map((s) => ({
+      node: s.node,
+      dcDb: num(s.dcDb),
+      worstDb: num(s.worstDb),
+      worstHz: num(s.worstHz),
+    })),
+    loadStep: a.closedCircuit?.loadStep
+      ? {
+          peakDeviation: num(a.closedCircuit.loadStep.peakDeviation),
+          settlingTime: num(a.closedCircuit.loadStep.settlingTime),
+          final: num(a.closedCircuit.loadStep.final),
+          tolerance: num(a.closedCircuit.loadStep.tolerance),
+        }
+      : null,
+    bode: (() => {
+      const b = loopBode(a);
+      return b
+        ? {
+            frequencyHz: b.frequencyHz.map(num),
+            loopMagDb: b.magDb.map(num),
+            loopPhaseDeg: b.phaseDeg.map(num),
+          }
+        : null;
+    })(),
     loop: {
       dcGain: gain(a.loop.dcGain),
       ugfHz: num(a.loop.ugfHz),

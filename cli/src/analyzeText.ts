@@ -1,6 +1,14 @@
 // `analyze` without --json: readable tables of the exact results, one block per design.
 import { closedLoopVerdict } from '../../shared/src/format/closedLoop';
-import type { DesignAnalysis, LargeSignalStep, Pole, Zero } from '../../shared/src/analysis/types';
+import type {
+  ClosedCircuit,
+  DesignAnalysis,
+  LargeSignalStep,
+  Pole,
+  Zero,
+} from '../../shared/src/analysis/types';
+import { closedLoopDcGain } from '../../shared/src/analysis/closedLoopValues';
+import { LOAD_STEP_TOLERANCE } from '../../shared/src/analysis/closedCircuit';
 import { formatDeg, formatHz, formatSi, roundSignificant } from '../../shared/src/format/si';
 import { formatGainMargin } from '../../shared/src/format/quantities';
 import { dampingRatio, modulusHz } from '../../shared/src/numeric/complex';
@@ -56,10 +64,20 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
   ];
   const opt = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? DASH : show(x));
   const tol = runs[0]?.analysis.step?.tolerance;
+  const circuit = runs[0]?.model.feedbackAt;
   return [
-    row('open-loop DC gain', (a) => `${dbText(gainDb(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`),
-    row('open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)),
-    row('loop DC gain', (a) => dbText(gainDb(a.loop.dcGain))),
+    ...(circuit
+      ? [
+          row(
+            `loop broken at ${circuit.node}, T(0)`,
+            (a) => `${dbText(gainDb(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`,
+          ),
+        ]
+      : [
+          row('open-loop DC gain', (a) => `${dbText(gainDb(a.dcGain))}  (${formatSi(a.dcGain, 'V/V')})`),
+          row('open-loop UGF', (a) => opt(a.openLoopUgfHz, formatHz)),
+        ]),
+    ...(circuit ? [] : [row('loop DC gain', (a) => dbText(gainDb(a.loop.dcGain)))]),
     row('loop UGF', (a) => opt(a.loop.ugfHz, formatHz)),
     row('phase margin', (a) => opt(a.loop.phaseMarginDeg, formatDeg)),
     row('gain margin', (a) => formatGainMargin(a.loop.gainMarginDb)),
@@ -69,6 +87,12 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
         : a.loop.crossings.map((c) => `${c.direction === 'down' ? '↓' : '↑'}${formatHz(c.hz)}`).join(' '),
     ),
     row('closed loop', (a) => closedLoopVerdict(a)),
+    row('closed-loop DC gain', (a) => {
+      const g = closedLoopDcGain(a);
+      return g === undefined ? DASH : `${dbText(gainDb(g))}  (${formatSi(g, 'V/V')})`;
+    }),
+    row('closed-loop bandwidth', (a) => opt(a.closedLoopBandwidthHz, formatHz)),
+    ...circuitRows(runs),
     row('closed-loop peaking', (a) =>
       a.stability && a.stability.verdict !== 'stable' ? DASH : dbText(a.loop.peakingDb),
     ),
@@ -85,6 +109,42 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
     ...largeSignalRows(runs),
   ];
 }
+
+/** A loop written as a circuit: its output impedance, load step and supply rejection. */
+function circuitRows(runs: readonly CornerRun[]): string[][] {
+  const first = runs.find((r) => r.analysis.closedCircuit)?.analysis.closedCircuit;
+  if (!first) return [];
+  const row = (label: string, f: (c: ClosedCircuit) => string) => [
+    label,
+    ...runs.map((r) =>
+      r.analysis.problems.length > 0
+        ? 'not solved'
+        : r.analysis.closedCircuit
+          ? f(r.analysis.closedCircuit)
+          : DASH,
+    ),
+  ];
+  return [
+    row('output impedance at DC', (c) => formatSi(Math.abs(c.outputImpedance.dcOhm), 'ohm')),
+    row(
+      '  peak',
+      (c) => `${formatSi(c.outputImpedance.peakOhm, 'ohm')} at ${formatHz(c.outputImpedance.peakHz)}`,
+    ),
+    row('load step, per A', (c) => (c.loadStep ? `peak ${formatSi(c.loadStep.peakDeviation, 'V')}` : DASH)),
+    row(`  recovers (±${roundSignificant(LOAD_STEP_TOLERANCE * 100)} % of peak)`, (c) =>
+      c.loadStep?.settlingTime !== undefined ? formatSi(c.loadStep.settlingTime, 's') : DASH,
+    ),
+    ...first.supplies.flatMap((s, i) => [
+      row(`supply rejection, ${s.node}, DC`, (c) => opt2(c.supplies[i]?.dcDb, dbText)),
+      row('  worst', (c) => {
+        const x = c.supplies[i];
+        return x ? `${dbText(x.worstDb)} at ${formatHz(x.worstHz)}` : DASH;
+      }),
+    ]),
+  ];
+}
+
+const opt2 = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? DASH : show(x));
 
 /** The large-signal step's rows, when a `settle … step` requirement asks for it. */
 function largeSignalRows(runs: readonly CornerRun[]): string[][] {
@@ -115,22 +175,35 @@ function rootsBlock(run: CornerRun): string[] {
     return out;
   }
   const rows: string[][] = [];
-  a.poles.forEach((p, i) => rows.push([i === 0 ? 'poles' : '', ...poleCells(p)]));
-  if (a.poles.length === 0) rows.push(['poles', 'none', '', '', '']);
-  a.zeros.forEach((z, i) => rows.push([i === 0 ? 'zeros' : '', ...zeroCells(z)]));
-  if (a.zeros.length === 0) rows.push(['zeros', 'none (finite)', '', '', '']);
-  // The closed loop's poles decide stability; shown beside the open loop's, upper half of each pair.
-  (a.closedLoopPoles ?? [])
-    .filter((p) => p.im >= 0)
-    .forEach((p, i) => {
-      rows.push([
-        i === 0 ? 'closed-loop poles' : '',
-        rootText(p.re, p.im),
-        formatHz(modulusHz(p)),
-        roundSignificant(dampingRatio(p), 3).toString(),
-        p.re > 0 ? 'right half-plane: unstable' : '',
-      ]);
-    });
+  // For a loop written as a circuit, the open loop is the loop gain at the break.
+  const open = a.closedCircuit ? `loop-gain poles (broken at ${a.closedCircuit.feedbackNode})` : 'poles';
+  const openZeros = a.closedCircuit ? 'loop-gain zeros' : 'zeros';
+  a.poles.forEach((p, i) => rows.push([i === 0 ? open : '', ...poleCells(p)]));
+  if (a.poles.length === 0) rows.push([open, 'none', '', '', '']);
+  a.zeros.forEach((z, i) => rows.push([i === 0 ? openZeros : '', ...zeroCells(z)]));
+  if (a.zeros.length === 0) rows.push([openZeros, 'none (finite)', '', '', '']);
+  // The closed loop's poles decide stability; shown beside the open loop's, upper half of each pair. A
+  // circuit's own poles carry their participation.
+  if (a.closedCircuit) {
+    a.closedCircuit.poles
+      .filter((p) => p.s.im >= 0)
+      .forEach((p, i) => {
+        const cells = poleCells(p);
+        if (p.s.re > 0) cells[3] = `${cells[3]}; right half-plane: unstable`;
+        rows.push([i === 0 ? 'closed-circuit poles' : '', ...cells]);
+      });
+  } else
+    (a.closedLoopPoles ?? [])
+      .filter((p) => p.im >= 0)
+      .forEach((p, i) => {
+        rows.push([
+          i === 0 ? 'closed-loop poles' : '',
+          rootText(p.re, p.im),
+          formatHz(modulusHz(p)),
+          roundSignificant(dampingRatio(p), 3).toString(),
+          p.re > 0 ? 'right half-plane: unstable' : '',
+        ]);
+      });
   out.push(...table(['', 's / 2π', '|s| / 2π', 'ζ', 'where'], rows).map((l) => '    ' + l));
   const hand = a.hand ?? [];
   if (hand.length > 0) {

@@ -1,10 +1,11 @@
 // analyzeDesign: the whole exact analysis of one design model. Never throws: modelling errors come back as
 // `problems`, located by node.
 import type { DesignModel } from '../language/model';
-import type { AnalysisProblem, DesignAnalysis, Pole, Zero } from './types';
+import type { AnalysisProblem, DesignAnalysis, Pole, Transfer, Zero } from './types';
 import type { CoreResult } from './core';
 import { analyzeLoop } from './loopCore';
-import { analyzeClosedCircuit } from './closedCircuit';
+import { analyzeClosedCircuit, bandwidthHz, responseBand } from './closedCircuit';
+import { factorClosedLoop } from './loop';
 import { checkPole, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
 import { largeSignalFields } from './largeSignalStep';
@@ -93,9 +94,9 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
   const tolerance = options.settleTolerance ?? settleRequirement(model) ?? DEFAULT_TOLERANCE;
   let step;
   let stepUnavailable: string | undefined;
+  const closedGain = factorClosedLoop({ ...r, d: r.system.d, closedPoles: r.closedPoles });
   if (options.step !== false) {
-    const a0 = r.sign * r.dcGain;
-    const final = Number.isFinite(a0) ? a0 / (1 + r.beta * a0) : 1 / r.beta;
+    const final = closedGain.dc;
     const stable = r.closedPoles.every((p) => p.re < 0);
     const outcome = stepResponse(r.closed, r.closedPoles, stable ? final : NaN, tolerance);
     if (outcome.ok) step = outcome.step;
@@ -126,7 +127,15 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     problems: [],
     closedLoopPoles: r.closedPoles,
     stability: judgeStability(r.closedPoles, r.open.poles),
+    loopGain: {
+      poles: r.open.poles,
+      zeros: r.open.zeros,
+      k: r.open.k * r.beta * r.sign,
+      dc: r.beta * r.sign * r.dcGain,
+    },
     ...(warnings.length > 0 ? { warnings } : {}),
+    // The light core (synthesis) leaves the closed loop out: then there is no closed-loop transfer either.
+    ...(r.closedPoles.length > 0 || r.open.poles.length === 0 ? closedLoopGainFields(closedGain) : {}),
   };
   return analysis;
 }
@@ -155,7 +164,16 @@ function assembleCircuit(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     ...(closed.value.step ? { step: closed.value.step } : {}),
     ...(closed.value.stepUnavailable !== undefined ? { stepUnavailable: closed.value.stepUnavailable } : {}),
     closedCircuit: closed.value.circuit,
+    ...closedLoopGainFields(closed.value.gain),
   };
+}
+
+/** The closed loop's transfer and its −3 dB bandwidth (when the closed loop was computed). */
+function closedLoopGainFields(
+  gain: Transfer,
+): Pick<DesignAnalysis, 'closedLoopGain' | 'closedLoopBandwidthHz'> {
+  const bw = bandwidthHz(gain, responseBand([...gain.poles, ...gain.zeros]));
+  return { closedLoopGain: gain, ...(bw !== undefined ? { closedLoopBandwidthHz: bw } : {}) };
 }
 
 function settleRequirement(model: DesignModel): number | undefined {

@@ -32,6 +32,9 @@ export const BAND_POINTS_PER_DECADE = 10;
 
 export interface ClosedCircuitResult {
   readonly circuit: ClosedCircuit;
+  /** in → out of the whole circuit. */
+  readonly gain: Transfer;
+  readonly bandwidthHz?: number;
   /** in → out step response of the whole circuit (unit input step), or why it could not be computed. */
   readonly step?: StepResponse;
   readonly stepUnavailable?: string;
@@ -245,8 +248,6 @@ export function analyzeClosedCircuit(
   const circuit: ClosedCircuit = {
     feedbackNode: at.node,
     poles: circuitPoles,
-    gain: gain.value.transfer,
-    ...(bw !== undefined ? { bandwidthHz: bw } : {}),
     outputImpedance: {
       ...zout.value.transfer,
       dcOhm: zout.value.transfer.dc,
@@ -261,6 +262,8 @@ export function analyzeClosedCircuit(
     ok: true,
     value: {
       circuit,
+      gain: gain.value.transfer,
+      ...(bw !== undefined ? { bandwidthHz: bw } : {}),
       ...(step ? { step } : {}),
       ...(stepUnavailable !== undefined ? { stepUnavailable } : {}),
     },

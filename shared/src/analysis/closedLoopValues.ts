@@ -4,6 +4,8 @@
 // circuit to take an output impedance of).
 import type { DesignAnalysis, Transfer } from './types';
 import { evaluatePzk } from './polesZeros';
+import { bandGrid, responseBand } from './closedCircuit';
+import { pzBode } from './frequency';
 
 /** |H(j·2π·hz)| of a pole/zero/gain transfer. */
 export function magnitudeAt(t: Transfer, hz: number): number {
@@ -44,13 +46,29 @@ export function loadStepDeviation(a: DesignAnalysis, step: number): number | und
 }
 
 /**
- * The closed loop's DC gain from the input to the output (V/V): the circuit's own for `feedback at`;
- * for a loop given by a factor, σA(0)/(1 + βσA(0)) = |A(0)|/(1 + L(0)), since the loop gain L(0) = β·|A(0)|.
+ * The closed loop's DC gain from the input to the output (V/V), from the closed-loop transfer when it was
+ * computed; else, for a loop given by a factor, σA(0)/(1 + βσA(0)) = |A(0)|/(1 + L(0)), since the loop
+ * gain L(0) = β·|A(0)|.
  */
 export function closedLoopDcGain(a: DesignAnalysis): number | undefined {
-  if (a.closedCircuit) return a.closedCircuit.gain.dc;
+  if (a.closedLoopGain) return a.closedLoopGain.dc;
   const a0 = Math.abs(a.dcGain);
   if (!(a0 > 0) || a.problems.length > 0) return undefined;
   if (Number.isFinite(a0)) return a0 / (1 + a.loop.dcGain);
   return a.step?.final;
+}
+
+/** The loop gain's Bode data on the band grid of its roots (documented for `analyze --json`, `bode`). */
+export function loopBode(
+  a: DesignAnalysis,
+): { readonly frequencyHz: number[]; readonly magDb: number[]; readonly phaseDeg: number[] } | undefined {
+  const l = a.loopGain;
+  if (!l || a.problems.length > 0) return undefined;
+  const roots = [...l.poles, ...l.zeros];
+  const frequencyHz = bandGrid(responseBand(roots));
+  let max = 0;
+  for (const r of roots) max = Math.max(max, Math.hypot(r.re, r.im));
+  // Roots below this are at the origin to working precision (as everywhere in the loop analysis).
+  const bode = pzBode(l, frequencyHz, 1, max * 1e-14);
+  return { frequencyHz, magDb: bode.magDb, phaseDeg: bode.phaseDeg };
 }

@@ -491,14 +491,24 @@ export function loopMetrics(input: LoopInput): LoopMetrics {
  * Peak of |σA/(1 + βσA)| over its DC value, dB (0 without a peak). A peak of a rational response lies
  * near its poles or zeros, so the search spans the closed-loop roots a decade either side.
  */
-function closedLoopPeakingDb(input: LoopInput): number {
+/**
+ * The closed loop σA/(1 + βσA) in pole/zero/gain form: it keeps the open-loop zeros over the closed-loop
+ * poles; its leading coefficient is σk/(1 + βσd) when d ≠ 0 and σk otherwise (the denominator stays monic
+ * of the same degree), and its DC value a0/(1 + β·a0) with a0 = σA(0) (1/β with a pole at the origin).
+ */
+export function factorClosedLoop(
+  input: Pick<LoopInput, 'open' | 'beta' | 'sign' | 'd' | 'closedPoles' | 'dcGain'>,
+): PoleZeroForm & { readonly dc: number } {
   const { open, beta, sign, d } = input;
-  // The closed loop keeps the open-loop zeros; its leading coefficient is σk/(1 + βσd) when d ≠ 0 and
-  // σk otherwise (the denominator stays monic of the same degree).
   const kcl = d !== 0 && open.k === d ? (sign * d) / (1 + beta * sign * d) : sign * open.k;
-  const cl: PoleZeroForm = { poles: input.closedPoles, zeros: open.zeros, k: kcl };
   const a0 = sign * input.dcGain;
-  const h0 = Number.isFinite(a0) ? a0 / (1 + beta * a0) : 1 / beta;
+  const dc = Number.isFinite(a0) ? a0 / (1 + beta * a0) : 1 / beta;
+  return { poles: input.closedPoles, zeros: open.zeros, k: kcl, dc };
+}
+
+function closedLoopPeakingDb(input: LoopInput): number {
+  const cl = factorClosedLoop(input);
+  const h0 = cl.dc;
   const h0sq = h0 * h0;
   if (!(h0sq > 0) || !Number.isFinite(h0sq)) return 0;
   const span = frequencySpan(cl);

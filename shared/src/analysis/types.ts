@@ -207,6 +207,18 @@ export interface DesignAnalysis {
    * holds the whole circuit's responses.
    */
   readonly closedCircuit?: ClosedCircuit;
+  /**
+   * The closed loop from `in` to the output: for `feedback beta`, σA/(1 + βσA) (the open loop's zeros over
+   * the closed loop's poles); for `feedback at`, the whole circuit's. Absent when not computed.
+   */
+  readonly closedLoopGain?: Transfer;
+  /**
+   * The loop gain as one transfer: β·σ·A(s) for `feedback beta`, the return ratio T(s) for `feedback at`
+   * (dc signed: positive for negative feedback). Its roots are `poles` and `zeros`.
+   */
+  readonly loopGain?: Transfer;
+  /** −3 dB frequency of |closedLoopGain| relative to its DC value; absent when it never falls 3 dB. */
+  readonly closedLoopBandwidthHz?: number;
 }
 
 /** Poles and zeros at one value of a swept component. */
@@ -284,10 +296,6 @@ export interface ClosedCircuit {
   readonly feedbackNode: string;
   /** The closed circuit's poles (its natural frequencies), with their participation in its nodes. */
   readonly poles: readonly Pole[];
-  /** in → out of the whole circuit. */
-  readonly gain: Transfer;
-  /** −3 dB frequency of |in → out| relative to its DC value; absent when it never falls 3 dB. */
-  readonly bandwidthHz?: number;
   /** v(out)/i for a current injected into the output (Ω). */
   readonly outputImpedance: Transfer & {
     readonly dcOhm: number;

@@ -36,8 +36,11 @@ export function compensationFixes(input: CheckInput, rule: RuleSlack, goal: stri
   const nominalRun = input.runs.find((r) => r.corner === 'nominal');
   if (!knobs.length && nominalRun) {
     const element = dominantPoleElement(nominal, nominalRun.analysis);
-    const cap = element?.origin.fields['cap'];
-    if (element && cap) knobs.push(...knobsOf(nominal, cap, `cap of ${element.label}`));
+    const cap = element?.origin.fields[element.field];
+    if (element && cap)
+      knobs.push(
+        ...knobsOf(nominal, cap, element.field === 'cap' ? `cap of ${element.label}` : element.label),
+      );
   }
   if (!knobs.length) return [];
   const outcomes = knobs.map((knob) =>

@@ -2,6 +2,7 @@
 import type {
   DesignModel,
   DesignSource,
+  Element,
   FieldOrigin,
   NodeName,
   Origin,
@@ -55,21 +56,30 @@ export function compensationRange(
 ): SourceRange {
   if (comp) return fieldRange(comp.item.origin, 'cc');
   const element = run && dominantPoleElement(run.model, run.analysis);
-  return element ? fieldRange(element.origin, 'cap') : source.nameRange;
+  if (element) return fieldRange(element.origin, element.field);
+  return run?.model.feedbackAt?.origin.keywordRange ?? source.nameRange;
 }
 
 /** The statement (a load or a stage) at the node that takes the largest part in the lowest pole. */
 export function dominantPoleElement(
   model: DesignModel,
   analysis: DesignAnalysis,
-): { readonly origin: Origin; readonly label: string } | undefined {
+): { readonly origin: Origin; readonly label: string; readonly field: string } | undefined {
   const lowest = sortedPoles(analysis.poles)[0];
   const node = lowest?.participation[0]?.node;
   if (node === undefined) return undefined;
   const load = model.loads.find((l) => l.node === node && l.cap !== undefined);
-  if (load) return { origin: load.origin, label: `load at ${node}` };
+  if (load) return { origin: load.origin, label: `load at ${node}`, field: 'cap' };
   const stage = model.stages.find((s) => s.name === node);
-  return stage ? { origin: stage.origin, label: `stage ${stage.name}` } : undefined;
+  if (stage) return { origin: stage.origin, label: `stage ${stage.name}`, field: 'cap' };
+  // The largest capacitor written as an element at that node (an output capacitor with its ESR).
+  let cap: Extract<Element, { kind: 'cap' }> | undefined;
+  for (const el of model.elements) {
+    if (el.kind !== 'cap') continue;
+    const touches = [el.a, el.b].some((t) => t.kind === 'node' && t.name === node);
+    if (touches && (!cap || el.value > cap.value)) cap = el;
+  }
+  return cap ? { origin: cap.origin, label: `the capacitor at ${node}`, field: 'value' } : undefined;
 }
 
 /** Poles sorted by magnitude, lowest first. */
