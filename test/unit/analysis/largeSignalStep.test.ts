@@ -11,6 +11,8 @@ import { largeSignalStep } from '../../../shared/src/analysis/largeSignalStep';
 import { expm } from '../../../shared/src/numeric/expm';
 import { RADAU_A, RADAU_C, radauStep } from '../../../shared/src/numeric/radau';
 import { parseDocument } from '../../../shared/src/language';
+import { measure } from '../../../shared/src/checks/measure';
+import { requirementSlack } from '../../../shared/src/checks/requirementSlack';
 import type { DesignModel } from '../../../shared/src/language/model';
 
 // The package ships its TypeScript source, which the project's strict type check would compile; loaded
@@ -209,5 +211,22 @@ end
     const e1 = Math.abs(ys[last + 1]! - final) - band;
     const reference = ts[last]! + ((ts[last + 1]! - ts[last]!) * e0) / (e0 - e1);
     expect(relErr(large.settlingTime!, reference)).toBeLessThan(0.005);
+  });
+
+  it('is what the settle requirement is judged by: its hover text and the slack of the solve', () => {
+    const model = modelOf(twoStage('1 V'));
+    const a = analyzeDesign(model);
+    const large = a.largeSignalStep!;
+    const req = model.requirements.find((r) => r.kind === 'settle')!;
+    // The slack is the log ratio of the required time over the large-signal settling time (≥ 0 when met).
+    expect(requirementSlack(req, a)).toBeCloseTo(Math.log(1e-6 / large.settlingTime!), 12);
+    expect(large.settlingTime!).toBeGreaterThan(2 * large.smallSignalSettlingTime!);
+    const m = measure(req, a);
+    expect(m.label).toBe('settling of a 1 V step to ±0.1 %');
+    // The first stage's 10 uA charges the 1 pF Miller capacitor (docs/analysis.md, Slew rate).
+    expect(m.measured).toMatch(
+      /^[\d.]+ ns \(slewing [\d.]+ ns of [\d.]+ ns; the first stage limits: 10 uA into 1 pF\)$/,
+    );
+    expect(m.pass).toBe(true);
   });
 });
