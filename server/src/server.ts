@@ -1,6 +1,7 @@
 // The Ampnote language server: an adapter from LSP to the core's analyzeDocument. Every method the server
 // answers is registered below, one line each. Runs over stdio (`--stdio`) or IPC (`--node-ipc`).
 import {
+  CodeLensRefreshRequest,
   createConnection,
   DidChangeConfigurationNotification,
   ErrorCodes,
@@ -58,7 +59,18 @@ const store = new DocumentStore(
 );
 /** Validation waits this long after an edit; a client may choose another delay when it initializes. */
 let validationDelayMs = 200;
-const diagnostics = createDiagnosticsScheduler(connection, store, settings, log, () => validationDelayMs);
+/** The client asks for code lenses again when told to (the sweep lenses arrive after the sweeps run). */
+let canRefreshCodeLens = false;
+const diagnostics = createDiagnosticsScheduler(
+  connection,
+  store,
+  settings,
+  log,
+  () => validationDelayMs,
+  () => {
+    if (canRefreshCodeLens) void connection.sendRequest(CodeLensRefreshRequest.type).catch(() => undefined);
+  },
+);
 
 /** After `shutdown` the protocol allows only `exit`: every other request is an invalid request. */
 let shutDown = false;
@@ -106,6 +118,7 @@ const position = (params: unknown) => {
 
 connection.onInitialize((params): InitializeResult => {
   canAskConfiguration = !!params.capabilities.workspace?.configuration;
+  canRefreshCodeLens = !!params.capabilities.workspace?.codeLens?.refreshSupport;
   canRegisterConfiguration = !!params.capabilities.workspace?.didChangeConfiguration?.dynamicRegistration;
   const delay = (params.initializationOptions as { validationDelayMs?: unknown } | null | undefined)
     ?.validationDelayMs;

@@ -17,9 +17,7 @@ import type { DesignModel, DesignSource, ParsedDocument } from './language/model
 import type { SourcePosition, SourceRange } from './language/source';
 import type { CornerRun, DesignReport, DocumentReport } from './report';
 import { splitLines } from './text/lines';
-import { sweepFindings } from './sweep/judgeSweep';
-import { summarizeSweep, type SweepSummary } from './sweep/summary';
-import { specOf, sweepDesign } from './sweep/sweepDesign';
+import { runSweeps } from './sweep/runSweeps';
 
 /** The analysis engine as the checks use it to solve and re-check fixes. */
 export const ENGINE: CheckEngine = {
@@ -36,6 +34,12 @@ export interface AnalysisCacheOptions {
    * the panel computes its own).
    */
   readonly stepResponse?: 'always' | 'when-required';
+  /**
+   * `inline` (the default) runs each design's sweeps with its checks; `deferred` leaves them out, for a
+   * caller that publishes the ordinary findings first and adds the sweeps' after (sweep/sweepDocument.ts:
+   * the editor).
+   */
+  readonly sweeps?: 'inline' | 'deferred';
 }
 
 /**
@@ -129,25 +133,16 @@ export function analyzeDesignSource(
   const findings = incomplete
     ? []
     : [...problemFindings(source, runs), ...withSolveFix(runChecks(input), source, settings)];
-  const sweeps = incomplete ? [] : runSweeps(source, findings, token);
-  return { source, runs, worst, findings, ...notChecked, ...(sweeps.length ? { sweeps } : {}) };
-}
-
-/**
- * The design's sweeps, after the ordinary checks: each adds its findings (only when it finished) and a
- * summary for the editor.
- */
-function runSweeps(source: DesignSource, findings: Finding[], token?: CancelToken): SweepSummary[] {
-  const out: SweepSummary[] = [];
-  for (const sweep of source.nominal?.sweeps ?? []) {
-    if (token?.isCancellationRequested) break;
-    const spec = specOf(source, sweep);
-    if (!spec) continue;
-    const result = sweepDesign(source, spec, token);
-    if (result.complete) findings.push(...sweepFindings(source, sweep.origin.range, result));
-    out.push(summarizeSweep(result, sweep.origin.range));
-  }
-  return out;
+  const sweeps = incomplete || options.sweeps === 'deferred' ? undefined : runSweeps(source, token);
+  if (sweeps) findings.push(...sweeps.findings);
+  return {
+    source,
+    runs,
+    worst,
+    findings,
+    ...notChecked,
+    ...(sweeps?.summaries.length ? { sweeps: sweeps.summaries } : {}),
+  };
 }
 
 /** A network the engine cannot solve (a node with no DC path and no capacitance): an error at that node. */

@@ -3,6 +3,7 @@
 import { execFileSync, fork } from 'node:child_process';
 import { readdirSync, readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createMessageConnection, IPCMessageReader, IPCMessageWriter } from 'vscode-jsonrpc/node';
 import type {
@@ -57,14 +58,49 @@ describe('language server over stdio', () => {
 
   it.each(EXAMPLES)('publishes the findings of %s with their codes at their ranges', async (file) => {
     const uri = client.openFile(`examples/${file}`);
-    const diagnostics = await client.diagnosticsFor(uri, 1);
     const text = readFileSync(resolve(ROOT, 'examples', file), 'utf8');
+    // A document with sweeps is published twice: the ordinary findings, then with the sweeps' added.
+    const publishes = /^\s*sweep\s/m.test(text) ? 2 : 1;
+    const diagnostics = await waitFor(
+      () => {
+        const list = client.published.get(uri)?.filter((p) => p.version === 1) ?? [];
+        return list.length >= publishes ? list.at(-1)!.diagnostics : undefined;
+      },
+      20_000,
+      `diagnostics of ${file}`,
+    );
     const expected = analyzeDocument(text).findings.map(key).sort();
     expect(diagnostics.map(key).sort()).toEqual(expected);
     for (const d of diagnostics) {
       expect(d.source).toBe('ampnote');
       expect(d.codeDescription?.href).toMatch(new RegExp(`^file://.*docs/checks\\.md#${String(d.code)}$`));
     }
+  });
+
+  it('publishes a design’s ordinary findings first, then again with its sweeps’ findings', async () => {
+    // Earlier tests may have opened the same file: only what is published from here on counts.
+    client.published.delete(pathToFileURL(resolve(ROOT, 'examples/twoStageLoadSweep.ampnote')).href);
+    const uri = client.openFile('examples/twoStageLoadSweep.ampnote');
+    const text = readFileSync(resolve(ROOT, 'examples/twoStageLoadSweep.ampnote'), 'utf8');
+    const list = await waitFor(
+      () => {
+        const l = client.published.get(uri)?.filter((p) => p.version === 1) ?? [];
+        return l.length >= 2 ? l : undefined;
+      },
+      20_000,
+      'two publishes',
+    );
+    const [ordinary, swept] = list as [(typeof list)[0], (typeof list)[0]];
+    // The example's phase margin fails inside the swept range (its own comment): a `sweep` finding.
+    expect(ordinary.diagnostics.filter((d) => d.code === 'sweep')).toEqual([]);
+    expect(swept.diagnostics.filter((d) => d.code === 'sweep').length).toBeGreaterThan(0);
+    expect(ordinary.at).toBeLessThanOrEqual(swept.at);
+    // Together they are what the terminal reports in one pass.
+    expect(swept.diagnostics.map(key).sort()).toEqual(analyzeDocument(text).findings.map(key).sort());
+    // The sweep's code lens reads the swept report.
+    const lenses = await client.request<CodeLens[]>('textDocument/codeLens', { textDocument: { uri } });
+    expect(lenses.some((l) => /^PM .* over cl \(worst/.test(l.command?.title ?? ''))).toBe(true);
+    client.close(uri);
   });
 
   it('reports the RHP zero on the Miller line and gm-ratio on the second stage gm', async () => {

@@ -1,5 +1,7 @@
 // Push diagnostics: debounced per document on the server, computed in slices, published for the version
-// they were computed from, cleared on close.
+// they were computed from, cleared on close. A document with sweeps is published twice: its ordinary
+// findings as soon as they are ready, then again with the sweeps' (which take longer) once they have run;
+// an edit in between cancels the sweeps.
 import { CancellationTokenSource, type Connection, type Diagnostic } from 'vscode-languageserver';
 import type { DocumentReport } from '../../../shared/src/report';
 import { toDiagnostic } from '../convert';
@@ -25,6 +27,8 @@ export function createDiagnosticsScheduler(
   settings: SettingsSource,
   log: Logger,
   debounceMs: () => number = () => 200,
+  /** Called when a document's sweeps have run (the server refreshes the code lenses that show them). */
+  onSwept: (uri: string) => void = () => undefined,
 ): DiagnosticsScheduler {
   const timers = new Map<string, NodeJS.Timeout>();
   const running = new Map<string, CancellationTokenSource>();
@@ -51,6 +55,15 @@ export function createDiagnosticsScheduler(
         version: done.document.version,
         diagnostics: diagnosticsOf(done.report, uri),
       });
+      if (source.token.isCancellationRequested) return;
+      const swept = await store.sweep(uri, source.token);
+      if (!swept || swept.report === done.report || source.token.isCancellationRequested) return;
+      await connection.sendDiagnostics({
+        uri,
+        version: swept.document.version,
+        diagnostics: diagnosticsOf(swept.report, uri),
+      });
+      onSwept(uri);
     } catch (error) {
       log.error(`[diagnostics] ${error instanceof Error ? (error.stack ?? error.message) : String(error)}`);
     } finally {

@@ -177,7 +177,24 @@ export const fromScale = (spec: SweepSpec, u: number) => (spec.scale === 'log' ?
 /** The relative width, on the sweep's scale, to which minima and edges between samples are located. */
 const LOCATE_TOLERANCE = 1e-4;
 
+/** A sweep done in one go (see sweepDesignSteps for one that pauses). */
 export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: CancelToken): SweepResult {
+  const steps = sweepDesignSteps(source, spec, token);
+  for (;;) {
+    const next = steps.next();
+    if (next.done) return next.value;
+  }
+}
+
+/**
+ * The sweep, yielding after each analysed value and each search between values, so that a caller on an
+ * event loop (the language server) can let an edit through and stop it there.
+ */
+export function* sweepDesignSteps(
+  source: DesignSource,
+  spec: SweepSpec,
+  token?: CancelToken,
+): Generator<void, SweepResult, void> {
   const corners = ['nominal', ...source.corners.filter((c) => c.model).map((c) => c.name)];
   // Per value: the models of every corner (one parse), and each corner's analysis once it is asked for,
   // so that a search between samples in one corner analyses only that corner.
@@ -211,8 +228,10 @@ export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: Cance
       break;
     }
     samples.push(evaluate(v));
+    yield;
   }
-  const minima = corners.map((_, c) => {
+  const minima: Partial<Record<MarginQuantity, SweepExtreme>>[] = [];
+  for (let c = 0; c < corners.length; c++) {
     const out: Partial<Record<MarginQuantity, SweepExtreme>> = {};
     for (const q of REFINED) {
       if (token?.isCancellationRequested) {
@@ -221,9 +240,10 @@ export function sweepDesign(source: DesignSource, spec: SweepSpec, token?: Cance
       }
       const m = lowest(spec, samples, c, q, corners[c]!, (x) => runAt(x, c));
       if (m) out[q] = m;
+      yield;
     }
-    return out;
-  });
+    minima.push(out);
+  }
   return { spec, corners, samples, minima, complete, evaluate };
 }
 
