@@ -8,7 +8,7 @@ import { analyzeClosedCircuit, bandwidthHz, responseBand } from './closedCircuit
 import { factorClosedLoop } from './loop';
 import { checkPole, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
-import { largeSignalFields } from './largeSignalStep';
+import { largeSignalFields, largeSignalFieldsOfCircuit } from './largeSignalStep';
 import { slewEstimate } from './slew';
 import { handEstimates } from './handEstimates';
 import { judgeStability } from './stability';
@@ -163,6 +163,9 @@ function assembleCircuit(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     openLoopUgfHz: r.loop.ugfHz,
     ...(closed.value.step ? { step: closed.value.step } : {}),
     ...(closed.value.stepUnavailable !== undefined ? { stepUnavailable: closed.value.stepUnavailable } : {}),
+    ...(options.step !== false
+      ? largeSignalFieldsOfCircuit(model, closed.value.gain.poles, closed.value.step)
+      : {}),
     closedCircuit: closed.value.circuit,
     ...closedLoopGainFields(closed.value.gain),
   };

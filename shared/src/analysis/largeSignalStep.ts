@@ -14,6 +14,7 @@
 // and the halves' result is kept when (halves − whole)/31 is within the tolerance (Richardson's estimate for
 // an order-5 method, whose local error scales as h⁶).
 import type { Network } from '../circuit/network';
+import { buildNetwork } from '../circuit/buildNetwork';
 import type { DesignModel } from '../language/model';
 import { luFactor, luSolve } from '../numeric/luReal';
 import { END_SLOPE, radauStep, type ImplicitSystem } from '../numeric/radau';
@@ -433,4 +434,20 @@ export function largeSignalFields(
     ...(smallSignalSettlingTime !== undefined ? { smallSignalSettlingTime } : {}),
   });
   return outcome.ok ? { largeSignalStep: outcome.step } : { largeSignalStepUnavailable: outcome.reason };
+}
+
+/**
+ * The same for a loop closed by the design's own elements (`feedback at NODE`): the whole circuit with `in`
+ * driven by the step, vin = A, and the output as it is (no sign normalisation). `closedPoles` are the
+ * circuit's own poles.
+ */
+export function largeSignalFieldsOfCircuit(
+  model: DesignModel,
+  closedPoles: readonly Complex[],
+  small: StepResponse | undefined,
+): { largeSignalStep?: LargeSignalStep; largeSignalStepUnavailable?: string } {
+  if (!model.requirements.some((r) => r.kind === 'settle' && r.step !== undefined)) return {};
+  const built = buildNetwork(model, { kind: 'input' });
+  if (!built.ok) return { largeSignalStepUnavailable: built.problems[0]?.message ?? 'no network' };
+  return largeSignalFields(model, built.network, { kind: 'circuit' }, closedPoles, small);
 }

@@ -28,10 +28,12 @@ export interface SaturatingStage {
 export function saturatingStages(model: DesignModel, network: Network): SaturatingStage[] {
   const index = new Map<string, number>();
   network.nodes.forEach((node, i) => index.set(node.name, i));
-  const terminal = (ref: NodeRef | undefined): ControlTerminal | undefined => {
+  // A sensed node that is no unknown of the network is held at small-signal ground (a `supply`, or `in`
+  // grounded when a supply is the source).
+  const terminal = (ref: NodeRef | undefined): ControlTerminal => {
     if (ref === undefined || ref.kind === 'ground') return 'ground';
-    if (ref.name === model.input) return 'input';
-    return index.get(ref.name);
+    if (ref.name === network.inputName) return 'input';
+    return index.get(ref.name) ?? 'ground';
   };
   const out: SaturatingStage[] = [];
   for (const st of model.stages) {
@@ -39,7 +41,7 @@ export function saturatingStages(model: DesignModel, network: Network): Saturati
     const node = index.get(st.name);
     const plus = terminal(st.input);
     const minus = terminal(negativeInput(st));
-    if (node === undefined || plus === undefined || minus === undefined) continue;
+    if (node === undefined) continue;
     out.push({
       name: st.name,
       node,

@@ -229,4 +229,25 @@ end
     );
     expect(m.pass).toBe(true);
   });
+
+  it('a loop closed by the circuit itself gives the same step as the same loop closed by a factor', () => {
+    // The follower of the two-stage design written as a circuit: the first stage senses in − second
+    // (inverting, so that the loop is negative: v2 = A1·A2·(vin − v2)). Mirroring both node voltages maps
+    // it onto the factor form (u = A + v2, output −v2), so the two responses are the same function of time.
+    const circuit = modelOf(`design follower
+  stage first  from in, second gm = 200 uS rout = 5 Mohm cap = 50 fF bias = 10 uA inverting
+  stage second gm = 2 mS rout = 200 kohm cap = 100 fF bias = 100 uA inverting
+  load cap = 2 pF
+  miller first -> second cc = 1 pF
+  feedback at second
+  require settle 0.1 % within 1 us step 1 V
+end
+`);
+    const a = analyzeDesign(circuit).largeSignalStep!;
+    const b = analyzeDesign(modelOf(twoStage('1 V'))).largeSignalStep!;
+    expect(relErr(a.final, b.final)).toBeLessThan(1e-9);
+    expect(relErr(a.settlingTime!, b.settlingTime!)).toBeLessThan(1e-4);
+    expect(relErr(a.slewingTime, b.slewingTime)).toBeLessThan(1e-3);
+    expect(a.limitingStage).toBe('first');
+  });
 });
