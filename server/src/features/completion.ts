@@ -27,11 +27,11 @@ const keyword = (label: string, detail?: string): CompletionItem => ({
 });
 
 /**
- * True where a value can start: after `=`, a comparison, an operator, `(`, `settle` or `within`, with perhaps
- * a name being typed. A `,` starts one only inside a function's parentheses (in a corner it starts a target).
+ * True where a value can start: after `=`, a comparison, an operator, `(`, `settle`, `within` or `step`,
+ * with perhaps a name being typed. A `,` starts one only inside a function's parentheses (in a corner it starts a target).
  */
 function valueCanStart(before: string): boolean {
-  const m = /(?:(\|\||[=(+\-*/^×·−∥,])|\b(settle|within))\s*(?:[A-Za-z_]\w*)?$/.exec(before);
+  const m = /(?:(\|\||[=(+\-*/^×·−∥,])|\b(settle|within|step))\s*(?:[A-Za-z_]\w*)?$/.exec(before);
   if (!m) return false;
   if (m[1] !== ',') return true;
   const open = before.split('(').length - before.split(')').length;
