@@ -13,6 +13,9 @@ import { RADAU_A, RADAU_C, radauStep } from '../../../shared/src/numeric/radau';
 import { parseDocument } from '../../../shared/src/language';
 import { measure } from '../../../shared/src/checks/measure';
 import { requirementSlack } from '../../../shared/src/checks/requirementSlack';
+import { DEFAULT_CHECK_SETTINGS } from '../../../shared/src/checks/settings';
+import { solveDesign } from '../../../shared/src/solve/solveDesign';
+import { brentRoot } from '../../../shared/src/numeric/roots';
 import type { DesignModel } from '../../../shared/src/language/model';
 
 // The package ships its TypeScript source, which the project's strict type check would compile; loaded
@@ -249,5 +252,32 @@ end
     expect(relErr(a.settlingTime!, b.settlingTime!)).toBeLessThan(1e-4);
     expect(relErr(a.slewingTime, b.slewingTime)).toBeLessThan(1e-3);
     expect(a.limitingStage).toBe('first');
+  });
+
+  it('is a constraint of the solve: the least first-stage current that settles the step in time', () => {
+    const design = (id1: string) => `design driver
+  param id1 = ${id1} free 2 uA .. 100 uA
+  stage first  gm = 15 /V * id1 rout = 4 Mohm cap = 60 fF bias = id1
+  stage second gm = 3 mS rout = 150 kohm cap = 150 fF bias = 200 uA inverting
+  load cap = 3 pF
+  miller first -> second cc = 1.2 pF rz = 400 ohm
+  require settle 0.1 % within 100 ns step 1 V
+end
+`;
+    const result = solveDesign(parseDocument(design('20 uA')).designs[0]!, {
+      settings: DEFAULT_CHECK_SETTINGS,
+    });
+    expect(result.status).toBe('met');
+    const id1 = result.values.find((v) => v.name === 'id1')!.after;
+    // Reference: the current at which the large-signal settling time equals 100 ns, by Brent's method on
+    // the analysis itself (the settling time falls as the first stage's current, and so its slew rate, grows).
+    const excess = (i: number) =>
+      analyzeDesign(modelOf(design(`${i * 1e6} uA`))).largeSignalStep!.settlingTime! - 100e-9;
+    const least = brentRoot(excess, 5e-6, 50e-6, excess(5e-6), excess(50e-6), 1e-10);
+    // The solve rounds to 3 significant figures inwards (never below the boundary), and its search ends
+    // within a step of about 1 % of it.
+    expect(id1).toBeGreaterThanOrEqual(least * (1 - 1e-6));
+    expect(id1 / least).toBeLessThan(1.02);
+    expect(result.binding.join(' ')).toMatch(/settling of a 1 V step/);
   });
 });
