@@ -2,6 +2,7 @@
 // node's share), the hand estimate beside the exact value; for a requirement, measured against required.
 import { SENSITIVITY_STEP, sensitivities, sensitivityText } from '../../../shared/src/solve/sensitivities';
 import { closedLoopSummary } from '../../../shared/src/format/closedLoop';
+import { closedCircuitLines, feedbackLoopText, supplyText } from '../../../shared/src/format/closedCircuit';
 import type { Hover } from 'vscode-languageserver';
 import type { DesignAnalysis } from '../../../shared/src/analysis/types';
 import { formatDeg, formatSi } from '../../../shared/src/format/si';
@@ -238,8 +239,17 @@ function body(design: DesignReport, target: Target): string[] | undefined {
       lines.push(counts.map(([sev, n]) => `${n} ${sev}${n === 1 ? '' : 's'}`).join(', '));
       return lines;
     }
+    case 'feedback': {
+      const head = [
+        `**feedback at ${target.item.node}**: the loop closed by the circuit, broken where it senses ${target.item.node}`,
+      ];
+      if (!a) return head;
+      return [...head, `Loop: ${feedbackLoopText(a)}`, '', ...closedCircuitLines(a)];
+    }
     case 'symbol': {
       const s = target.symbol;
+      const supply = a ? supplyText(a, s.name) : undefined;
+      if (s.kind === 'node' && supply) return [`**supply ${s.name}**`, `Supply ${supply}`];
       if (s.kind === 'node')
         return a ? [`**node ${s.name}**`, '', ...poleLines(a, [s.name])] : [`**node ${s.name}**`];
       if (s.kind === 'corner') {

@@ -5,6 +5,7 @@ import type { TextDocument } from 'vscode-languageserver-textdocument';
 import type { DocumentReport } from '../../../shared/src/report';
 import { firstLine } from '../../../shared/src/text/lines';
 import { rangesMeet } from '../convert';
+import { feedbackLoopText, supplyText } from '../../../shared/src/format/closedCircuit';
 import { nominal, poleText, requirementAcrossRuns, shownPoles, sortedByHz, zeroText } from './describe';
 
 /** The end of `line`, before its line break (whichever of \n, \r\n or \r it is). */
@@ -39,6 +40,12 @@ export function inlayHints(report: DocumentReport, document: TextDocument, range
       if (!rangesMeet(s.origin.range, range)) continue;
       const named = shownPoles(a.poles).filter((p) => p.namedAfter === s.name);
       if (named.length) add(s.origin.range.end.line, `pole ${named.map(poleText).join(', ')}`);
+    }
+    const at = model.feedbackAt;
+    if (at && rangesMeet(at.origin.range, range)) add(at.origin.range.end.line, feedbackLoopText(a));
+    for (const s of model.supplies ?? []) {
+      const text = supplyText(a, s.node);
+      if (text && rangesMeet(s.origin.range, range)) add(s.origin.range.end.line, `${s.node}: ${text}`);
     }
     for (const req of model.requirements) {
       if (!rangesMeet(req.origin.range, range)) continue;

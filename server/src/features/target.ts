@@ -3,6 +3,7 @@ import type {
   BufferedCap,
   DesignModel,
   Element,
+  FeedbackNode,
   Load,
   Miller,
   Param,
@@ -34,6 +35,7 @@ export type Target =
   | { readonly kind: 'element'; readonly item: Element; readonly range: SourceRange }
   | { readonly kind: 'requirement'; readonly item: Requirement; readonly range: SourceRange }
   | { readonly kind: 'param'; readonly item: Param; readonly range: SourceRange }
+  | { readonly kind: 'feedback'; readonly item: FeedbackNode; readonly range: SourceRange }
   | { readonly kind: 'design'; readonly range: SourceRange };
 
 /** The symbol (declaration or reference) at `position`. */
@@ -84,6 +86,8 @@ export function statementAt(model: DesignModel, p: SourcePosition): Target | und
     if (contains(item.origin.range, p)) return { kind: 'requirement', item, range: item.origin.range };
   for (const item of model.params)
     if (contains(item.origin.range, p)) return { kind: 'param', item, range: item.origin.range };
+  const at = model.feedbackAt;
+  if (at && contains(at.origin.range, p)) return { kind: 'feedback', item: at, range: at.origin.range };
   return undefined;
 }
 
