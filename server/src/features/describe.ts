@@ -58,7 +58,18 @@ export function requirementAcrossRuns(design: DesignReport, req: Requirement): R
   const runs = design.runs
     .filter((r) => !r.analysis.problems.length)
     .map((r) => {
-      const same = r.model.requirements.find((x) => x.kind === req.kind) ?? req;
+      // The same statement in this run's model (a design may state two of a kind: `settle` with and
+      // without `step`); corners keep the statement's range.
+      const at = req.origin.range.start;
+      const same =
+        r.model.requirements.find(
+          (x) =>
+            x.kind === req.kind &&
+            x.origin.range.start.line === at.line &&
+            x.origin.range.start.character === at.character,
+        ) ??
+        r.model.requirements.find((x) => x.kind === req.kind) ??
+        req;
       return { corner: r.corner, m: measure(same, r.analysis) };
     });
   const lowerIsWorse = !(req.kind === 'settle' || ('op' in req && req.op === '<='));

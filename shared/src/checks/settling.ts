@@ -9,7 +9,8 @@ import { formatPercent, formatTolerance } from '../format/quantities';
 import { formatSi } from '../format/si';
 import { acrossRuns, type Hit } from './acrossRuns';
 import type { Check, CheckInput } from './context';
-import { compensationRange, primaryCompensation, requirementOf } from './locate';
+import { compensationRange, primaryCompensation } from './locate';
+import type { CornerRun } from '../report';
 
 /**
  * Settling time for `tolerance`: the engine's value when it was computed for that tolerance, else the
@@ -48,68 +49,71 @@ export function settlingUnavailable(req: SettleRequirement, a: DesignAnalysis): 
   return a.largeSignalStepUnavailable ?? (a.step ? undefined : a.stepUnavailable);
 }
 
+/** Every `settle` requirement of the design, small- or large-signal, each judged on its own. */
 export const settlingCheck: Check = (input: CheckInput) =>
-  acrossRuns(input, 'settling', (run): Hit[] => {
-    const req = requirementOf(run.model, 'settle');
-    if (!req) return [];
-    const a = run.analysis;
-    const step = req.step !== undefined ? largeSignalOf(req, a) : a.step;
-    const pct = formatTolerance(req.tolerance);
-    const range = compensationRange(input.source, primaryCompensation(run.model), run);
-    const what = req.step !== undefined ? `a ${formatSi(req.step, 'V')} step to ±${pct}` : `to ±${pct}`;
-    const required = {
-      range: req.origin.range,
-      message: `required: settle ${what} within ${formatSi(req.within, 's')}`,
-    };
-    const refused = settleToleranceProblem(req.tolerance) ?? (step ? undefined : settlingUnavailable(req, a));
-    if (refused !== undefined) {
-      return [
-        {
-          key: 'unavailable',
-          severity: 'warning',
-          message: `Settling cannot be checked: ${refused}`,
-          range: req.origin.range,
-          related: [],
-          badness: 0,
-        },
-      ];
-    }
-    if (!step) return [];
-    const ts = requiredSettlingTime(req, a);
-    if (ts !== undefined && ts <= req.within) return [];
-    const large = largeSignalOf(req, a);
-    // An overshoot that rounds to 0.0 % says nothing; the small-signal wording keeps any overshoot.
-    const overshoot = large ? step.overshootPct >= 0.05 : step.overshootPct > 0;
-    // When slewing is most of the settling, the stage whose bias limits it is where to act.
-    const limiting =
-      large && large.limitingStage !== undefined && ts !== undefined && large.slewingTime > ts / 2
-        ? run.model.stages.find((st) => st.name === large.limitingStage)
-        : undefined;
-    const biasRange = limiting?.origin.fields['bias']?.range;
+  acrossRuns(input, 'settling', (run): Hit[] =>
+    run.model.requirements.flatMap((req, i) => (req.kind === 'settle' ? settleHits(input, run, req, i) : [])),
+  );
+
+function settleHits(input: CheckInput, run: CornerRun, req: SettleRequirement, index: number): Hit[] {
+  const a = run.analysis;
+  const step = req.step !== undefined ? largeSignalOf(req, a) : a.step;
+  const pct = formatTolerance(req.tolerance);
+  const range = compensationRange(input.source, primaryCompensation(run.model), run);
+  const what = req.step !== undefined ? `a ${formatSi(req.step, 'V')} step to ±${pct}` : `to ±${pct}`;
+  const required = {
+    range: req.origin.range,
+    message: `required: settle ${what} within ${formatSi(req.within, 's')}`,
+  };
+  const refused = settleToleranceProblem(req.tolerance) ?? (step ? undefined : settlingUnavailable(req, a));
+  if (refused !== undefined) {
     return [
       {
-        key: 'settle',
-        severity: 'error',
-        message:
-          (ts === undefined
-            ? `The step response does not settle ${req.step !== undefined ? `(${what})` : `into ±${pct}`} within the computed span (required ${formatSi(req.within, 's')})`
-            : `Settling ${what} takes ${formatSi(ts, 's')}, longer than the required ${formatSi(req.within, 's')}` +
-              (overshoot ? ` (overshoot ${formatPercent(step.overshootPct / 100)})` : '')) +
-          // Which part dominates: the slewing or the linear tail (the small-signal time beside it).
-          (large
-            ? `: ${largeSignalSummary(large, a.slew)}` +
-              (large.smallSignalSettlingTime !== undefined
-                ? ` (small-signal settling alone: ${formatSi(large.smallSignalSettlingTime, 's')})`
-                : '')
-            : ''),
-        range,
-        related: [
-          required,
-          ...(biasRange && limiting
-            ? [{ range: biasRange, message: `the bias of stage ${limiting.name} limits the slewing` }]
-            : []),
-        ],
-        badness: ts === undefined ? Infinity : ts / req.within,
+        key: `unavailable ${index}`,
+        severity: 'warning',
+        message: `Settling cannot be checked: ${refused}`,
+        range: req.origin.range,
+        related: [],
+        badness: 0,
       },
     ];
-  });
+  }
+  if (!step) return [];
+  const ts = requiredSettlingTime(req, a);
+  if (ts !== undefined && ts <= req.within) return [];
+  const large = largeSignalOf(req, a);
+  // An overshoot that rounds to 0.0 % says nothing; the small-signal wording keeps any overshoot.
+  const overshoot = large ? step.overshootPct >= 0.05 : step.overshootPct > 0;
+  // When slewing is most of the settling, the stage whose bias limits it is where to act.
+  const limiting =
+    large && large.limitingStage !== undefined && ts !== undefined && large.slewingTime > ts / 2
+      ? run.model.stages.find((st) => st.name === large.limitingStage)
+      : undefined;
+  const biasRange = limiting?.origin.fields['bias']?.range;
+  return [
+    {
+      key: `settle ${index}`,
+      severity: 'error',
+      message:
+        (ts === undefined
+          ? `The step response does not settle ${req.step !== undefined ? `(${what})` : `into ±${pct}`} within the computed span (required ${formatSi(req.within, 's')})`
+          : `Settling ${what} takes ${formatSi(ts, 's')}, longer than the required ${formatSi(req.within, 's')}` +
+            (overshoot ? ` (overshoot ${formatPercent(step.overshootPct / 100)})` : '')) +
+        // Which part dominates: the slewing or the linear tail (the small-signal time beside it).
+        (large
+          ? `: ${largeSignalSummary(large, a.slew)}` +
+            (large.smallSignalSettlingTime !== undefined
+              ? ` (small-signal settling alone: ${formatSi(large.smallSignalSettlingTime, 's')})`
+              : '')
+          : ''),
+      range,
+      related: [
+        required,
+        ...(biasRange && limiting
+          ? [{ range: biasRange, message: `the bias of stage ${limiting.name} limits the slewing` }]
+          : []),
+      ],
+      badness: ts === undefined ? Infinity : ts / req.within,
+    },
+  ];
+}

@@ -16,6 +16,7 @@ import { requirementSlack } from '../../../shared/src/checks/requirementSlack';
 import { DEFAULT_CHECK_SETTINGS } from '../../../shared/src/checks/settings';
 import { solveDesign } from '../../../shared/src/solve/solveDesign';
 import { brentRoot } from '../../../shared/src/numeric/roots';
+import { analyzeDocument } from '../../../shared/src/service';
 import type { DesignModel } from '../../../shared/src/language/model';
 
 // The package ships its TypeScript source, which the project's strict type check would compile; loaded
@@ -279,5 +280,33 @@ end
     expect(id1).toBeGreaterThanOrEqual(least * (1 - 1e-6));
     expect(id1 / least).toBeLessThan(1.02);
     expect(result.binding.join(' ')).toMatch(/settling of a 1 V step/);
+  });
+
+  it('the settle check judges each settle requirement on its own response, and names what limits the step', () => {
+    const design = (small: string, large: string) => `design both
+  stage first  gm = 300 uS rout = 4 Mohm cap = 60 fF bias = 20 uA
+  stage second gm = 3 mS rout = 150 kohm cap = 150 fF bias = 200 uA inverting
+  load cap = 3 pF
+  miller first -> second cc = 1.2 pF rz = 400 ohm
+  require settle 0.1 % within ${small}
+  require settle 0.1 % within ${large} step 1 V
+end
+`;
+    const settling = (text: string) => analyzeDocument(text).findings.filter((f) => f.code === 'settling');
+    // The step slews at 20 uA / 1.2 pF = 16.7 V/us, so 1 V takes at least 60 ns; the small-signal
+    // settling alone (closed-loop poles near 75 MHz) is about 20 ns.
+    const onlyLarge = settling(design('1 us', '50 ns'));
+    expect(onlyLarge).toHaveLength(1);
+    expect(onlyLarge[0]!.message).toMatch(
+      /^Settling a 1 V step to ±0\.1 % takes [\d.]+ ns, longer than the required 50 ns: slewing [\d.]+ ns of [\d.]+ ns; the first stage limits: 20 uA into 1\.2 pF \(small-signal settling alone: [\d.]+ ns\)$/,
+    );
+    expect(onlyLarge[0]!.related.map((r) => r.message)).toContain(
+      'the bias of stage first limits the slewing',
+    );
+    const onlySmall = settling(design('5 ns', '1 us'));
+    expect(onlySmall).toHaveLength(1);
+    expect(onlySmall[0]!.message).toMatch(
+      /^Settling to ±0\.1 % takes [\d.]+ ns, longer than the required 5 ns/,
+    );
   });
 });
