@@ -94,13 +94,14 @@ export function buildNetwork(model: DesignModel, source: NetworkSource = INPUT):
     }
     return terminal(ref, what);
   };
-  /** gm·(v(p) − v(n)) into `node`; `n` absent is ground. */
+  /** gm·(v(p) − v(n)) into `node`; `n` absent is ground. False when an input is not a node. */
   const transconductor = (p: NodeRef, n: NodeRef | undefined, node: Terminal, gm: number, what: string) => {
     const tp = sensing(p, what);
     const tn = n ? sensing(n, what) : 'ground';
-    if (tp === undefined || tn === undefined) return;
+    if (tp === undefined || tn === undefined) return false;
     b.transconductance(tp, node, gm);
     b.transconductance(tn, node, -gm);
+    return true;
   };
   if (model.output === model.input) {
     problems.push({ message: 'the output is the driven input node', node: model.output });
@@ -114,9 +115,9 @@ export function buildNetwork(model: DesignModel, source: NetworkSource = INPUT):
       problems.push({ message: `${what} drives the input node`, node: st.name });
       continue;
     }
-    if (finite(st.gm, `${what}: gm`, st.name)) {
-      transconductor(st.input, st.inputN, node, st.polarity === 'inverting' ? -st.gm : st.gm, what);
-    }
+    // A stage whose input is not a node is reported once, for that alone (a non-finite gm stamps 0).
+    const gm = finite(st.gm, `${what}: gm`, st.name) ? st.gm : 0;
+    if (!transconductor(st.input, st.inputN, node, st.polarity === 'inverting' ? -gm : gm, what)) continue;
     const g = resistance(st.rout, `${what}: rout`, st.name);
     if (g !== undefined) b.conductance(node, 'ground', g);
     if (finite(st.cap, `${what}: cap`, st.name)) b.capacitance(node, 'ground', st.cap);
