@@ -39,8 +39,15 @@ const MAX_RELATIVE_ERROR = 1e-7;
 /** Newton's update must be this far below the error tolerance. */
 const NEWTON_FRACTION = 1e-3;
 /** A bound on the work of one response, far beyond any amplifier's step. */
-const MAX_STEPS = 200_000;
-/** At least this many samples over the small-signal span, so that the response can be drawn. */
+const MAX_STEPS = 20_000;
+/** …and on its span, in small-signal spans. */
+const MAX_SPANS = 1e4;
+/** The state counts as at its final value within this fraction of the settling band. */
+const NEAR_FINAL = 1e-3;
+/**
+ * At least this many points over the small-signal span, or over the time elapsed when that is longer (a
+ * long slew), so that the response can be drawn.
+ */
 const SAMPLES_PER_SPAN = 20;
 
 /**
@@ -128,7 +135,11 @@ function stepSystem(input: LargeSignalInput): StepSystem {
   };
 }
 
-/** Newton's method on g(y) = 0 with Jacobian `jac`; undefined when it does not converge. */
+/**
+ * Newton's method on g(y) = 0 with Jacobian `jac`, each step halved until the residual falls (a
+ * saturating stage's tanh makes a full step overshoot far from the solution); undefined when it does not
+ * converge. Converged when no update exceeds 1e-12 of `scale`.
+ */
 function newton(
   n: number,
   y0: Float64Array,
@@ -138,27 +149,42 @@ function newton(
 ): Float64Array | undefined {
   const y = Float64Array.from(y0);
   const r = new Float64Array(n);
+  const trial = new Float64Array(n);
+  const rt = new Float64Array(n);
   const J = new Float64Array(n * n);
+  const w = new Float64Array(n);
+  // The residual's size with the rows weighed alike (charges and currents differ by many decades).
+  const size = (res: Float64Array) => {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += (res[i]! * w[i]!) ** 2;
+    return s;
+  };
   for (let iter = 0; iter < 100; iter++) {
     residual(y, r);
     jac(y, J);
-    // Equilibrate rows (charges and currents differ by many decades).
     for (let i = 0; i < n; i++) {
       let m = 0;
       for (let k = 0; k < n; k++) m = Math.max(m, Math.abs(J[i * n + k]!));
-      const w = m > 0 ? 1 / m : 1;
-      for (let k = 0; k < n; k++) J[i * n + k]! *= w;
-      r[i]! *= -w;
+      w[i] = m > 0 ? 1 / m : 1;
+      for (let k = 0; k < n; k++) J[i * n + k]! *= w[i]!;
     }
     const lu = luFactor(J, n);
     if (lu.singular) return undefined;
-    const dy = luSolve(lu, r);
-    // Damped: a saturating stage's tanh makes full steps overshoot far from the solution.
+    const dy = luSolve(
+      lu,
+      r.map((x, i) => -x * w[i]!),
+    );
+    if (!dy.every(Number.isFinite)) return undefined;
     let worst = 0;
     for (let i = 0; i < n; i++) worst = Math.max(worst, Math.abs(dy[i]!) / scale[i]!);
-    const damp = worst > 1e6 ? 1e6 / worst : 1;
-    for (let i = 0; i < n; i++) y[i]! += damp * dy[i]!;
-    if (!dy.every(Number.isFinite)) return undefined;
+    const before = size(r);
+    let t = 1;
+    for (let halvings = 0; halvings < 30; halvings++, t /= 2) {
+      for (let i = 0; i < n; i++) trial[i] = y[i]! + t * dy[i]!;
+      residual(trial, rt);
+      if (size(rt) < before) break;
+    }
+    y.set(trial);
     if (worst <= 1e-12) return y;
   }
   return undefined;
@@ -235,10 +261,17 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
   let h = Math.min(hMax, 1e-3 / fastest);
   let lastNonlinear = 0;
   let stop = linearSpan;
+  // The response has ended once the state is this close to the final equilibrium (a thousandth of the
+  // band): an asymptotically stable equilibrium keeps it in the band from there on. Without an
+  // equilibrium, a linear tail after the last instant a stage was beyond its linear range stands for it.
+  const near = NEAR_FINAL * tolerance * yRef;
+  const atFinal = (v: Float64Array) =>
+    finalState !== undefined && v.every((x, i) => Math.abs(x - finalState[i]!) <= near);
+  let ended = false;
   const hMin = 1e-14 / fastest;
-  for (let steps = 0; now < stop; steps++) {
-    if (steps > MAX_STEPS)
-      return { ok: false, reason: 'the step response takes too many steps to integrate' };
+  for (let steps = 0; !ended; steps++) {
+    // A response that keeps moving (a large-signal oscillation) is cut off: it does not settle.
+    if (steps > MAX_STEPS || now > MAX_SPANS * linearSpan) break;
     const sc = scaleOf(state);
     const whole = radauStep(sys, state, h, sc, NEWTON_FRACTION);
     const first = whole && radauStep(sys, state, h / 2, sc, NEWTON_FRACTION);
@@ -265,18 +298,26 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
       fractions.push(fr);
       if (fr.some((x) => Math.abs(x) > LINEAR_FRACTION)) {
         lastNonlinear = now;
-        // Once every stage is back in its linear range, the rest is the linear decay.
         stop = Math.max(stop, lastNonlinear + tail);
       }
+      ended = now >= linearSpan && (finalState ? atFinal(state) : now >= stop);
     }
     const grow = err === 0 ? 4 : Math.min(4, Math.max(0.2, 0.9 * Math.pow(err, -1 / 6)));
-    h = Math.min(hMax, h * grow);
+    h = Math.min(Math.max(hMax, now / SAMPLES_PER_SPAN), h * grow);
   }
 
   // Without a converged equilibrium, the end of the integration (a full linear tail after the last
   // nonlinear instant) stands for it.
   const final = finalState ? sys.output(finalState) : y[y.length - 1]!;
-  const settling = settlingTime(sys, t, y, states, final, tolerance, scaleOf);
+  const settling = ended ? settlingTime(sys, t, y, states, final, tolerance, scaleOf) : undefined;
+  // A stage still beyond 90 % of its bias at the equilibrium: the step is beyond the output's range. The
+  // last such stage in the text (nearest the output) is the one that runs out; the ones before it saturate
+  // on the error it leaves.
+  const endFractions = finalState ? sys.fractions(finalState) : [];
+  let stuck = -1;
+  endFractions.forEach((x, k) => {
+    if (Math.abs(x) > SLEWING_FRACTION) stuck = k;
+  });
   const slewing = slewingSpans(t, fractions, sys.stages.length);
   const dir = final >= 0 ? 1 : -1;
   let peak = 0;
@@ -298,6 +339,7 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
       slewRateReached: slewRate,
       overshootPct,
       ...(slewing.limiting !== undefined ? { limitingStage: sys.stages[slewing.limiting]!.name } : {}),
+      ...(stuck >= 0 ? { saturatedStage: sys.stages[stuck]!.name } : {}),
     },
   };
 }
@@ -424,15 +466,24 @@ export function largeSignalFields(
   const req = model.requirements.find((r) => r.kind === 'settle' && r.step !== undefined);
   if (!req || req.kind !== 'settle' || req.step === undefined) return {};
   const smallSignalSettlingTime = small?.tolerance === req.tolerance ? small.settlingTime : undefined;
-  const outcome = largeSignalStep({
-    model,
-    network,
-    drive,
-    amplitude: req.step,
-    tolerance: req.tolerance,
-    closedPoles,
-    ...(smallSignalSettlingTime !== undefined ? { smallSignalSettlingTime } : {}),
-  });
+  // The step must never cost the rest of the analysis: an unexpected failure becomes its reason.
+  let outcome: LargeSignalOutcome;
+  try {
+    outcome = largeSignalStep({
+      model,
+      network,
+      drive,
+      amplitude: req.step,
+      tolerance: req.tolerance,
+      closedPoles,
+      ...(smallSignalSettlingTime !== undefined ? { smallSignalSettlingTime } : {}),
+    });
+  } catch (err) {
+    outcome = {
+      ok: false,
+      reason: `the large-signal step failed: ${err instanceof Error ? err.message : String(err)}`,
+    };
+  }
   return outcome.ok ? { largeSignalStep: outcome.step } : { largeSignalStepUnavailable: outcome.reason };
 }
 

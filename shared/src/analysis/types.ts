@@ -125,6 +125,11 @@ export interface LargeSignalStep {
   readonly overshootPct: number;
   /** The stage that spends the longest time above 90 % of its bias; absent when none does. */
   readonly limitingStage?: NodeName;
+  /**
+   * A stage still above 90 % of its bias at the final equilibrium: the step is beyond what the stages'
+   * currents can hold, and `final` falls short of the linear final value.
+   */
+  readonly saturatedStage?: NodeName;
 }
 
 export interface SlewEstimate {

@@ -14,6 +14,8 @@ const stageWords = (name: string) => (ORDINALS.includes(name) ? `the ${name} sta
  * linear` when no stage passes 90 % of its bias.
  */
 export function largeSignalSummary(l: LargeSignalStep, slew: SlewEstimate | undefined): string {
+  if (l.saturatedStage !== undefined)
+    return `the step is beyond the output's range: ${stageWords(l.saturatedStage)} stays at its current limit and the output ends at ${formatSi(l.final, 'V')}`;
   if (l.slewingTime <= 0 || l.limitingStage === undefined) return 'no stage slews: the settling is linear';
   const total = l.settlingTime !== undefined ? ` of ${formatSi(l.settlingTime, 's')}` : '';
   const limit = slew?.limits.find((x) => x.stage === l.limitingStage);

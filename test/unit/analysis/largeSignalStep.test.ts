@@ -309,4 +309,20 @@ end
       /^Settling to ±0\.1 % takes [\d.]+ ns, longer than the required 5 ns/,
     );
   });
+
+  it('a step beyond the output range ends where the output stage runs out of current, and says so', () => {
+    // Gain 10 (β = 0.1) and a 10 V step ask for 100 V; the inverting output stage can hold at most its bias
+    // into its rout: 100 uA · 200 kohm = 20 V (Ohm's law), where its tanh is within 1e-6 of 1.
+    const model = modelOf(
+      twoStage('10 V', '0.1 %').replace('require settle', 'feedback beta = 0.1\n  require settle'),
+    );
+    const a = analyzeDesign(model);
+    const large = a.largeSignalStep!;
+    expect(relErr(large.final, 100e-6 * 200e3)).toBeLessThan(1e-6);
+    expect(large.saturatedStage).toBe('second');
+    const req = model.requirements.find((r) => r.kind === 'settle')!;
+    expect(measure(req, a).measured).toMatch(
+      /the step is beyond the output's range: the second stage stays at its current limit and the output ends at 20 V/,
+    );
+  });
 });
