@@ -1,4 +1,5 @@
 // `ampnote analyze`: JSON as documented in docs/cli.md, with the engine's numbers unchanged; the text tables.
+import { closedLoopDcGain, loopBode } from '../../shared/src/analysis/closedLoopValues';
 import { sensitivities, type Sensitivity } from '../../shared/src/solve/sensitivities';
 import { readFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
@@ -30,14 +31,65 @@ function expectedCorner(run: CornerRun, moved: readonly Sensitivity[]) {
     zeros: a.zeros.map((z) => ({ re: n(z.s.re), im: n(z.s.im), hz: n(z.hz), rhp: z.rhp })),
     dcGain: { vv: n(a.dcGain), db: db(a.dcGain) },
     openLoopUgfHz: n(a.openLoopUgfHz),
+    feedback: run.model.feedbackAt
+      ? { kind: 'node', node: run.model.feedbackAt.node }
+      : { kind: 'beta', beta: n(run.model.beta) },
     closedLoop: {
       stability: a.stability?.verdict ?? null,
       openLoopRhpPoles: a.stability?.openLoopRhpPoles ?? null,
-      poles: (a.closedLoopPoles ?? []).map((p) => {
-        const m = Math.hypot(p.re, p.im);
-        return { re: n(p.re), im: n(p.im), hz: n(m / (2 * Math.PI)), damping: n(m === 0 ? 1 : -p.re / m) };
-      }),
+      dcGain: (() => {
+        const g = closedLoopDcGain(a);
+        return g === undefined ? null : { vv: n(g), db: db(g) };
+      })(),
+      bandwidthHz: n(a.closedLoopBandwidthHz),
+      poles: a.closedCircuit
+        ? a.closedCircuit.poles.map((p) => ({
+            re: n(p.s.re),
+            im: n(p.s.im),
+            hz: n(p.hz),
+            damping: n(p.damping),
+            namedAfter: p.namedAfter,
+            participation: p.participation.map((x) => ({ node: x.node, share: n(x.share) })),
+          }))
+        : (a.closedLoopPoles ?? []).map((p) => {
+            const m = Math.hypot(p.re, p.im);
+            return {
+              re: n(p.re),
+              im: n(p.im),
+              hz: n(m / (2 * Math.PI)),
+              damping: n(m === 0 ? 1 : -p.re / m),
+              namedAfter: null,
+              participation: [],
+            };
+          }),
     },
+    outputImpedance: a.closedCircuit
+      ? {
+          dcOhm: n(a.closedCircuit.outputImpedance.dcOhm),
+          peakOhm: n(a.closedCircuit.outputImpedance.peakOhm),
+          peakHz: n(a.closedCircuit.outputImpedance.peakHz),
+        }
+      : null,
+    supplyRejection: (a.closedCircuit?.supplies ?? []).map((x) => ({
+      node: x.node,
+      dcDb: n(x.dcDb),
+      worstDb: n(x.worstDb),
+      worstHz: n(x.worstHz),
+    })),
+    loadStep: a.closedCircuit?.loadStep
+      ? {
+          peakDeviation: n(a.closedCircuit.loadStep.peakDeviation),
+          settlingTime: n(a.closedCircuit.loadStep.settlingTime),
+          final: n(a.closedCircuit.loadStep.final),
+          tolerance: n(a.closedCircuit.loadStep.tolerance),
+        }
+      : null,
+    bode: (() => {
+      const b = loopBode(a);
+      return b
+        ? { frequencyHz: b.frequencyHz.map(n), loopMagDb: b.magDb.map(n), loopPhaseDeg: b.phaseDeg.map(n) }
+        : null;
+    })(),
     loop: {
       dcGain: { vv: n(a.loop.dcGain), db: db(a.loop.dcGain) },
       ugfHz: n(a.loop.ugfHz),
@@ -107,6 +159,7 @@ const FILES = [
   'broken.ampnote',
   'unsolvable.ampnote',
   'largeSignal.ampnote',
+  'circuitLoop.ampnote',
 ];
 const outputs = new Map<string, any>();
 
@@ -114,7 +167,7 @@ beforeAll(() => {
   ensureBuilt();
   for (const name of FILES) {
     const r = cli(['analyze', rel(name), '--json']);
-    expect(r.status, `${name}: ${r.stderr}`).toBe(name === 'clean.ampnote' ? 0 : 1);
+    expect(r.status, `${name}: ${r.stderr}`).toBe(name === 'clean.ampnote' || name === 'circuitLoop.ampnote' ? 0 : 1);
     outputs.set(name, JSON.parse(r.stdout));
   }
 }, 300_000);
