@@ -186,7 +186,7 @@ function designSection(d: ReportDesign, index: number): string {
     const figure = (c: (typeof CHARTS)[number], note: string, sweep?: number, extraClass = '') =>
       `<figure class="chart${extraClass}"><figcaption><strong>${escapeHtml(c.title)}</strong> ${escapeHtml(note)}</figcaption><div class="canvas-box"><canvas data-chart="${c.id}"${sweep !== undefined ? ` data-sweep="${sweep}"` : ''} role="img" aria-label="${escapeHtml(c.title)} of ${escapeHtml(r.source.name)}"></canvas></div></figure>`;
     // Each sweep after the first has its own pair of sweep charts (the first is drawn with the others).
-    const sweepCharts = CHARTS.filter((c) => 'onlyWhenPresent' in c && c.onlyWhenPresent);
+    const sweepCharts = CHARTS.filter((c) => 'perSweep' in c && c.perSweep);
     const laterSweeps = (panel.sweeps ?? [])
       .slice(1)
       .flatMap((sw, k) => sweepCharts.map((c) => figure(c, `${sweepRangeText(sw)}. ${c.shows}`, k + 1)));
@@ -199,7 +199,7 @@ function designSection(d: ReportDesign, index: number): string {
         const first = panel.sweeps?.[0];
         const note = noSweep
           ? 'This design has no compensation capacitor, so there is no pole split to show.'
-          : 'onlyWhenPresent' in c && first
+          : 'perSweep' in c && c.perSweep && first
             ? `${sweepRangeText(first)}. ${c.shows}`
             : c.shows;
         return figure(c, note, undefined, noSweep ? ' no-sweep' : '');

@@ -59,7 +59,7 @@ describe('sweep charts', () => {
     expect(req.data.map((p) => p.y)).toEqual([50, 50]);
     // The example fails over the middle of its range (its own comment says so): shaded there.
     const shade = await panel.page.evaluate(
-      () => (window as any).__ampnoteCharts['sweep-margins'].options.plugins.ampnoteFailing.ranges,
+      () => (window as any).__ampnoteCharts['sweep-margins'].options.plugins.ampnoteSpans.ranges,
     );
     expect(shade).toEqual(sw.failing.map((f) => ({ from: f.from, to: f.to, label: f.label })));
     expect(shade.length).toBeGreaterThan(0);

@@ -166,10 +166,34 @@ function renderNotes(d: PanelData): void {
     splane:
       'Axes are symmetric-logarithmic: sign(v)·log10(1 + |v|/v0), with v0 a decade below the smallest root.',
     'sweep-margins': sweepNote(d),
+    zout: d.closedCircuit
+      ? `The closed circuit's output impedance, ${formatSi(d.closedCircuit.zoutOhm[0] ?? NaN, 'ohm')} at ${formatHz(d.closedCircuit.hz[0] ?? NaN)}.`
+      : '',
+    'load-step': d.closedCircuit?.loadStep
+      ? `Settles to ${formatSi(d.closedCircuit.loadStep.final, 'V/A')} per ampere drawn (−Zout at DC).`
+      : '',
+    'supply-rejection': d.closedCircuit?.supplies.length
+      ? d.closedCircuit.supplies
+          .map(
+            (s) =>
+              `${s.node}: ${(s.rejectionDb[0] ?? NaN).toFixed(1)} dB at ${formatHz(d.closedCircuit!.hz[0] ?? NaN)}`,
+          )
+          .join('; ')
+      : '',
     'sweep-locus': selectedSweep(d, sweepIndex(d))
       ? `Nominal corner, the design as written. ○ where ${selectedSweep(d, sweepIndex(d))!.param} starts, × where it ends; hover a point for its value.`
       : '',
   };
+  const ls = d.step.largeSignal;
+  // The large-signal step beside the small-signal one: its settling and how long it slews (shaded).
+  if (ls) {
+    const slewing = ls.slewing.reduce((sum, r) => sum + (r.end - r.start), 0);
+    notes.step += ` Large-signal ${formatSi(ls.amplitude, 'V')} step: ${
+      ls.settlingTime !== undefined
+        ? `settles in ${formatSi(ls.settlingTime, 's')}`
+        : 'does not settle within the time shown'
+    }, slewing ${formatSi(slewing, 's')}${ls.limitingStage ? ` (stage ${ls.limitingStage})` : ''}.`;
+  }
   for (const id of CHART_IDS) setText($(`note-${id}`), notes[id]);
 }
 

@@ -31,8 +31,26 @@ function csvBody(chart: ChartId, data: PanelData, sweep: number): (string | numb
       );
     case 'bode':
       return data.bode.hz.map((hz, i) => [hz, data.bode.magDb[i], data.bode.phaseDeg[i]]);
-    case 'step':
-      return data.step.t.map((t, i) => [t, data.step.y[i]]);
+    case 'step': {
+      const ls = data.step.largeSignal;
+      return [
+        ...data.step.t.map((t, i) => [t, data.step.y[i], undefined]),
+        // On its own time grid: a row per sample with the small-signal column empty.
+        ...(ls ? ls.t.map((t, i) => [t, undefined, ls.y[i]]) : []),
+      ];
+    }
+    case 'zout': {
+      const c = data.closedCircuit;
+      return c ? c.hz.map((f, i) => [f, c.zoutOhm[i]]) : [];
+    }
+    case 'load-step': {
+      const l = data.closedCircuit?.loadStep;
+      return l ? l.t.map((t, i) => [t, l.y[i]]) : [];
+    }
+    case 'supply-rejection': {
+      const c = data.closedCircuit;
+      return c ? c.supplies.flatMap((s) => c.hz.map((f, i) => [s.node, f, s.rejectionDb[i]])) : [];
+    }
     case 'splane':
       return [
         ...data.poles.map((p) => [

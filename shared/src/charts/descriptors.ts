@@ -18,6 +18,8 @@ export interface ChartDescriptor {
    * card on every design. See presence.ts.
    */
   readonly onlyWhenPresent?: boolean;
+  /** Shows one of the design's sweeps (the panel's selector picks which; the report draws one per sweep). */
+  readonly perSweep?: boolean;
 }
 
 export const CHARTS = [
@@ -39,9 +41,10 @@ export const CHARTS = [
   {
     id: 'step',
     title: 'Step response',
-    shows: 'Closed-loop response to a unit input step, with the settling band.',
+    shows:
+      'Closed-loop response to a unit input step, with the settling band; with a stated large-signal step, that response too (per volt of step), its slewing shaded.',
     fileName: 'step-response',
-    csvColumns: ['time_s', 'output'],
+    csvColumns: ['time_s', 'output', 'large_signal_output_per_V'],
   },
   {
     id: 'splane',
@@ -67,6 +70,7 @@ export const CHARTS = [
     fileName: 'sweep-margins',
     csvColumns: ['corner', 'swept_value_SI', 'phase_margin_deg', 'ugf_Hz', 'gain_margin_dB'],
     onlyWhenPresent: true,
+    perSweep: true,
   },
   {
     id: 'sweep-locus',
@@ -75,6 +79,32 @@ export const CHARTS = [
       'Open-loop poles and zeros of the nominal corner as the swept parameter moves from its low end (○) to its high end (×), in the complex plane (rad/s, symmetric logarithmic axes).',
     fileName: 'sweep-locus',
     csvColumns: ['kind', 'track', 'swept_value_SI', 'real_rad_per_s', 'imag_rad_per_s', 'magnitude_Hz'],
+    onlyWhenPresent: true,
+    perSweep: true,
+  },
+  {
+    id: 'zout',
+    title: 'Output impedance',
+    shows:
+      'Magnitude of the closed circuit’s output impedance against frequency (a loop closed by its own elements).',
+    fileName: 'output-impedance',
+    csvColumns: ['frequency_Hz', 'zout_ohm'],
+    onlyWhenPresent: true,
+  },
+  {
+    id: 'load-step',
+    title: 'Load step',
+    shows: 'The output’s deviation for a step of load current drawn from it, per ampere of step.',
+    fileName: 'load-step',
+    csvColumns: ['time_s', 'deviation_V_per_A'],
+    onlyWhenPresent: true,
+  },
+  {
+    id: 'supply-rejection',
+    title: 'Supply rejection',
+    shows: 'Rejection of each supply at the output against frequency: −20·log10 |v(out)/v(supply)|.',
+    fileName: 'supply-rejection',
+    csvColumns: ['supply', 'frequency_Hz', 'rejection_dB'],
     onlyWhenPresent: true,
   },
 ] as const satisfies readonly ChartDescriptor[];

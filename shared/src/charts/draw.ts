@@ -23,6 +23,8 @@ import { formatDeg, formatHz, formatSi } from '../format/si';
 import { symlog, symlogInverse, symlogKnee, symlogTicks } from './symlog';
 import { withAlpha, type ChartColors } from './colors';
 import { settlingMarksPlugin, type SettlingMarks } from './settlingInset';
+import { spanShadePlugin } from './spanShade';
+import { loadStepConfig, supplyRejectionConfig, zoutConfig } from './circuitCharts';
 import { modulusHz } from '../numeric/complex';
 import { chartAbsent } from './presence';
 import { sweepLocusConfig, sweepMarginsConfig, type ChartKit } from './sweepCharts';
@@ -52,6 +54,7 @@ export type DatasetRole =
   | 'phase-reference'
   | 'crossing'
   | 'step'
+  | 'large-signal-step'
   | 'band-low'
   | 'band-high'
   | 'settling'
@@ -66,7 +69,10 @@ export type DatasetRole =
   | 'sweep-pole-track'
   | 'sweep-zero-track'
   | 'sweep-start'
-  | 'sweep-end';
+  | 'sweep-end'
+  | 'zout'
+  | 'load-step'
+  | 'supply-rejection';
 
 /** A data point keeps the value it stands for beside its plotted position (which may be transformed). */
 export interface PlotPoint {
@@ -528,16 +534,29 @@ function stepConfig(
   options: DrawOptions,
 ): ChartConfiguration<'scatter', PlotPoint[]> {
   const st = data.step;
+  const ls = st.largeSignal;
   const t0 = st.t[0] ?? 0;
-  const t1 = st.t[st.t.length - 1] ?? 1;
+  // The large-signal step may take longer: the axis spans both.
+  const t1 = Math.max(st.t[st.t.length - 1] ?? 1, ls?.t[ls.t.length - 1] ?? -Infinity);
   const datasets: RoleDataset[] = [
     line(
       'step',
-      'output (V per V of input step)',
+      ls ? 'small-signal (V per V of input step)' : 'output (V per V of input step)',
       st.t.map((t, i) => ({ x: t, y: st.y[i]! })),
       colors.series[0]!,
     ),
   ];
+  if (ls) {
+    datasets.push(
+      line(
+        'large-signal-step',
+        `large-signal, ${formatSi(ls.amplitude, 'V')} step (per V)`,
+        ls.t.map((t, i) => ({ x: t, y: ls.y[i]! })),
+        colors.series[1]!,
+        { borderWidth: 2 },
+      ),
+    );
+  }
   // An unstable loop has no final value to settle to: no band, no settling mark.
   if (st.t.length > 0 && finite(st.final) && st.stable !== false) {
     const band = Math.abs(st.final) * st.tolerance;
@@ -617,10 +636,11 @@ function stepConfig(
   return {
     type: 'scatter',
     data: { datasets },
-    plugins: [backgroundPlugin, settlingMarksPlugin],
+    plugins: [backgroundPlugin, spanShadePlugin, settlingMarksPlugin],
     options: {
       ...base,
-      interaction: { mode: 'index', intersect: false, axis: 'x' },
+      // With a large-signal step the two lines are sampled at different times: the nearest point along x.
+      interaction: { mode: ls ? 'nearest' : 'index', intersect: false, axis: 'x' },
       scales: {
         x: {
           type: 'linear',
@@ -638,6 +658,11 @@ function stepConfig(
       plugins: {
         ...base.plugins,
         ampnoteSettling: marks,
+        // Where the large-signal step slews (a stage at more than 90 % of its bias).
+        ampnoteSpans: {
+          ranges: (ls?.slewing ?? []).map((r) => ({ from: r.start, to: r.end })),
+          color: withAlpha(colors.series[1]!, 0.14),
+        },
         legend: {
           ...base.plugins.legend,
           labels: {
@@ -651,11 +676,19 @@ function stepConfig(
         },
         tooltip: {
           ...base.plugins.tooltip,
-          filter: (item: TooltipItem<'scatter'>) => (item.dataset as RoleDataset).role === 'step',
+          filter: (item: TooltipItem<'scatter'>) => {
+            const role = (item.dataset as RoleDataset).role;
+            return role === 'step' || role === 'large-signal-step';
+          },
           callbacks: {
             title: (items: TooltipItem<'scatter'>[]) =>
               items[0] ? formatSi((items[0].raw as PlotPoint).x, 's') : '',
-            label: (item: TooltipItem<'scatter'>) => `output ${(item.raw as PlotPoint).y.toPrecision(5)}`,
+            label: (item: TooltipItem<'scatter'>) => {
+              const p = item.raw as PlotPoint;
+              if ((item.dataset as RoleDataset).role === 'step') return `output ${p.y.toPrecision(5)}`;
+              const slewing = (ls?.slewing ?? []).some((r) => p.x >= r.start && p.x <= r.end);
+              return `large-signal ${p.y.toPrecision(5)} per V (${formatSi(p.y * (ls?.amplitude ?? 1), 'V')})${slewing ? ', slewing' : ''}`;
+            },
           },
         },
       },
@@ -814,6 +847,9 @@ const BUILDERS: Record<
   splane: splaneConfig,
   'sweep-margins': (d, c, o) => sweepMarginsConfig(KIT, d, c, o.sweep ?? 0),
   'sweep-locus': (d, c, o) => sweepLocusConfig(KIT, d, c, o.sweep ?? 0),
+  zout: (d, c) => zoutConfig(KIT, d, c),
+  'load-step': (d, c) => loadStepConfig(KIT, d, c),
+  'supply-rejection': (d, c) => supplyRejectionConfig(KIT, d, c),
 };
 
 /** The canvas for a chart: `#chart-<id>` inside root, created (in a sized box) when the page has none. */

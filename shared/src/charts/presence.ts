@@ -22,6 +22,12 @@ export function hasChartData(id: ChartId, data: PanelData): boolean {
       return (data.sweeps?.length ?? 0) > 0;
     case 'sweep-locus':
       return (data.sweeps ?? []).some((s) => s.locus.length > 0);
+    case 'zout':
+      return (data.closedCircuit?.hz.length ?? 0) > 0;
+    case 'load-step':
+      return (data.closedCircuit?.loadStep?.t.length ?? 0) > 0;
+    case 'supply-rejection':
+      return (data.closedCircuit?.supplies.length ?? 0) > 0;
   }
   const _: never = id;
   return _;

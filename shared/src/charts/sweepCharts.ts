@@ -2,6 +2,7 @@
 // requirements as lines, failing stretches shaded) and the nominal corner's poles and zeros followed
 // along the sweep in the complex plane. Configurations only; draw.ts registers and draws them.
 import type { ChartConfiguration, Plugin, Scale, TooltipItem } from 'chart.js';
+import { spanShadePlugin, type SpanShade } from './spanShade';
 import type { PanelData, PanelSweep, SweepQuantity } from '../protocol/panelData';
 import { formatDb, formatDeg, formatHz, formatSi } from '../format/si';
 import { modulusHz } from '../numeric/complex';
@@ -41,33 +42,6 @@ const ROLE = { phaseMarginDeg: 'sweep-pm', ugfHz: 'sweep-ugf', gainMarginDb: 'sw
 /** A value of the swept parameter for people. */
 export const sweptText = (sw: PanelSweep, x: number) =>
   sw.unit ? formatSi(x, sw.unit) : String(Number(x.toPrecision(3)));
-
-export interface FailingShade {
-  readonly ranges: readonly { readonly from: number; readonly to: number }[];
-  readonly color: string;
-}
-
-/** Shades the stretches of the swept range where a requirement fails, under the lines. */
-const failingPlugin: Plugin<'scatter'> = {
-  id: 'ampnoteFailing',
-  beforeDatasetsDraw(chart, _args, opts: Partial<FailingShade>) {
-    const x = chart.scales['x'];
-    if (!x || !opts.ranges?.length || !opts.color) return;
-    const { ctx, chartArea } = chart;
-    ctx.save();
-    ctx.fillStyle = opts.color;
-    for (const r of opts.ranges) {
-      const a = x.getPixelForValue(r.from);
-      const b = x.getPixelForValue(r.to);
-      const left = Math.max(chartArea.left, Math.min(a, b));
-      const right = Math.min(chartArea.right, Math.max(a, b));
-      // A single failing value still shows, as a thin band.
-      const width = Math.max(2, right - left);
-      ctx.fillRect(left, chartArea.top, width, chartArea.bottom - chartArea.top);
-    }
-    ctx.restore();
-  },
-};
 
 /** Ticks at whole decades when the axis spans a few; within a decade or two, chart.js' own ticks read better. */
 const decadesWhenWide = (kit: ChartKit) => (scale: Scale) => {
@@ -191,7 +165,7 @@ export function sweepMarginsConfig(
   }
   const has = (q: SweepQuantity) => datasets.some((d) => d.yAxisID === AXIS[q]);
   const base = kit.commonOptions(colors);
-  const failing: FailingShade = { ranges: sw.failing, color: withAlpha(colors.zero, 0.13) };
+  const failing: SpanShade = { ranges: sw.failing, color: withAlpha(colors.zero, 0.13) };
   const valueOf = (item: TooltipItem<'scatter'>) => {
     const role = (item.dataset as RoleDataset).role;
     const q = (Object.keys(ROLE) as SweepQuantity[]).find((k) => ROLE[k] === role);
@@ -201,7 +175,7 @@ export function sweepMarginsConfig(
   return {
     type: 'scatter',
     data: { datasets },
-    plugins: [kit.backgroundPlugin, failingPlugin],
+    plugins: [kit.backgroundPlugin, spanShadePlugin],
     options: {
       ...base,
       interaction: { mode: 'index', intersect: false, axis: 'x' },
@@ -236,7 +210,7 @@ export function sweepMarginsConfig(
       },
       plugins: {
         ...base.plugins,
-        ampnoteFailing: failing,
+        ampnoteSpans: failing,
         legend: {
           ...base.plugins.legend,
           // Entries stand for groups of lines, so clicking one hides nothing.

@@ -12,6 +12,7 @@ import { ANALYSABLE_MAGNITUDE } from '../language/valueRanges';
 import type { DesignModel, DesignSource } from '../language/model';
 import { freePanel } from './freeParameters';
 import { panelSweeps } from './sweepPanel';
+import { panelClosedCircuit, panelLargeSignal } from './circuitResponses';
 import {
   CAUTION,
   type CompensationChoice,
@@ -297,6 +298,8 @@ export function buildPanelData(
   if (token?.isCancellationRequested) return undefined;
 
   const step = analysis.step;
+  const largeSignal = panelLargeSignal(analysis);
+  const closedCircuit = panelClosedCircuit(analysis);
   const stable = analysis.stability ? analysis.stability.verdict === 'stable' : undefined;
   return {
     ...base,
@@ -330,8 +333,10 @@ export function buildPanelData(
           settlingTime: step.settlingTime,
           overshootPct: step.overshootPct,
           ...(stable !== undefined ? { stable } : {}),
+          ...(largeSignal ? { largeSignal } : {}),
         }
       : noStep,
+    ...(closedCircuit ? { closedCircuit } : {}),
     summary: {
       closedLoop: closedLoopVerdict(analysis),
       ugfHz: analysis.loop.ugfHz,

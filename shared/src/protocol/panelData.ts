@@ -135,6 +135,40 @@ export interface PanelSweep {
   readonly locus: readonly PanelLocusTrack[];
 }
 
+/**
+ * The large-signal step, scaled per volt of its input step so that it lies over the small-signal unit step
+ * (the two coincide while no stage's current is limited).
+ */
+export interface PanelLargeSignalStep {
+  /** The input step as stated, volts. */
+  readonly amplitude: number;
+  readonly t: readonly number[];
+  /** Output per volt of input step. */
+  readonly y: readonly number[];
+  readonly final: number;
+  readonly settlingTime?: number;
+  readonly smallSignalSettlingTime?: number;
+  /** Where some stage delivers more than 90 % of its bias (seconds). */
+  readonly slewing: readonly { readonly start: number; readonly end: number }[];
+  readonly slewRateReached: number;
+  readonly limitingStage?: string;
+}
+
+/** A loop closed by the design's own elements: its output impedance, load step and supply rejection. */
+export interface PanelClosedCircuit {
+  readonly hz: readonly number[];
+  /** |Zout| at `hz`, ohms. */
+  readonly zoutOhm: readonly number[];
+  /** The output's deviation per ampere of load step (V/A); absent when not computed. */
+  readonly loadStep?: {
+    readonly t: readonly number[];
+    readonly y: readonly number[];
+    readonly final: number;
+  };
+  /** Per `supply`, in text order: −20·log10|v(out)/v(supply)| at `hz`, dB. */
+  readonly supplies: readonly { readonly node: string; readonly rejectionDb: readonly number[] }[];
+}
+
 export interface PanelData {
   readonly uri: string;
   readonly design: string;
@@ -183,7 +217,11 @@ export interface PanelData {
     readonly stable?: boolean;
     /** Why there is no step response (the arrays are then empty), in words for the designer. */
     readonly unavailable?: string;
+    /** The same loop's response to the step its `settle` requirement states, each stage's current limited. */
+    readonly largeSignal?: PanelLargeSignalStep;
   };
+  /** For a loop closed by its own elements (`feedback at`): the whole circuit's responses. */
+  readonly closedCircuit?: PanelClosedCircuit;
   readonly summary: {
     /** The closed loop's verdict from its own poles, in words (`stable`, `UNSTABLE`, …). */
     readonly closedLoop: string;
