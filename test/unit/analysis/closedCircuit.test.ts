@@ -250,7 +250,7 @@ function scText(p: typeof SC): string {
     `  element cap in fb = ${p.cs}`,
     `  element cap ota fb = ${p.cf}`,
     `  element cap fb gnd = ${p.cp}`,
-    `  element res fb gnd = ${p.rbleed}`,
+    ...(p.rbleed > 0 ? [`  element res fb gnd = ${p.rbleed}`] : []),
     `  load cap = ${p.cl}`,
     '  output ota',
     '  feedback at fb',
@@ -289,6 +289,19 @@ describe('capacitive feedback (switched-capacitor-style stage)', () => {
     // …and the closed loop's gain there is the textbook −Cs/Cf, short of it by about 1/T.
     const g = pzk(closedGain(a), jw(100));
     expect(relC(g, cx(-SC.cs / SC.cf))).toBeLessThan(0.01);
+  });
+
+  it('without a DC path at fb (its charge held), has the DC values of charge conservation', () => {
+    const a = analysisOf(scText({ ...SC, rbleed: 0 }));
+    // Derivation: with the summing node's charge held at zero, Cs·(v(fb) − v(in)) + Cf·(v(fb) − v(ota)) +
+    // Cp·v(fb) = 0 at DC, and v(ota) = −gm·R·v(fb) + R·i (a current i into the output). So
+    // T(0) = gm·R·Cf/(Cf + Cs + Cp), in → out = −(Cs/Cf)·T(0)/(1 + T(0)) and Zout(0) = R/(1 + T(0)).
+    const t0 = (SC.gm * SC.r * SC.cf) / (SC.cf + SC.cs + SC.cp);
+    expect(Math.abs(a.dcGain - t0) / t0).toBeLessThan(1e-9);
+    const cl = -(SC.cs / SC.cf) * (t0 / (1 + t0));
+    expect(Math.abs(closedLoopDcGain(a)! - cl) / Math.abs(cl)).toBeLessThan(1e-9);
+    const z0 = SC.r / (1 + t0);
+    expect(Math.abs(a.closedCircuit!.outputImpedance.dcOhm - z0) / z0).toBeLessThan(1e-9);
   });
 });
 
