@@ -40,7 +40,7 @@ export function saturatingStages(model: DesignModel, network: Network): Saturati
     if (st.bias === undefined || !(st.bias > 0) || !(st.gm > 0)) continue;
     const node = index.get(st.name);
     const plus = terminal(st.input);
-    const minus = terminal(negativeInput(st));
+    const minus = terminal(st.inputN);
     if (node === undefined) continue;
     out.push({
       name: st.name,
@@ -53,14 +53,6 @@ export function saturatingStages(model: DesignModel, network: Network): Saturati
     });
   }
   return out;
-}
-
-/**
- * The stage's second (negative) sensing node, `stage X from P, N`; absent means ground. Read through a
- * widened type so this compiles whether or not the model carries differential inputs yet.
- */
-function negativeInput(st: DesignModel['stages'][number]): NodeRef | undefined {
-  return (st as { readonly inputN?: NodeRef }).inputN;
 }
 
 /** The stage's output current over its bias, tanh(gm·v/bias), in (−1, 1). */
