@@ -7,7 +7,9 @@ import type { Network } from '../circuit/network';
 import { buildNetwork, type NetworkSource } from '../circuit/buildNetwork';
 import { realize, nodalDcGain, type StateSpace } from './realization';
 import { polesOf, zerosOf } from './polesZeros';
-import { checkPole } from './rootCheck';
+import { checkPole, refinePoles, refineZeros, rootScale } from './rootCheck';
+import { cancelAtOrigin, dcFromRoots, heldCharges, snapHeld } from './heldCharge';
+import { withoutHeld } from './stability';
 import { byMagnitude } from './core';
 import { logGrid, logMagnitudeFunction } from './loop';
 import { brentRoot, goldenMax } from '../numeric/roots';
@@ -43,6 +45,10 @@ export interface ClosedCircuitResult {
 interface Realized {
   readonly network: Network;
   readonly system: StateSpace;
+  /** Nodes that keep their charge (heldCharge.ts). */
+  readonly held: number;
+  /** Every natural frequency of the network, held charges included (exactly 0). */
+  readonly all: readonly Complex[];
   readonly transfer: Transfer;
 }
 
@@ -56,21 +62,41 @@ function transferFrom(
   if (!built.ok) return built;
   const real = realize(built.network);
   if (!real.ok) return real;
+  const held = heldCharges(built.network);
   // Every source sees the same G and C, so the same realised A: its eigenvalues are computed once.
-  const ps = poles ?? polesOf(real.system).sort(byMagnitude);
   const z = zerosOf(real.system);
-  const zeros = z.zeros.sort(byMagnitude);
+  // Newton polishing on the network itself, as for the loop's roots (core.ts): it recovers the digits
+  // the rotated realisation loses.
+  const raw = poles ? undefined : polesOf(real.system);
+  const scale = Math.max(rootScale(poles ?? raw ?? []), rootScale(z.zeros));
+  const all =
+    poles ?? snapHeld(refinePoles(built.network, raw!.sort(byMagnitude), scale), held).sort(byMagnitude);
+  const refinedZeros = refineZeros(built.network, z.zeros.sort(byMagnitude), scale);
+  // A held charge's pole cancels against a zero at the origin in every transfer (heldCharge.ts).
+  const kept = held > 0 ? cancelAtOrigin(all, refinedZeros) : { poles: [...all], zeros: refinedZeros };
+  const zeros = kept.zeros.sort(byMagnitude);
   let dc = nodalDcGain(built.network);
+  if (dc === undefined && held > 0) dc = dcFromRoots(z.k, kept.poles, zeros);
   if (dc === undefined) dc = Math.sign(z.k) * Infinity;
   if (z.k === 0) dc = 0;
   return {
     ok: true,
-    value: { network: built.network, system: real.system, transfer: { poles: ps, zeros, k: z.k, dc } },
+    value: {
+      network: built.network,
+      system: real.system,
+      held,
+      all,
+      transfer: { poles: kept.poles, zeros, k: z.k, dc },
+    },
   };
 }
 
-/** The band where the closed circuit's responses are plotted and searched: its roots and the loop's, with room. */
-export function responseBand(roots: readonly Complex[]): FrequencyBand {
+/**
+ * The band where the closed circuit's responses are plotted and searched: its roots and the loop's, with
+ * room, but no further up than a thousand times the loop's unity-gain frequency when it has one (a
+ * parasitic mode far above the loop, e.g. an ESR with a femtofarad, says nothing about the regulation).
+ */
+export function responseBand(roots: readonly Complex[], ugfHz?: number): FrequencyBand {
   let min = Infinity;
   let max = 0;
   for (const r of roots) {
@@ -84,7 +110,9 @@ export function responseBand(roots: readonly Complex[]): FrequencyBand {
   // A hundredth of the lowest root to a thousand times the highest: every corner with two decades of
   // asymptote below and three above.
   const lo = min / 100 / (2 * Math.PI);
-  const hi = (max * 1000) / (2 * Math.PI);
+  let hi = (max * 1000) / (2 * Math.PI);
+  if (ugfHz !== undefined && ugfHz > 0 && Number.isFinite(ugfHz))
+    hi = Math.max(Math.min(hi, ugfHz * 1000), lo * 10);
   // Decade edges, so the grid is the same whatever the roots' exact values.
   return { loHz: 10 ** Math.floor(Math.log10(lo)), hiHz: 10 ** Math.ceil(Math.log10(hi)) };
 }
@@ -148,7 +176,7 @@ function loadStepOf(z: Realized, stable: boolean): LoadStepResponse | undefined 
   const { system, transfer } = z;
   const negated = { ...system, c: system.c.map((x) => -x), d: -system.d };
   const final = stable ? -transfer.dc : NaN;
-  const outcome: StepOutcome = stepResponse(negated, transfer.poles, final, LOAD_STEP_TOLERANCE);
+  const outcome: StepOutcome = stepResponse(negated, withoutHeld(z.all, z.held), final, LOAD_STEP_TOLERANCE);
   if (!outcome.ok) return undefined;
   const { t, y } = outcome.step;
   let peak = 0;
@@ -192,6 +220,7 @@ const rejectionDb = (magnitude: number) => -20 * Math.log10(magnitude);
 export function analyzeClosedCircuit(
   model: DesignModel,
   loopRoots: readonly Complex[],
+  loopUgfHz: number | undefined,
   tolerance: number,
   withStep: boolean,
 ): { ok: true; value: ClosedCircuitResult } | { ok: false; problems: AnalysisProblem[] } {
@@ -199,16 +228,15 @@ export function analyzeClosedCircuit(
   if (!at) return { ok: false, problems: [{ message: 'the design has no `feedback at` node' }] };
   const gain = transferFrom(model, { kind: 'input' }, undefined);
   if (!gain.ok) return gain;
-  const poles = gain.value.transfer.poles;
-  const stable = poles.every((p) => p.re < 0);
+  const poles = gain.value.all;
+  const active = withoutHeld(poles, gain.value.held);
+  const stable = active.every((p) => p.re < 0);
   const zout = transferFrom(model, { kind: 'current', node: model.output }, poles);
   if (!zout.ok) return zout;
-  const band = responseBand([
-    ...loopRoots,
-    ...poles,
-    ...gain.value.transfer.zeros,
-    ...zout.value.transfer.zeros,
-  ]);
+  const band = responseBand(
+    [...loopRoots, ...poles, ...gain.value.transfer.zeros, ...zout.value.transfer.zeros],
+    loopUgfHz,
+  );
   const supplies: SupplyRejection[] = [];
   for (const s of model.supplies ?? []) {
     const r = transferFrom(model, { kind: 'supply', node: s.node }, poles);
@@ -227,7 +255,7 @@ export function analyzeClosedCircuit(
   let step: StepResponse | undefined;
   let stepUnavailable: string | undefined;
   if (withStep) {
-    const outcome = stepResponse(gain.value.system, poles, stable ? gain.value.transfer.dc : NaN, tolerance);
+    const outcome = stepResponse(gain.value.system, active, stable ? gain.value.transfer.dc : NaN, tolerance);
     if (outcome.ok) step = outcome.step;
     else stepUnavailable = outcome.reason;
   }
