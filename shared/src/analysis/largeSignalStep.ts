@@ -17,7 +17,7 @@ import type { Network } from '../circuit/network';
 import { buildNetwork } from '../circuit/buildNetwork';
 import type { DesignModel } from '../language/model';
 import { luFactor, luSolve } from '../numeric/luReal';
-import { END_SLOPE, radauStep, type ImplicitSystem } from '../numeric/radau';
+import { END_SLOPE, radauStepper, type ImplicitSystem } from '../numeric/radau';
 import { brentRoot } from '../numeric/roots';
 import { settleToleranceProblem } from './settleTolerance';
 import { saturatingStages, stageFraction, type SaturatingStage } from './saturatingStages';
@@ -203,6 +203,7 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
     return { ok: false, reason: 'the closed loop is not stable, so the step never settles' };
   const sys = stepSystem(input);
   const n = sys.n;
+  const advance = radauStepper(sys);
   const fastest = Math.max(...poles.map((p) => Math.hypot(p.re, p.im)));
   const slowestDecay = Math.min(...poles.map((p) => -p.re));
   const tail = (Math.log(1 / tolerance) + 6) / slowestDecay;
@@ -273,9 +274,9 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
     // A response that keeps moving (a large-signal oscillation) is cut off: it does not settle.
     if (steps > MAX_STEPS || now > MAX_SPANS * linearSpan) break;
     const sc = scaleOf(state);
-    const whole = radauStep(sys, state, h, sc, NEWTON_FRACTION);
-    const first = whole && radauStep(sys, state, h / 2, sc, NEWTON_FRACTION);
-    const second = first && radauStep(sys, first.y, h / 2, sc, NEWTON_FRACTION);
+    const whole = advance(state, h, sc, NEWTON_FRACTION);
+    const first = whole && advance(state, h / 2, sc, NEWTON_FRACTION);
+    const second = first && advance(first.y, h / 2, sc, NEWTON_FRACTION);
     if (!whole || !first || !second) {
       h /= 4;
       if (h < hMin) return { ok: false, reason: 'the integration of the step response failed to converge' };
@@ -309,7 +310,7 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
   // Without a converged equilibrium, the end of the integration (a full linear tail after the last
   // nonlinear instant) stands for it.
   const final = finalState ? sys.output(finalState) : y[y.length - 1]!;
-  const settling = ended ? settlingTime(sys, t, y, states, final, tolerance, scaleOf) : undefined;
+  const settling = ended ? settlingTime(sys, advance, t, y, states, final, tolerance, scaleOf) : undefined;
   // A stage still beyond 90 % of its bias at the equilibrium: the step is beyond the output's range. The
   // last such stage in the text (nearest the output) is the one that runs out; the ones before it saturate
   // on the error it leaves.
@@ -379,6 +380,7 @@ function negate(f: (y: Float64Array, out: Float64Array) => void, y: Float64Array
  */
 function settlingTime(
   sys: StepSystem,
+  advance: ReturnType<typeof radauStepper>,
   t: number[],
   y: number[],
   states: Float64Array[],
@@ -395,8 +397,8 @@ function settlingTime(
   const sc = scaleOf(start);
   const at = (tau: number): number => {
     if (tau === 0) return y[last]!;
-    const a = radauStep(sys, start, tau / 2, sc, NEWTON_FRACTION);
-    const b = a && radauStep(sys, a.y, tau / 2, sc, NEWTON_FRACTION);
+    const a = advance(start, tau / 2, sc, NEWTON_FRACTION);
+    const b = a && advance(a.y, tau / 2, sc, NEWTON_FRACTION);
     return b ? sys.output(b.y) : NaN;
   };
   const h = t[last + 1]! - t[last]!;

@@ -67,6 +67,16 @@ export function radauStep(
   scale: Float64Array,
   newtonTol: number,
 ): RadauStep | undefined {
+  return radauStepper(sys)(y0, h, scale, newtonTol);
+}
+
+/**
+ * `radauStep` for one system, with its scratch arrays allocated once: an integration takes thousands of
+ * steps, and fresh arrays for each kept the garbage collector busier than the arithmetic.
+ */
+export function radauStepper(
+  sys: ImplicitSystem,
+): (y0: Float64Array, h: number, scale: Float64Array, newtonTol: number) => RadauStep | undefined {
   const n = sys.n;
   const N = 3 * n;
   const z = new Float64Array(N); // Z_j = Y_j − y0, stacked
@@ -76,70 +86,75 @@ export function radauStep(
   const big = new Float64Array(N * N);
   const rhs = new Float64Array(N);
   const rowScale = new Float64Array(N);
-  let previous = Infinity;
-  let lu: ReturnType<typeof luFactor> | undefined;
-  const stageValues = () => {
-    for (let j = 0; j < 3; j++) for (let i = 0; i < n; i++) y[j]![i] = y0[i]! + z[j * n + i]!;
-  };
-  stageValues();
-  // Simplified Newton with the Jacobian at y0; full Newton when that converges slowly (a stage crossing
-  // from its linear range into saturation within the step).
-  let perStage = false;
-  const factor = () => {
-    for (let j = 0; j < 3; j++) sys.jacobian(perStage ? y[j]! : y0, jac[j]!);
-    for (let bi = 0; bi < 3; bi++)
-      for (let bj = 0; bj < 3; bj++) {
-        const a = h * RADAU_A[bi]![bj]!;
-        const J = jac[bj]!;
-        for (let i = 0; i < n; i++)
-          for (let k = 0; k < n; k++)
-            big[(bi * n + i) * N + bj * n + k] = (bi === bj ? sys.M[i * n + k]! : 0) - a * J[i * n + k]!;
-      }
-    // Rows mix charge (capacitance) and current (h·conductance) scales: equilibrate them so that partial
-    // pivoting compares like with like.
-    for (let r = 0; r < N; r++) {
-      let m = 0;
-      for (let c = 0; c < N; c++) m = Math.max(m, Math.abs(big[r * N + c]!));
-      rowScale[r] = m > 0 ? 1 / m : 1;
-      for (let c = 0; c < N; c++) big[r * N + c]! *= rowScale[r]!;
-    }
-    lu = luFactor(big, N);
-  };
-  factor();
-  for (let iter = 0; iter < MAX_NEWTON; iter++) {
-    if (lu!.singular) return undefined;
-    for (let j = 0; j < 3; j++) sys.f(y[j]!, fy[j]!);
-    // Residual of M·Z_i − h·Σ_j a_ij·f(Y_j) = 0, negated.
-    for (let bi = 0; bi < 3; bi++)
-      for (let i = 0; i < n; i++) {
-        let s = 0;
-        for (let k = 0; k < n; k++) s += sys.M[i * n + k]! * z[bi * n + k]!;
-        for (let bj = 0; bj < 3; bj++) s -= h * RADAU_A[bi]![bj]! * fy[bj]![i]!;
-        rhs[bi * n + i] = -s * rowScale[bi * n + i]!;
-      }
-    const dz = luSolve(lu!, rhs);
-    let norm = 0;
-    // An update at the roundoff of the stage values cannot shrink further, whatever the tolerance asks.
-    let roundoff = true;
-    for (let r = 0; r < N; r++) {
-      if (!Number.isFinite(dz[r]!)) return undefined;
-      z[r]! += dz[r]!;
-      const w = dz[r]! / scale[r % n]!;
-      norm += w * w;
-      if (Math.abs(dz[r]!) > ROUNDOFF * Math.abs(y0[r % n]! + z[r]!)) roundoff = false;
-    }
-    norm = Math.sqrt(norm / N);
+  return step;
+  function step(y0: Float64Array, h: number, scale: Float64Array, newtonTol: number): RadauStep | undefined {
+    z.fill(0);
+    let previous = Infinity;
+    let lu: ReturnType<typeof luFactor> | undefined;
+    const stageValues = () => {
+      for (let j = 0; j < 3; j++) for (let i = 0; i < n; i++) y[j]![i] = y0[i]! + z[j * n + i]!;
+    };
     stageValues();
-    if (norm <= newtonTol || roundoff)
-      return { y: Float64Array.from(y[2]!), stages: y.map((v) => Float64Array.from(v)) };
-    const rate = norm / previous;
-    if (rate >= 1 && iter > 1) return undefined;
-    // Slow convergence: switch to full Newton, the Jacobian at the current stages every iteration.
-    if (rate > 0.1 || perStage) {
-      perStage = true;
-      factor();
+    // Simplified Newton with the Jacobian at y0; full Newton when that converges slowly (a stage crossing
+    // from its linear range into saturation within the step).
+    let perStage = false;
+    const factor = () => {
+      if (perStage) for (let j = 0; j < 3; j++) sys.jacobian(y[j]!, jac[j]!);
+      else sys.jacobian(y0, jac[0]!);
+      for (let bi = 0; bi < 3; bi++)
+        for (let bj = 0; bj < 3; bj++) {
+          const a = h * RADAU_A[bi]![bj]!;
+          const J = jac[perStage ? bj : 0]!;
+          for (let i = 0; i < n; i++)
+            for (let k = 0; k < n; k++)
+              big[(bi * n + i) * N + bj * n + k] = (bi === bj ? sys.M[i * n + k]! : 0) - a * J[i * n + k]!;
+        }
+      // Rows mix charge (capacitance) and current (h·conductance) scales: equilibrate them so that partial
+      // pivoting compares like with like.
+      for (let r = 0; r < N; r++) {
+        let m = 0;
+        for (let c = 0; c < N; c++) m = Math.max(m, Math.abs(big[r * N + c]!));
+        rowScale[r] = m > 0 ? 1 / m : 1;
+        for (let c = 0; c < N; c++) big[r * N + c]! *= rowScale[r]!;
+      }
+      lu = luFactor(big, N);
+    };
+    factor();
+    for (let iter = 0; iter < MAX_NEWTON; iter++) {
+      if (lu!.singular) return undefined;
+      for (let j = 0; j < 3; j++) sys.f(y[j]!, fy[j]!);
+      // Residual of M·Z_i − h·Σ_j a_ij·f(Y_j) = 0, negated.
+      for (let bi = 0; bi < 3; bi++)
+        for (let i = 0; i < n; i++) {
+          let s = 0;
+          for (let k = 0; k < n; k++) s += sys.M[i * n + k]! * z[bi * n + k]!;
+          for (let bj = 0; bj < 3; bj++) s -= h * RADAU_A[bi]![bj]! * fy[bj]![i]!;
+          rhs[bi * n + i] = -s * rowScale[bi * n + i]!;
+        }
+      const dz = luSolve(lu!, rhs);
+      let norm = 0;
+      // An update at the roundoff of the stage values cannot shrink further, whatever the tolerance asks.
+      let roundoff = true;
+      for (let r = 0; r < N; r++) {
+        if (!Number.isFinite(dz[r]!)) return undefined;
+        z[r]! += dz[r]!;
+        const w = dz[r]! / scale[r % n]!;
+        norm += w * w;
+        if (Math.abs(dz[r]!) > ROUNDOFF * Math.abs(y0[r % n]! + z[r]!)) roundoff = false;
+      }
+      norm = Math.sqrt(norm / N);
+      stageValues();
+      if (norm <= newtonTol || roundoff)
+        return { y: Float64Array.from(y[2]!), stages: y.map((v) => Float64Array.from(v)) };
+      const rate = norm / previous;
+      if (rate >= 1 && iter > 1) return undefined;
+      // Slow convergence: switch to full Newton, the Jacobian at the current stages every iteration.
+      if (rate > 0.1 || perStage) {
+        perStage = true;
+        factor();
+      }
+      previous = norm;
     }
-    previous = norm;
+    return undefined;
   }
-  return undefined;
 }
