@@ -415,6 +415,57 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
       await screenshot(page, output, 'panel-free-solved');
     },
   );
+
+  // A design with a sweep: its code lens names the worst value, and the panel draws the sweep's charts.
+  // The shortest such file, so the whole design is on screen.
+  const sweepFile = expected
+    .map((e) => ({ file: e.file, text: readFileSync(join(workspace, e.file), 'utf8') }))
+    .filter((e) => /^\s*sweep\s/m.test(e.text))
+    .sort((a, b) => a.text.length - b.text.length)[0]?.file;
+  await check(
+    'UI: a design with a sweep shows its phase-margin lens, and the panel draws the sweep charts',
+    async () => {
+      if (!sweepFile) throw new Error('no example has a sweep');
+      const lines = readFileSync(join(workspace, sweepFile), 'utf8').split(/\r?\n/);
+      const sweepLine = lines.findIndex((l) => /^\s*sweep\s/.test(l));
+      const param = lines[sweepLine].trim().split(/\s+/)[1];
+      await quickOpen(page, sweepFile);
+      // The file may open in the panel's group, not the first: go to the line in the editor just opened
+      // (it has the focus), which goToLine (first group) would not.
+      await page.keyboard.press('Control+G');
+      const input = page.locator('.quick-input-widget input');
+      await input.waitFor({ state: 'visible', timeout: 10_000 });
+      await input.fill(`:${sweepLine + 1}:1`);
+      await page.keyboard.press('Enter');
+      await input.waitFor({ state: 'hidden', timeout: 10_000 });
+      const lens = await poll(
+        `the code lens above the sweep of ${param}`,
+        async () => {
+          const texts = await page.locator('.codelens-decoration').allInnerTexts();
+          return texts.find((t) => new RegExp(`PM .* over ${param} \\(worst`).test(t));
+        },
+        60_000,
+      );
+      console.log(`        code lens: "${lens.replace(/\s+/g, ' ').trim()}"`);
+      await runCommand(page, commandTitle(root, 'ampnote.showPanel'));
+      const panel = page.frameLocator('iframe.webview.ready').last().frameLocator('#active-frame');
+      await poll(
+        'the sweep charts drawn in the panel',
+        async () => {
+          if (!(await panel.locator('#card-sweep-margins').isVisible())) return undefined;
+          const ink = await canvasInkOf(panel, ['chart-sweep-margins', 'chart-sweep-locus']);
+          return ink.every((n) => n > 500) ? true : undefined;
+        },
+        60_000,
+      );
+      const note = await panel.locator('#note-sweep-margins').innerText();
+      if (!/Lowest phase margin/.test(note)) throw new Error(`the sweep chart's note reads "${note}"`);
+      console.log(`        ${note.replace(/\s+/g, ' ')}`);
+      await panel.locator('#card-sweep-margins').scrollIntoViewIfNeeded();
+      await screenshot(page, output, 'panel-sweep');
+    },
+    120_000,
+  );
 }
 
 /** A phase-margin finding whose preferred fix sets a value for a stated margin, examples first. */
@@ -475,6 +526,21 @@ async function canvasInk(frame) {
     }
     return ink;
   });
+}
+
+/** Pixels that are not transparent in each of the named canvases. */
+async function canvasInkOf(frame, ids) {
+  return frame.locator('body').evaluate((_, ids) => {
+    return ids.map((id) => {
+      const c = document.getElementById(id);
+      const ctx = c && c.width > 0 && c.height > 0 ? c.getContext('2d') : null;
+      if (!ctx) return 0;
+      const d = ctx.getImageData(0, 0, c.width, c.height).data;
+      let ink = 0;
+      for (let i = 3; i < d.length; i += 4) if (d[i] !== 0) ink += 1;
+      return ink;
+    });
+  }, ids);
 }
 
 /** A checksum of the poles-and-zeros chart's pixels and the summary's text: both change when the poles move. */
