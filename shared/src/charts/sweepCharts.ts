@@ -47,6 +47,11 @@ export const sweptText = (sw: PanelSweep, x: number) =>
 const decadesWhenWide = (kit: ChartKit) => (scale: Scale) => {
   const decades = kit.decadeTicks(scale.min, scale.max);
   if (decades.length >= 3) scale.ticks = decades.map((value) => ({ value }));
+  // chart.js' own logarithmic ticks crowd a narrow axis (1.2, 1.4, 1.6 … MHz): keep about five.
+  else if (scale.ticks.length > 6) {
+    const every = Math.ceil(scale.ticks.length / 5);
+    scale.ticks = scale.ticks.filter((_, i) => i % every === 0);
+  }
 };
 
 /**
