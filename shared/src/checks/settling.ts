@@ -100,12 +100,7 @@ function settleHits(input: CheckInput, run: CornerRun, req: SettleRequirement, i
           : `Settling ${what} takes ${formatSi(ts, 's')}, longer than the required ${formatSi(req.within, 's')}` +
             (overshoot ? ` (overshoot ${formatPercent(step.overshootPct / 100)})` : '')) +
         // Which part dominates: the slewing or the linear tail (the small-signal time beside it).
-        (large
-          ? `: ${largeSignalSummary(large, a.slew)}` +
-            (large.smallSignalSettlingTime !== undefined
-              ? ` (small-signal settling alone: ${formatSi(large.smallSignalSettlingTime, 's')})`
-              : '')
-          : ''),
+        (large ? `: ${largeSignalSummary(large, a.slew)}` : ''),
       range,
       related: [
         required,

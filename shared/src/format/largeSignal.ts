@@ -10,15 +10,19 @@ const ORDINALS = ['first', 'second', 'third', 'fourth', 'fifth', 'sixth', 'seven
 const stageWords = (name: string) => (ORDINALS.includes(name) ? `the ${name} stage` : `stage ${name}`);
 
 /**
- * `slewing 140 ns of 212 ns; the second stage limits: 95 uA into 13 pF`, or `no stage slews: the settling is
- * linear` when no stage passes 90 % of its bias.
+ * `slewing 140 ns of 212 ns; the second stage limits: 95 uA into 13 pF; small-signal settling alone: 60 ns`,
+ * or `no stage slews; …` when no stage passes 90 % of its bias.
  */
 export function largeSignalSummary(l: LargeSignalStep, slew: SlewEstimate | undefined): string {
   if (l.saturatedStage !== undefined)
     return `the step is beyond the output's range: ${stageWords(l.saturatedStage)} stays at its current limit and the output ends at ${formatSi(l.final, 'V')}`;
-  if (l.slewingTime <= 0 || l.limitingStage === undefined) return 'no stage slews: the settling is linear';
+  const small =
+    l.smallSignalSettlingTime !== undefined
+      ? `; small-signal settling alone: ${formatSi(l.smallSignalSettlingTime, 's')}`
+      : '';
+  if (l.slewingTime <= 0 || l.limitingStage === undefined) return `no stage slews${small}`;
   const total = l.settlingTime !== undefined ? ` of ${formatSi(l.settlingTime, 's')}` : '';
   const limit = slew?.limits.find((x) => x.stage === l.limitingStage);
   const detail = limit ? `: ${formatSi(limit.current, 'A')} into ${formatSi(limit.cap, 'F')}` : '';
-  return `slewing ${formatSi(l.slewingTime, 's')}${total}; ${stageWords(l.limitingStage)} limits${detail}`;
+  return `slewing ${formatSi(l.slewingTime, 's')}${total}; ${stageWords(l.limitingStage)} limits${detail}${small}`;
 }

@@ -229,7 +229,7 @@ end
     expect(m.label).toBe('settling of a 1 V step to ±0.1 %');
     // The first stage's 10 uA charges the 1 pF Miller capacitor (docs/analysis.md, Slew rate).
     expect(m.measured).toMatch(
-      /^[\d.]+ ns \(slewing [\d.]+ ns of [\d.]+ ns; the first stage limits: 10 uA into 1 pF\)$/,
+      /^[\d.]+ ns \(slewing [\d.]+ ns of [\d.]+ ns; the first stage limits: 10 uA into 1 pF; small-signal settling alone: [\d.]+ ns\)$/,
     );
     expect(m.pass).toBe(true);
   });
@@ -298,7 +298,7 @@ end
     const onlyLarge = settling(design('1 us', '50 ns'));
     expect(onlyLarge).toHaveLength(1);
     expect(onlyLarge[0]!.message).toMatch(
-      /^Settling a 1 V step to ±0\.1 % takes [\d.]+ ns, longer than the required 50 ns: slewing [\d.]+ ns of [\d.]+ ns; the first stage limits: 20 uA into 1\.2 pF \(small-signal settling alone: [\d.]+ ns\)$/,
+      /^Settling a 1 V step to ±0\.1 % takes [\d.]+ ns, longer than the required 50 ns: slewing [\d.]+ ns of [\d.]+ ns; the first stage limits: 20 uA into 1\.2 pF; small-signal settling alone: [\d.]+ ns$/,
     );
     expect(onlyLarge[0]!.related.map((r) => r.message)).toContain(
       'the bias of stage first limits the slewing',
