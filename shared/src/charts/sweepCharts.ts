@@ -3,8 +3,9 @@
 // along the sweep in the complex plane. Configurations only; draw.ts registers and draws them.
 import type { ChartConfiguration, Plugin, Scale, TooltipItem } from 'chart.js';
 import { spanShadePlugin, type SpanShade } from './spanShade';
+import { SWEEP_QUANTITY } from '../sweep/quantities';
 import type { PanelData, PanelSweep, SweepQuantity } from '../protocol/panelData';
-import { formatDb, formatDeg, formatHz, formatSi } from '../format/si';
+import { formatDeg, formatHz, formatSi } from '../format/si';
 import { modulusHz } from '../numeric/complex';
 import { withAlpha, type ChartColors } from './colors';
 import { selectedSweep } from './presence';
@@ -31,12 +32,6 @@ export interface ChartKit {
 type Config = ChartConfiguration<'scatter', PlotPoint[]>;
 
 const AXIS: Record<SweepQuantity, string> = { phaseMarginDeg: 'pm', ugfHz: 'ugf', gainMarginDb: 'gm' };
-const SHORT: Record<SweepQuantity, string> = { phaseMarginDeg: 'PM', ugfHz: 'UGF', gainMarginDb: 'GM' };
-const TEXT: Record<SweepQuantity, (v: number) => string> = {
-  phaseMarginDeg: formatDeg,
-  ugfHz: (v) => formatHz(v),
-  gainMarginDb: formatDb,
-};
 const ROLE = { phaseMarginDeg: 'sweep-pm', ugfHz: 'sweep-ugf', gainMarginDb: 'sweep-gm' } as const;
 
 /** A value of the swept parameter for people. */
@@ -78,7 +73,7 @@ function legendLabels(sw: PanelSweep, colors: ChartColors, datasets: readonly Ro
       ? sw.corners.map((c, k) => item(c.corner, colors.series[k % colors.series.length]!, []))
       : []),
     ...quantities.map((q) =>
-      item(SHORT[q], sw.corners.length > 1 ? colors.muted : colors.series[0]!, dash[q]),
+      item(SWEEP_QUANTITY[q].short, sw.corners.length > 1 ? colors.muted : colors.series[0]!, dash[q]),
     ),
     ...datasets.flatMap((d, i) =>
       d.role === 'sweep-requirement' || d.role === 'sweep-worst'
@@ -126,7 +121,7 @@ export function sweepMarginsConfig(
       datasets.push(
         kit.line(
           ROLE[q],
-          `${SHORT[q]}${several ? ` ${c.corner}` : ''}`,
+          `${SWEEP_QUANTITY[q].short}${several ? ` ${c.corner}` : ''}`,
           // A value not computed there (no unity crossing, an unbounded gain margin) is a gap in the line.
           sw.values.map((x, i) => ({ x, y: ys[i] ?? NaN, swept: x, corner: c.corner })),
           color,
@@ -175,7 +170,9 @@ export function sweepMarginsConfig(
     const role = (item.dataset as RoleDataset).role;
     const q = (Object.keys(ROLE) as SweepQuantity[]).find((k) => ROLE[k] === role);
     const p = item.raw as PlotPoint;
-    return q ? `${p.corner && several ? `${p.corner}: ` : ''}${SHORT[q]} ${TEXT[q](p.y)}` : '';
+    return q
+      ? `${p.corner && several ? `${p.corner}: ` : ''}${SWEEP_QUANTITY[q].short} ${SWEEP_QUANTITY[q].text(p.y)}`
+      : '';
   };
   return {
     type: 'scatter',

@@ -3,7 +3,6 @@
 // corner's poles and zeros followed along the sweep. Computed from the design as written (the sliders
 // move one analysis, not the range), and kept for the design's text so a slider move does not redo it.
 import type { CancelToken } from '../analysis/types';
-import { formatDb, formatDeg, formatHz } from '../format/si';
 import type { DesignSource, Requirement, RequirementKind } from '../language/model';
 import type {
   PanelSweep,
@@ -13,9 +12,8 @@ import type {
 } from '../protocol/panelData';
 import { requirementFailures, failingRanges } from '../sweep/judgeSweep';
 import { locusTracks } from '../sweep/locusTracks';
+import { SWEEP_QUANTITY } from '../sweep/quantities';
 import { locusOf, metricsOf, specOf, sweepDesign, writeValue, type SweepResult } from '../sweep/sweepDesign';
-
-const QUANTITIES: readonly SweepQuantity[] = ['phaseMarginDeg', 'ugfHz', 'gainMarginDb'];
 
 /**
  * The requirements that bound one of the three quantities drawn, and which. Others (a zero's place, the
@@ -29,16 +27,10 @@ const DRAWN: Partial<Record<RequirementKind, SweepQuantity>> = {
 
 const drawnQuantity = (req: Requirement) => DRAWN[req.kind];
 
-const SHOW: Record<SweepQuantity, { short: string; text: (v: number) => string }> = {
-  phaseMarginDeg: { short: 'PM', text: formatDeg },
-  ugfHz: { short: 'UGF', text: (v) => formatHz(v) },
-  gainMarginDb: { short: 'GM', text: formatDb },
-};
-
 function requirementLabel(req: Requirement): string {
   const q = drawnQuantity(req);
   const op = 'op' in req ? (req.op === '>=' ? '≥' : '≤') : '≥';
-  if (q && 'value' in req) return `${SHOW[q].short} ${op} ${SHOW[q].text(req.value)}`;
+  if (q && 'value' in req) return `${SWEEP_QUANTITY[q].short} ${op} ${SWEEP_QUANTITY[q].text(req.value)}`;
   return `require ${req.kind}`;
 }
 
@@ -129,5 +121,3 @@ export function panelSweeps(source: DesignSource, token?: CancelToken): readonly
   MEMO.set(source.text, out);
   return out;
 }
-
-export { QUANTITIES as SWEEP_QUANTITIES };
