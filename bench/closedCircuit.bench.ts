@@ -70,12 +70,17 @@ function main() {
       `stability ${a.stability?.verdict})`,
   );
   console.log('one closed-loop analysis (analyzeDesign), median per call');
-  console.log(`  the loop gain T(s) alone (analyzeLoop)           ${perCall(() => analyzeLoop(model), 200)}`);
   console.log(
-    `  loop gain and closed circuit, no in → out step   ${perCall(() => analyzeDesign(model, { step: false }), 200)}`,
+    `  the loop gain T(s) alone (analyzeLoop)                    ${perCall(() => analyzeLoop(model), 200)}`,
   );
   console.log(
-    `  full (with the in → out step and settling)       ${perCall(() => analyzeDesign(model), 200)}`,
+    `  loop, closed circuit, no time responses or participation  ${perCall(() => analyzeDesign(model, { step: false, participation: false }), 200)}`,
+  );
+  console.log(
+    `  loop, closed circuit and participation, no time responses ${perCall(() => analyzeDesign(model, { step: false }), 200)}`,
+  );
+  console.log(
+    `  full (with the in → out step, settling and the load step) ${perCall(() => analyzeDesign(model), 200)}`,
   );
   const load = (() => {
     try {

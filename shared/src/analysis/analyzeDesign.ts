@@ -11,7 +11,7 @@ import { stepResponse } from './stepResponse';
 import { largeSignalFields, largeSignalFieldsOfCircuit } from './largeSignalStep';
 import { slewEstimate } from './slew';
 import { handEstimates } from './handEstimates';
-import { judgeStability } from './stability';
+import { judgeStability, withoutHeld } from './stability';
 
 export interface AnalyzeOptions {
   /** Settling band as a fraction of the final value (default: the design's `settle` requirement, else 0.1 %). */
@@ -97,8 +97,9 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
   const closedGain = factorClosedLoop({ ...r, d: r.system.d, closedPoles: r.closedPoles });
   if (options.step !== false) {
     const final = closedGain.dc;
-    const stable = r.closedPoles.every((p) => p.re < 0);
-    const outcome = stepResponse(r.closed, r.closedPoles, stable ? final : NaN, tolerance);
+    const active = withoutHeld(r.closedPoles, r.heldCharges);
+    const stable = active.every((p) => p.re < 0);
+    const outcome = stepResponse(r.closed, active, stable ? final : NaN, tolerance);
     if (outcome.ok) step = outcome.step;
     else stepUnavailable = outcome.reason;
   }
@@ -126,7 +127,7 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     hand: handEstimates(model, r.open.poles, r.open.zeros),
     problems: [],
     closedLoopPoles: r.closedPoles,
-    stability: judgeStability(r.closedPoles, r.open.poles),
+    stability: judgeStability(r.closedPoles, r.open.poles, r.heldCharges),
     loopGain: {
       poles: r.open.poles,
       zeros: r.open.zeros,
@@ -135,7 +136,9 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     },
     ...(warnings.length > 0 ? { warnings } : {}),
     // The light core (synthesis) leaves the closed loop out: then there is no closed-loop transfer either.
-    ...(r.closedPoles.length > 0 || r.open.poles.length === 0 ? closedLoopGainFields(closedGain) : {}),
+    ...(r.closedPoles.length > 0 || r.open.poles.length === 0
+      ? closedLoopGainFields(closedGain, r.loop.ugfHz)
+      : {}),
   };
   return analysis;
 }
@@ -148,12 +151,10 @@ export function assemble(model: DesignModel, r: CoreResult, options: AnalyzeOpti
 function assembleCircuit(model: DesignModel, r: CoreResult, options: AnalyzeOptions): DesignAnalysis {
   const loop = assemble(model, r, { ...options, step: false });
   const tolerance = options.settleTolerance ?? settleRequirement(model) ?? DEFAULT_TOLERANCE;
-  const closed = analyzeClosedCircuit(
-    model,
-    [...r.open.poles, ...r.open.zeros],
-    tolerance,
-    options.step !== false,
-  );
+  const closed = analyzeClosedCircuit(model, [...r.open.poles, ...r.open.zeros], r.loop.ugfHz, tolerance, {
+    step: options.step !== false,
+    participation: options.participation !== false,
+  });
   if (!closed.ok) return emptyAnalysis(closed.problems);
   const { hand: _hand, ...rest } = loop;
   return {
@@ -167,15 +168,16 @@ function assembleCircuit(model: DesignModel, r: CoreResult, options: AnalyzeOpti
       ? largeSignalFieldsOfCircuit(model, closed.value.gain.poles, closed.value.step)
       : {}),
     closedCircuit: closed.value.circuit,
-    ...closedLoopGainFields(closed.value.gain),
+    ...closedLoopGainFields(closed.value.gain, r.loop.ugfHz),
   };
 }
 
 /** The closed loop's transfer and its −3 dB bandwidth (when the closed loop was computed). */
 function closedLoopGainFields(
   gain: Transfer,
+  ugfHz: number | undefined,
 ): Pick<DesignAnalysis, 'closedLoopGain' | 'closedLoopBandwidthHz'> {
-  const bw = bandwidthHz(gain, responseBand([...gain.poles, ...gain.zeros]));
+  const bw = bandwidthHz(gain, responseBand([...gain.poles, ...gain.zeros], ugfHz));
   return { closedLoopGain: gain, ...(bw !== undefined ? { closedLoopBandwidthHz: bw } : {}) };
 }
 

@@ -13,7 +13,7 @@ import { withoutHeld } from './stability';
 import { byMagnitude } from './core';
 import { logGrid, logMagnitudeFunction } from './loop';
 import { brentRoot, goldenMax } from '../numeric/roots';
-import { stepResponse, type StepOutcome } from './stepResponse';
+import { stepResponse } from './stepResponse';
 import type {
   AnalysisProblem,
   ClosedCircuit,
@@ -176,14 +176,18 @@ function loadStepOf(z: Realized, stable: boolean): LoadStepResponse | undefined 
   const { system, transfer } = z;
   const negated = { ...system, c: system.c.map((x) => -x), d: -system.d };
   const final = stable ? -transfer.dc : NaN;
-  const outcome: StepOutcome = stepResponse(negated, withoutHeld(z.all, z.held), final, LOAD_STEP_TOLERANCE);
+  const active = withoutHeld(z.all, z.held);
+  // The band is a fraction of the largest deviation: the final value −Zout(0) of a good regulator is
+  // nearly 0, and a band on it would never be entered.
+  const outcome = stepResponse(negated, active, final, LOAD_STEP_TOLERANCE, 'excursion');
   if (!outcome.ok) return undefined;
   const { t, y } = outcome.step;
-  let peak = 0;
+  // The largest deviation: the refined extreme, every sample, and (for a stable loop) the final value,
+  // which a monotone response approaches without reaching.
+  let peak = Math.abs(outcome.step.peak ?? 0);
   for (const v of y) peak = Math.max(peak, Math.abs(v));
-  const settlingTime = stable
-    ? recoveryTime(t, y, outcome.step.final, LOAD_STEP_TOLERANCE * peak)
-    : undefined;
+  if (stable) peak = Math.max(peak, Math.abs(outcome.step.final));
+  const settlingTime = stable ? outcome.step.settlingTime : undefined;
   return {
     t,
     y,
@@ -194,26 +198,6 @@ function loadStepOf(z: Realized, stable: boolean): LoadStepResponse | undefined 
   };
 }
 
-/**
- * When the response enters ±band of its final value for good, interpolated linearly between the samples
- * around the last one outside (the load step's band is a fraction of its peak, not of its final value).
- */
-function recoveryTime(
-  t: readonly number[],
-  y: readonly number[],
-  final: number,
-  band: number,
-): number | undefined {
-  let last = -1;
-  for (let i = 0; i < y.length; i++) if (Math.abs(y[i] - final) > band) last = i;
-  if (last === -1) return 0;
-  if (last === y.length - 1) return undefined;
-  const e0 = Math.abs(y[last] - final) - band;
-  const e1 = Math.abs(y[last + 1] - final) - band;
-  const frac = e0 - e1 > 0 ? e0 / (e0 - e1) : 1;
-  return t[last] + frac * (t[last + 1] - t[last]);
-}
-
 /** −20·log10|H| (positive when the output moves less than the supply). */
 const rejectionDb = (magnitude: number) => -20 * Math.log10(magnitude);
 
@@ -222,7 +206,8 @@ export function analyzeClosedCircuit(
   loopRoots: readonly Complex[],
   loopUgfHz: number | undefined,
   tolerance: number,
-  withStep: boolean,
+  /** Time responses (the in → out step and the load step), and the poles' participation. */
+  options: { readonly step: boolean; readonly participation: boolean },
 ): { ok: true; value: ClosedCircuitResult } | { ok: false; problems: AnalysisProblem[] } {
   const at = model.feedbackAt;
   if (!at) return { ok: false, problems: [{ message: 'the design has no `feedback at` node' }] };
@@ -251,10 +236,10 @@ export function analyzeClosedCircuit(
     });
   }
   const zPeak = peakOver(zout.value.transfer, band);
-  const loadStep = loadStepOf(zout.value, stable);
+  const loadStep = options.step ? loadStepOf(zout.value, stable) : undefined;
   let step: StepResponse | undefined;
   let stepUnavailable: string | undefined;
-  if (withStep) {
+  if (options.step) {
     const outcome = stepResponse(gain.value.system, active, stable ? gain.value.transfer.dc : NaN, tolerance);
     if (outcome.ok) step = outcome.step;
     else stepUnavailable = outcome.reason;
@@ -263,14 +248,16 @@ export function analyzeClosedCircuit(
   const net = gain.value.network;
   const circuitPoles: Pole[] = poles.map((s) => {
     const magnitude = Math.hypot(s.re, s.im);
-    const check = checkPole(net, s);
+    const check = options.participation
+      ? checkPole(net, s)
+      : { participation: [], namedAfter: 'shared', residual: undefined };
     return {
       s,
       hz: magnitude / (2 * Math.PI),
       damping: magnitude === 0 ? 1 : -s.re / magnitude,
       participation: check.participation,
       namedAfter: check.namedAfter,
-      residual: check.residual,
+      ...(check.residual !== undefined ? { residual: check.residual } : {}),
     };
   });
   const circuit: ClosedCircuit = {

@@ -80,6 +80,16 @@ export function settleBand(y: readonly number[], final: number, tolerance: numbe
   return tolerance * peak;
 }
 
+/**
+ * `tolerance` of the largest excursion from 0: the refined extreme, every sample, and the final value (the
+ * supremum of a monotone response, approached but never sampled).
+ */
+function excursionBand(y: readonly number[], peak: number, final: number, tolerance: number): number {
+  let m = Math.max(Math.abs(peak), Math.abs(final));
+  for (const v of y) m = Math.max(m, Math.abs(v));
+  return tolerance * m;
+}
+
 /** The fraction of the final value (or of the largest excursion) a stable response may end away from it. */
 const LOST_ACCURACY = 0.1;
 const LOST =
@@ -101,6 +111,11 @@ export function stepResponse(
   poles: readonly Complex[],
   final: number,
   tolerance: number,
+  /**
+   * What the settling band is a fraction of: the final value (a step response), or the largest excursion
+   * (a disturbance that the loop pulls back, such as a load step, whose final value may be nearly 0).
+   */
+  bandOf: 'final' | 'excursion' = 'final',
 ): StepOutcome {
   const refused = settleToleranceProblem(tolerance);
   if (refused !== undefined) return { ok: false, reason: refused };
@@ -180,7 +195,7 @@ export function stepResponse(
     if (!(endError <= LOST_ACCURACY * Math.max(Math.abs(final), settleBand(y, final, 1)))) {
       return { ok: false, reason: LOST };
     }
-    return { ok: true, step: judge(sys, t, y, states, final, tolerance) };
+    return { ok: true, step: judge(sys, t, y, states, final, tolerance, bandOf) };
   } catch (err) {
     if (err instanceof OutOfRangeError) return { ok: false, reason: OVERFLOW };
     throw err;
@@ -195,6 +210,7 @@ function judge(
   states: Float64Array[],
   final: number,
   tolerance: number,
+  bandOf: 'final' | 'excursion',
 ): StepResponse {
   const n = sys.order;
   const yAt = (i: number, tau: number) => {
@@ -214,7 +230,8 @@ function judge(
   }
   const overshootPct = final !== 0 ? Math.max(0, (100 * dir * (peakValue - final)) / Math.abs(final)) : 0;
   // Settling: the last grid time outside the band, refined between it and the next point.
-  const band = settleBand(y, final, tolerance);
+  const band =
+    bandOf === 'final' ? settleBand(y, final, tolerance) : excursionBand(y, peakValue, final, tolerance);
   let last = -1;
   for (let i = 0; i < y.length; i++) if (Math.abs(y[i] - final) > band) last = i;
   let settlingTime: number | undefined;
@@ -233,5 +250,6 @@ function judge(
     overshootPct: Number.isFinite(overshootPct) ? overshootPct : 0,
     settlingTime,
     tolerance,
+    peak: peakValue,
   };
 }

@@ -93,6 +93,8 @@ export interface StepResponse {
   /** Time to enter and stay in ±tolerance of final, for the tolerance asked; absent when it never settles. */
   readonly settlingTime?: number;
   readonly tolerance: number;
+  /** The response's extreme in the direction of its final value, refined on the exact propagation. */
+  readonly peak?: number;
 }
 
 /**
