@@ -36,6 +36,8 @@ export const SLEWING_FRACTION = 0.9;
 const LINEAR_FRACTION = 0.1;
 /** The local error allowed per step, relative to the signal's scale (see `errorTolerance`). */
 const MAX_RELATIVE_ERROR = 1e-7;
+/** …but no finer than double precision resolves a step's error estimate (a difference of two solutions). */
+const MIN_RELATIVE_ERROR = 1e-11;
 /** Newton's update must be this far below the error tolerance. */
 const NEWTON_FRACTION = 1e-3;
 /** A bound on the work of one response, far beyond any amplifier's step. */
@@ -55,7 +57,8 @@ const SAMPLES_PER_SPAN = 20;
  * divided by the slope there (tolerance·final/τ at least), moves the settling time by far less than
  * 0.1 % of itself.
  */
-const errorTolerance = (tolerance: number) => Math.min(MAX_RELATIVE_ERROR, tolerance * 1e-4);
+const errorTolerance = (tolerance: number) =>
+  Math.max(MIN_RELATIVE_ERROR, Math.min(MAX_RELATIVE_ERROR, tolerance * 1e-4));
 
 export interface LargeSignalInput {
   readonly model: DesignModel;
@@ -303,6 +306,8 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
       }
       ended = now >= linearSpan && (finalState ? atFinal(state) : now >= stop);
     }
+    if (err > 1 && h < hMin)
+      return { ok: false, reason: 'the step response cannot be integrated to the accuracy asked' };
     const grow = err === 0 ? 4 : Math.min(4, Math.max(0.2, 0.9 * Math.pow(err, -1 / 6)));
     h = Math.min(Math.max(hMax, now / SAMPLES_PER_SPAN), h * grow);
   }
@@ -319,7 +324,10 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
   endFractions.forEach((x, k) => {
     if (Math.abs(x) > SLEWING_FRACTION) stuck = k;
   });
-  const slewing = slewingSpans(t, fractions, sys.stages.length);
+  // Only the slewing before the output settles counts (a stage that stays at its limit at the
+  // equilibrium is `saturatedStage`, not slewing).
+  const upTo = settling ?? t[t.length - 1]!;
+  const slewing = slewingSpans(t, fractions, sys.stages.length, upTo);
   const dir = final >= 0 ? 1 : -1;
   let peak = 0;
   for (const v of y) peak = Math.max(peak, dir * (v - final));
@@ -410,13 +418,14 @@ function settlingTime(
 }
 
 /**
- * The spans during which some stage delivers more than SLEWING_FRACTION of its bias (edges interpolated
- * linearly between samples), and the stage that spends the longest time there.
+ * The spans before `upTo` during which some stage delivers more than SLEWING_FRACTION of its bias (edges
+ * interpolated linearly between samples), and the stage that spends the longest time there.
  */
 function slewingSpans(
   t: readonly number[],
   fractions: readonly number[][],
   count: number,
+  upTo: number,
 ): { spans: { start: number; end: number }[]; limiting?: number } {
   const over = (k: number | undefined) => (i: number) =>
     k === undefined
@@ -439,7 +448,7 @@ function slewingSpans(
       }
     }
     if (open !== undefined) spans.push({ start: open, end: t[t.length - 1]! });
-    return spans;
+    return spans.map((x) => ({ start: x.start, end: Math.min(x.end, upTo) })).filter((x) => x.end > x.start);
   };
   const spans = spansOf(over(undefined));
   let limiting: number | undefined;
