@@ -17,8 +17,21 @@ import {
   type SweepSpec,
 } from './sweepDesign';
 
-/** Requirements a sweep judges: those read from the loop, the poles and zeros (no step response). */
-const JUDGED = new Set<Requirement['kind']>(['ugf', 'pm', 'gain-margin', 'zero', 'dc-gain', 'slew']);
+/**
+ * Requirements a sweep judges: those read from the loop, the poles and zeros and the closed loop's
+ * frequency responses (no time response: settling and the load step are judged at the corners).
+ */
+const JUDGED = new Set<Requirement['kind']>([
+  'ugf',
+  'pm',
+  'gain-margin',
+  'zero',
+  'dc-gain',
+  'slew',
+  'closed-loop-gain',
+  'output-impedance',
+  'supply-rejection',
+]);
 
 /** Bisection steps for an edge between two samples: 2⁻¹⁶ of their spacing. */
 const EDGE_STEPS = 16;
