@@ -190,6 +190,8 @@ function rootsBlock(run: CornerRun): string[] {
       .forEach((p, i) => {
         const cells = poleCells(p);
         if (p.s.re > 0) cells[3] = `${cells[3]}; right half-plane: unstable`;
+        // docs/analysis.md, Held charge: a node reached only through capacitors keeps its charge.
+        if (p.s.re === 0 && p.s.im === 0) cells[3] = `${cells[3]}; held charge (set by a reset), not a drift`;
         rows.push([i === 0 ? 'closed-circuit poles' : '', ...cells]);
       });
   } else
