@@ -9,6 +9,7 @@ import { formatDeg, formatSi } from '../../../shared/src/format/si';
 import { formatDcGain, formatGainMargin } from '../../../shared/src/format/quantities';
 import { fixedNumber, NOT_COMPUTED, plainNumber } from '../../../shared/src/format/special';
 import type { SourcePosition } from '../../../shared/src/language/source';
+import type { NodeRef } from '../../../shared/src/language/model';
 import { CAUTION } from '../../../shared/src/protocol/panelData';
 import type { DocumentReport, DesignReport } from '../../../shared/src/report';
 import { rangeContains } from '../../../shared/src/checks/index';
@@ -27,6 +28,8 @@ const UNIT_OF_DIMENSION: Record<string, string> = {
   Hz: 'Hz',
   'V/s': 'V/s',
 };
+
+const refName = (r: NodeRef) => (r.kind === 'ground' ? 'ground' : r.name);
 
 function valueText(value: number, dimension: string): string {
   if (dimension === 'deg') return `${plainNumber(value, 4)} deg`;
@@ -102,7 +105,7 @@ function body(design: DesignReport, target: Target): string[] | undefined {
     case 'stage': {
       const s = target.stage;
       const head = [
-        `**stage ${s.name}** (${s.polarity}, input ${s.input.kind === 'ground' ? 'ground' : s.input.name})`,
+        `**stage ${s.name}** (${s.polarity}, input ${refName(s.input)}${s.inputN ? ` − ${refName(s.inputN)}` : ''})`,
         `gm = ${formatSi(s.gm, 'S')}, rout = ${formatSi(s.rout, 'ohm')}, cap = ${formatSi(s.cap, 'F')}` +
           (s.bias !== undefined ? `, bias = ${formatSi(s.bias, 'A')}` : '') +
           ` — DC gain gm·rout = ${plainNumber(s.gm * s.rout, 3)} V/V`,
