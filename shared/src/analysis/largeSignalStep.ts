@@ -327,7 +327,22 @@ export function largeSignalStep(input: LargeSignalInput): LargeSignalOutcome {
   // Only the slewing before the output settles counts (a stage that stays at its limit at the
   // equilibrium is `saturatedStage`, not slewing).
   const upTo = settling ?? t[t.length - 1]!;
-  const slewing = slewingSpans(t, fractions, sys.stages.length, upTo);
+  // The edges of the slewing spans, refined by Brent's method on the integration from the point before.
+  const slewEdge = (i: number): number => {
+    const start = states[i - 1]!;
+    const sc = scaleOf(start);
+    const over = (v: Float64Array) => Math.max(0, ...sys.fractions(v).map(Math.abs)) - SLEWING_FRACTION;
+    const at = (tau: number): number => {
+      if (tau === 0) return over(start);
+      const a = advance(start, tau / 2, sc, NEWTON_FRACTION);
+      const b = a && advance(a.y, tau / 2, sc, NEWTON_FRACTION);
+      return b ? over(b.y) : NaN;
+    };
+    const h = t[i]! - t[i - 1]!;
+    const tau = brentRoot(at, 0, h, over(start), over(states[i]!), h * 1e-9);
+    return Number.isFinite(tau) && tau >= 0 && tau <= h ? t[i - 1]! + tau : NaN;
+  };
+  const slewing = slewingSpans(t, fractions, sys.stages.length, upTo, slewEdge);
   const dir = final >= 0 ? 1 : -1;
   let peak = 0;
   for (const v of y) peak = Math.max(peak, dir * (v - final));
@@ -418,23 +433,27 @@ function settlingTime(
 }
 
 /**
- * The spans before `upTo` during which some stage delivers more than SLEWING_FRACTION of its bias (edges
- * interpolated linearly between samples), and the stage that spends the longest time there.
+ * The spans before `upTo` during which some stage delivers more than SLEWING_FRACTION of its bias (edges by
+ * `refined`, else interpolated linearly between samples), and the stage that spends the longest time there
+ * (by interpolated edges: it only picks the stage).
  */
 function slewingSpans(
   t: readonly number[],
   fractions: readonly number[][],
   count: number,
   upTo: number,
+  refined: (i: number) => number,
 ): { spans: { start: number; end: number }[]; limiting?: number } {
   const over = (k: number | undefined) => (i: number) =>
     k === undefined
       ? Math.max(0, ...fractions[i]!.map(Math.abs)) - SLEWING_FRACTION
       : Math.abs(fractions[i]![k]!) - SLEWING_FRACTION;
-  const spansOf = (g: (i: number) => number) => {
+  const spansOf = (g: (i: number) => number, refine?: (i: number) => number) => {
     const spans: { start: number; end: number }[] = [];
     let open: number | undefined;
     const edge = (i: number) => {
+      const r = refine?.(i);
+      if (r !== undefined && Number.isFinite(r)) return r;
       const a = g(i - 1);
       const b = g(i);
       return t[i - 1]! + ((t[i]! - t[i - 1]!) * a) / (a - b);
@@ -450,7 +469,7 @@ function slewingSpans(
     if (open !== undefined) spans.push({ start: open, end: t[t.length - 1]! });
     return spans.map((x) => ({ start: x.start, end: Math.min(x.end, upTo) })).filter((x) => x.end > x.start);
   };
-  const spans = spansOf(over(undefined));
+  const spans = spansOf(over(undefined), refined);
   let limiting: number | undefined;
   let longest = 0;
   for (let k = 0; k < count; k++) {

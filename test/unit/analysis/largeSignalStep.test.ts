@@ -159,7 +159,7 @@ end
     });
     // Slewing (I·tanh > 0.9·I) lasts while k·e > atanh(0.9): t = τ·ln(sinh(kA)/sinh(atanh 0.9)).
     const slewEnd = tau * Math.log(Math.sinh(k * A) / Math.sinh(Math.atanh(0.9)));
-    expect(relErr(large.slewingTime, slewEnd)).toBeLessThan(1e-2);
+    expect(relErr(large.slewingTime, slewEnd)).toBeLessThan(1e-3);
     expect(large.limitingStage).toBe('s');
     // The largest slope is at t = 0: I·tanh(kA)/C.
     expect(relErr(large.slewRateReached, (I * Math.tanh(k * A)) / C)).toBeLessThan(1e-3);
