@@ -11,7 +11,9 @@ export function checkConnections(scope: DesignScope): void {
   for (const s of scope.design.statements)
     for (const m of kindOf(s).nodes(s)) (m.use === 'attached' ? attached : sensed).add(m.token.text);
   for (const [name, d] of scope.decls) {
-    if (d.kind !== 'node' || attached.has(name) || scope.design.brokenMentions.has(name)) continue;
+    // A supply is held by its source: connected by declaration.
+    if (d.kind !== 'node' || d.statement.kind === 'supply') continue;
+    if (attached.has(name) || scope.design.brokenMentions.has(name)) continue;
     scope.sink.warning(
       'reference',
       sensed.has(name)

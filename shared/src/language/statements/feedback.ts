@@ -3,6 +3,8 @@
 import { si } from '../../units';
 import { tokenRange, type Token } from '../lexer';
 import { NOTHING } from '../modelParts';
+import { quote } from '../diagnostics';
+import type { DesignScope } from '../designScope';
 import type { StatementCommon } from '../syntax';
 import { sensed, type StatementDescriptor } from './statementKind';
 
@@ -70,5 +72,29 @@ function buildAt(
     );
     return NOTHING;
   }
+  if (!sensedByTransconductor(ctx.scope, node)) {
+    ctx.sink.error(
+      'reference',
+      `Nothing senses ${quote(node)}: the loop is broken where a transconductor senses the feedback node, so name a node that a stage (\`from\`), an \`element gm\` or a \`feedforward\` senses.`,
+      tokenRange(at),
+    );
+    return NOTHING;
+  }
   return { feedback: [{ kind: 'node', at: { node, origin: ctx.origin(s, {}) } }] };
+}
+
+/** Whether a transconductor input senses `node`: a stage (its `from`, or the stage before it), an `element gm` or a `feedforward`. */
+function sensedByTransconductor(scope: DesignScope, node: string): boolean {
+  return scope.design.statements.some((t) => {
+    switch (t.kind) {
+      case 'stage':
+        return t.from ? t.from.text === node || t.fromN?.text === node : scope.defaultInput(t) === node;
+      case 'element':
+        return t.element === 'gm' && (t.a?.text === node || t.aN?.text === node);
+      case 'feedforward':
+        return t.from?.text === node;
+      default:
+        return false;
+    }
+  });
 }

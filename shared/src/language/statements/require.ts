@@ -318,6 +318,14 @@ function buildCircuitRequirement(
       if (at.status !== 'ok') return undefined;
       const supply = s.supply ? ctx.resolveNodeName(s.supply, 'The supply') : undefined;
       if (s.supply && !supply) return undefined;
+      if (s.supply && supply && ctx.scope.decls.get(supply)?.statement.kind !== 'supply') {
+        ctx.sink.error(
+          'reference',
+          `${quote(supply)} is not a supply: declare it with \`supply ${supply}\`, or name one that is.`,
+          tokenRange(s.supply),
+        );
+        return undefined;
+      }
       return {
         kind: 'supply-rejection',
         op: '>=',

@@ -30,12 +30,9 @@ export const supplyKind: StatementDescriptor<SupplyStatement> = {
     for (const t of s.names) {
       // A name declared twice belongs to its first declaration, which reports the duplicate.
       if (ctx.scope.decls.get(t.text)?.statement !== s) continue;
-      if (t.text === 'in' || t.text === ctx.output()) {
-        ctx.sink.error(
-          'reference',
-          `${t.text === 'in' ? 'The driven input' : 'The output'} cannot be a supply.`,
-          tokenRange(t),
-        );
+      // (`in` cannot be declared at all: the design's scope reports it.)
+      if (t.text === ctx.output()) {
+        ctx.sink.error('reference', 'The output cannot be a supply.', tokenRange(t));
         continue;
       }
       supplies.push({ node: node(t.text), origin: { ...ctx.origin(s, {}), keywordRange: tokenRange(t) } });
