@@ -65,7 +65,7 @@ export function loopBode(
   const l = a.loopGain;
   if (!l || a.problems.length > 0) return undefined;
   const roots = [...l.poles, ...l.zeros];
-  const frequencyHz = bandGrid(responseBand(roots));
+  const frequencyHz = bandGrid(responseBand(roots, a.loop.ugfHz));
   let max = 0;
   for (const r of roots) max = Math.max(max, Math.hypot(r.re, r.im));
   // Roots below this are at the origin to working precision (as everywhere in the loop analysis).

@@ -8,6 +8,7 @@ import { lowFrequencySign, type PoleZeroForm } from './frequency';
 import { crossingsOf, frequencySpan, loopMetrics, sampleLogGrid } from './loop';
 import { eigenvalues } from '../numeric/eigenvalues';
 import type { AnalysisProblem } from './types';
+import { cancelAtOrigin, dcFromRoots, heldCharges, snapHeld } from './heldCharge';
 import { refinePoles, refineZeros, rootScale, type ResidualMap } from './rootCheck';
 
 export interface CoreResult {
@@ -26,6 +27,8 @@ export interface CoreResult {
   readonly tiny: number;
   /** The network check of each root, computed while refining (absent for roots not checked). */
   readonly residuals: ResidualMap;
+  /** Nodes that keep their charge: that many closed-loop poles are exactly 0 and are not a drift. */
+  readonly heldCharges: number;
 }
 
 export type CoreOutcome = { ok: true; result: CoreResult } | { ok: false; problems: AnalysisProblem[] };
@@ -69,12 +72,21 @@ export function analyzeCore(
   // polishes them.
   const polish = !light;
   const residuals: ResidualMap = new Map();
-  const poles = refinePoles(network, pz.poles.sort(byMagnitude), scale, polish, residuals).sort(byMagnitude);
-  const zeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, polish, residuals).sort(byMagnitude);
+  const refinedPoles = refinePoles(network, pz.poles.sort(byMagnitude), scale, polish, residuals);
+  const refinedZeros = refineZeros(network, pz.zeros.sort(byMagnitude), scale, polish, residuals);
+  // A node that keeps its charge puts a pole at the origin that no source excites: it cancels against a
+  // zero there in A(s), and its closed-loop pole is exactly 0 (heldCharge.ts).
+  const held = heldCharges(network);
+  const kept =
+    held > 0 ? cancelAtOrigin(refinedPoles, refinedZeros) : { poles: refinedPoles, zeros: refinedZeros };
+  const poles = kept.poles.sort(byMagnitude);
+  const zeros = kept.zeros.sort(byMagnitude);
   const open = { poles, zeros, k: pz.k, relativeDegree: pz.relativeDegree };
   const sign = fixedSign ?? lowFrequencySign(open);
   const atOrigin = (r: Complex) => r.re === 0 && r.im === 0;
   let dcGain = nodalDcGain(network);
+  // With held charges G is singular though A(0) is finite: read it from the roots that remain.
+  if (dcGain === undefined && held > 0) dcGain = dcFromRoots(pz.k, poles, zeros);
   if (dcGain === undefined) dcGain = sign * Infinity;
   // A transfer that vanishes identically, or has a zero at the origin with no pole there, is 0 at DC
   // exactly; the nodal solve would return roundoff.
@@ -85,7 +97,10 @@ export function analyzeCore(
   let closedPoles: Complex[] = [];
   if (!light) {
     const ce = eigenvalues(closed.A, closed.order);
-    closedPoles = Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })).sort(byMagnitude);
+    closedPoles = snapHeld(
+      Array.from(ce.re, (re, i) => ({ re, im: ce.im[i] })),
+      held,
+    ).sort(byMagnitude);
   }
   const span = frequencySpan(open, Math.max(1, Math.abs(beta)), [Math.abs(dcGain), Math.abs(beta * dcGain)]);
   const { grid, samples } = sampleLogGrid(open, span.lo, span.hi);
@@ -123,6 +138,7 @@ export function analyzeCore(
       grid,
       tiny: span.tiny,
       residuals,
+      heldCharges: held,
     },
   };
 }

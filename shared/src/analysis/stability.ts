@@ -12,7 +12,13 @@ function axisTolerance(s: Complex, largest: number): number {
   return 1e-9 * Math.hypot(s.re, s.im) + 1e-12 * largest;
 }
 
-export function judgeStability(closedPoles: readonly Complex[], openPoles: readonly Complex[]): Stability {
+export function judgeStability(
+  allClosedPoles: readonly Complex[],
+  openPoles: readonly Complex[],
+  /** Poles exactly at 0 that are held charges (heldCharge.ts): a constant of the motion, not a drift. */
+  heldCharges = 0,
+): Stability {
+  const closedPoles = withoutHeld(allClosedPoles, heldCharges);
   let largest = 0;
   for (const p of closedPoles) largest = Math.max(largest, Math.hypot(p.re, p.im));
   let openLargest = 0;
@@ -24,6 +30,12 @@ export function judgeStability(closedPoles: readonly Complex[], openPoles: reado
   const onAxis = closedPoles.filter((p) => Math.abs(p.re) <= axisTolerance(p, largest) && upper(p));
   if (onAxis.length) return { verdict: 'marginal', poles: onAxis, openLoopRhpPoles };
   return { verdict: 'stable', openLoopRhpPoles };
+}
+
+/** The poles a response can show: the held charges' exact zeros left out (no source excites them). */
+export function withoutHeld(poles: readonly Complex[], held: number): Complex[] {
+  let skip = held;
+  return poles.filter((p) => !(p.re === 0 && p.im === 0 && skip-- > 0));
 }
 
 /** An angle in degrees wrapped into (−180°, 180°]: the only range in which a phase margin is meaningful. */
