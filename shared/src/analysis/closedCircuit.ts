@@ -57,6 +57,8 @@ function transferFrom(
   model: DesignModel,
   source: NetworkSource,
   poles: readonly Complex[] | undefined,
+  /** Newton polishing of the roots (the full analysis; sweeps and searches skip it, as for the loop). */
+  polish: boolean,
 ): { ok: true; value: Realized } | { ok: false; problems: AnalysisProblem[] } {
   const built = buildNetwork(model, source);
   if (!built.ok) return built;
@@ -70,8 +72,9 @@ function transferFrom(
   const raw = poles ? undefined : polesOf(real.system);
   const scale = Math.max(rootScale(poles ?? raw ?? []), rootScale(z.zeros));
   const all =
-    poles ?? snapHeld(refinePoles(built.network, raw!.sort(byMagnitude), scale), held).sort(byMagnitude);
-  const refinedZeros = refineZeros(built.network, z.zeros.sort(byMagnitude), scale);
+    poles ??
+    snapHeld(refinePoles(built.network, raw!.sort(byMagnitude), scale, polish), held).sort(byMagnitude);
+  const refinedZeros = refineZeros(built.network, z.zeros.sort(byMagnitude), scale, polish);
   // A held charge's pole cancels against a zero at the origin in every transfer (heldCharge.ts).
   const kept = held > 0 ? cancelAtOrigin(all, refinedZeros) : { poles: [...all], zeros: refinedZeros };
   const zeros = kept.zeros.sort(byMagnitude);
@@ -206,17 +209,20 @@ export function analyzeClosedCircuit(
   loopRoots: readonly Complex[],
   loopUgfHz: number | undefined,
   tolerance: number,
-  /** Time responses (the in → out step and the load step), and the poles' participation. */
+  /**
+   * Time responses (the in → out step and the load step), and the poles' participation with the roots
+   * polished on the network (what sweeps and searches leave out).
+   */
   options: { readonly step: boolean; readonly participation: boolean },
 ): { ok: true; value: ClosedCircuitResult } | { ok: false; problems: AnalysisProblem[] } {
   const at = model.feedbackAt;
   if (!at) return { ok: false, problems: [{ message: 'the design has no `feedback at` node' }] };
-  const gain = transferFrom(model, { kind: 'input' }, undefined);
+  const gain = transferFrom(model, { kind: 'input' }, undefined, options.participation);
   if (!gain.ok) return gain;
   const poles = gain.value.all;
   const active = withoutHeld(poles, gain.value.held);
   const stable = active.every((p) => p.re < 0);
-  const zout = transferFrom(model, { kind: 'current', node: model.output }, poles);
+  const zout = transferFrom(model, { kind: 'current', node: model.output }, poles, options.participation);
   if (!zout.ok) return zout;
   const band = responseBand(
     [...loopRoots, ...poles, ...gain.value.transfer.zeros, ...zout.value.transfer.zeros],
@@ -224,7 +230,7 @@ export function analyzeClosedCircuit(
   );
   const supplies: SupplyRejection[] = [];
   for (const s of model.supplies ?? []) {
-    const r = transferFrom(model, { kind: 'supply', node: s.node }, poles);
+    const r = transferFrom(model, { kind: 'supply', node: s.node }, poles, options.participation);
     if (!r.ok) return r;
     const worst = peakOver(r.value.transfer, band);
     supplies.push({
