@@ -1,10 +1,10 @@
 // analyzeDesign: the whole exact analysis of one design model. Never throws: modelling errors come back as
 // `problems`, located by node.
 import type { DesignModel } from '../language/model';
-import type { AnalysisProblem, DesignAnalysis, Pole, Transfer, Zero } from './types';
+import type { AnalysisProblem, DesignAnalysis, FrequencyBand, Pole, Transfer, Zero } from './types';
 import type { CoreResult } from './core';
 import { analyzeLoop } from './loopCore';
-import { analyzeClosedCircuit, bandwidthHz, responseBand } from './closedCircuit';
+import { analyzeClosedCircuit, bandwidthHz, peakOver, responseBand } from './closedCircuit';
 import { factorClosedLoop } from './loop';
 import { checkPole, zeroResidual } from './rootCheck';
 import { stepResponse } from './stepResponse';
@@ -159,6 +159,8 @@ function assembleCircuit(model: DesignModel, r: CoreResult, options: AnalyzeOpti
   const { hand: _hand, ...rest } = loop;
   return {
     ...rest,
+    // The peaking of the circuit's own response from `in`, as for `feedback beta` it is that of σA/(1 + βσA).
+    loop: { ...rest.loop, peakingDb: peakingDb(closed.value.gain, closed.value.circuit.band) },
     // T = −A at the break (loopCore.ts): the sign the loop really has at DC.
     dcGain: -r.dcGain,
     openLoopUgfHz: r.loop.ugfHz,
@@ -170,6 +172,14 @@ function assembleCircuit(model: DesignModel, r: CoreResult, options: AnalyzeOpti
     closedCircuit: closed.value.circuit,
     ...closedLoopGainFields(closed.value.gain, r.loop.ugfHz),
   };
+}
+
+/** The peak of |H| over its DC value in dB over the band (0 without a peak, or when H(0) is 0 or infinite). */
+function peakingDb(gain: Transfer, band: FrequencyBand): number {
+  const h0 = Math.abs(gain.dc);
+  if (!(h0 > 0) || !Number.isFinite(h0)) return 0;
+  const ratio = peakOver(gain, band).magnitude / h0;
+  return ratio > 1 ? 20 * Math.log10(ratio) : 0;
 }
 
 /** The closed loop's transfer and its −3 dB bandwidth (when the closed loop was computed). */
