@@ -205,6 +205,7 @@ function body(design: DesignReport, target: Target): string[] | undefined {
       const lines = [
         `**requirement: ${first.label}** ${first.required}`,
         `Measured: ${first.measured} — ${first.pass ? 'pass' : 'FAIL'}${first.margin ? ` (headroom ${first.margin})` : ''}`,
+        ...(first.detail ? [first.detail[0]!.toUpperCase() + first.detail.slice(1) + '.'] : []),
       ];
       if (r.runs.length > 1) {
         lines.push('', '| corner | measured | |', '| --- | --- | --- |');

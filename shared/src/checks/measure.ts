@@ -25,6 +25,8 @@ export interface Measurement {
   readonly margin?: string;
   /** The measured number in the requirement's unit, when there is one (for picking the worst corner). */
   readonly value?: number;
+  /** A sentence on what sets the value, for the hover (the large-signal step: slewing or linear tail). */
+  readonly detail?: string;
 }
 
 const signed = (x: number, text: string) => `${x >= 0 ? '+' : '−'}${text}`;
@@ -182,9 +184,15 @@ export function measure(req: Requirement, a: DesignAnalysis): Measurement {
             ? `not computed: ${unavailable}`
             : v === undefined
               ? 'does not settle in the computed span'
-              : formatSi(v, 's') + (large ? ` (${largeSignalSummary(large, a.slew)})` : ''),
+              : formatSi(v, 's') +
+                (large?.saturatedStage !== undefined
+                  ? ' (beyond the output range)'
+                  : large && large.slewingTime > 0
+                    ? ` (slewing ${formatSi(large.slewingTime, 's')})`
+                    : ''),
         required: `≤ ${formatSi(req.within, 's')}`,
         pass: j.pass,
+        ...(large ? { detail: largeSignalSummary(large, a.slew) } : {}),
         ...(v !== undefined
           ? { value: v, margin: signed(req.within - v, formatSi(Math.abs(req.within - v), 's')) }
           : {}),
