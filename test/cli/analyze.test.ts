@@ -167,7 +167,9 @@ beforeAll(() => {
   ensureBuilt();
   for (const name of FILES) {
     const r = cli(['analyze', rel(name), '--json']);
-    expect(r.status, `${name}: ${r.stderr}`).toBe(name === 'clean.ampnote' || name === 'circuitLoop.ampnote' ? 0 : 1);
+    expect(r.status, `${name}: ${r.stderr}`).toBe(
+      name === 'clean.ampnote' || name === 'circuitLoop.ampnote' ? 0 : 1,
+    );
     outputs.set(name, JSON.parse(r.stdout));
   }
 }, 300_000);

@@ -189,7 +189,12 @@ export type Requirement =
       readonly origin: Origin;
     }
   /** The closed loop's DC gain from `in` to the output, in dB. */
-  | { readonly kind: 'closed-loop-gain'; readonly op: Comparison; readonly value: Decibels; readonly origin: Origin };
+  | {
+      readonly kind: 'closed-loop-gain';
+      readonly op: Comparison;
+      readonly value: Decibels;
+      readonly origin: Origin;
+    };
 
 export type RequirementKind = Requirement['kind'];
 
