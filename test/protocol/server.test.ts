@@ -103,6 +103,31 @@ describe('language server over stdio', () => {
     client.close(uri);
   });
 
+  it('stops a document’s sweeps when its text changes, and sweeps the new text', async () => {
+    // The regulator example's sweep (every point parsed, three corners) takes hundreds of milliseconds.
+    const text = readFileSync(resolve(ROOT, 'examples/ldoSensorRail.ampnote'), 'utf8');
+    const uri = 'file:///protocol/sweep-cancel.ampnote';
+    client.open(uri, text);
+    await client.diagnosticsFor(uri, 1, 60_000);
+    // At once, while version 1's sweeps run: an edit.
+    const v = client.change(uri, text.replace('param r1    = 200 kohm', 'param r1    = 201 kohm'));
+    const published = (version: number) =>
+      (client.published.get(uri) ?? []).filter((p) => p.version === version);
+    await waitFor(() => (published(v).length >= 2 ? true : undefined), 60_000, 'the new version swept');
+    // Version 1 was published once: its sweeps were stopped, not finished after the edit.
+    expect(published(1)).toHaveLength(1);
+    // The new version's second publish adds the sweep's findings of the terminal's one pass on the edited text.
+    const edited = text.replace('param r1    = 200 kohm', 'param r1    = 201 kohm');
+    const sweepKeys = (ds: readonly { code?: unknown; range: Parameters<typeof key>[0]['range'] }[]) =>
+      ds
+        .filter((d) => d.code === 'sweep')
+        .map(key)
+        .sort();
+    expect(sweepKeys(published(v)[1]!.diagnostics)).toEqual(sweepKeys(analyzeDocument(edited).findings));
+    expect(sweepKeys(published(v)[0]!.diagnostics)).toEqual([]);
+    client.close(uri);
+  });
+
   it('reports the RHP zero on the Miller line and gm-ratio on the second stage gm', async () => {
     const uri = client.openFile('examples/twoStageRhpZero.ampnote');
     const diagnostics = await client.diagnosticsFor(uri, 1);
