@@ -11,6 +11,7 @@ import { findingsOfDesign, sortedFindings } from './run';
 import { gainDb } from '../../shared/src/units';
 import { dampingRatio, modulusHz } from '../../shared/src/numeric/complex';
 import { closedLoopDcGain, loopBode } from '../../shared/src/analysis/closedLoopValues';
+import type { Pole } from '../../shared/src/analysis/types';
 
 type Num = number | null;
 
@@ -188,18 +189,23 @@ function sensitivityJson(list: readonly Sensitivity[]): SensitivityJson[] {
   }));
 }
 
+/** A pole with the nodes that take part in it, as `poles[]` and a circuit's `closedLoop.poles[]` show it. */
+function poleJson(p: Pole) {
+  return {
+    re: num(p.s.re),
+    im: num(p.s.im),
+    hz: num(p.hz),
+    damping: num(p.damping),
+    namedAfter: p.namedAfter,
+    participation: p.participation.map((x) => ({ node: x.node, share: num(x.share) })),
+  };
+}
+
 export function cornerJson(run: CornerRun, moved: readonly Sensitivity[] = []): CornerJson {
   const a = run.analysis;
   return {
     corner: run.corner,
-    poles: a.poles.map((p) => ({
-      re: num(p.s.re),
-      im: num(p.s.im),
-      hz: num(p.hz),
-      damping: num(p.damping),
-      namedAfter: p.namedAfter,
-      participation: p.participation.map((x) => ({ node: x.node, share: num(x.share) })),
-    })),
+    poles: a.poles.map(poleJson),
     zeros: a.zeros.map((z) => ({ re: num(z.s.re), im: num(z.s.im), hz: num(z.hz), rhp: z.rhp })),
     dcGain: gain(a.dcGain),
     openLoopUgfHz: num(a.openLoopUgfHz),
@@ -215,14 +221,7 @@ export function cornerJson(run: CornerRun, moved: readonly Sensitivity[] = []): 
       })(),
       bandwidthHz: num(a.closedLoopBandwidthHz),
       poles: a.closedCircuit
-        ? a.closedCircuit.poles.map((p) => ({
-            re: num(p.s.re),
-            im: num(p.s.im),
-            hz: num(p.hz),
-            damping: num(p.damping),
-            namedAfter: p.namedAfter,
-            participation: p.participation.map((x) => ({ node: x.node, share: num(x.share) })),
-          }))
+        ? a.closedCircuit.poles.map(poleJson)
         : (a.closedLoopPoles ?? []).map((p) => ({
             re: num(p.re),
             im: num(p.im),

@@ -160,6 +160,18 @@ export class StatementParser {
     if (t) this.fail(`Unexpected ${quote(t.text)} at the end of the statement.`, tokenRange(t));
   }
 
+  /**
+   * `NAME, NAME …` to the end of the line (commas optional), at least one, pushed into `names` as they are
+   * read, so that the names before a syntax error are kept.
+   */
+  nameList(what: string, names: Token[]): void {
+    names.push(this.name(what));
+    while (!this.c.atEnd()) {
+      if (this.c.isOp(',')) this.c.next();
+      names.push(this.name(what));
+    }
+  }
+
   nodePair(what: string): { from: Token; to: Token } {
     const from = this.name(() => `the node ${what} starts from`);
     this.op('->', () => `Expected \`->\` between the two nodes of ${quote(this.keyword.text)}.`);

@@ -15,11 +15,7 @@ export const nodeKind: StatementDescriptor<NodeStatement> = {
   parse(p, parts) {
     const names: Token[] = [];
     parts.names = names;
-    names.push(p.name('a node name'));
-    while (!p.c.atEnd()) {
-      if (p.c.isOp(',')) p.c.next();
-      names.push(p.name('a node name'));
-    }
+    p.nameList('a node name', names);
   },
   nodes: () => [],
   declares: (s) => s.names.map((token) => ({ kind: 'node', token, statement: s })),

@@ -17,11 +17,7 @@ export const supplyKind: StatementDescriptor<SupplyStatement> = {
   parse(p, parts) {
     const names: Token[] = [];
     parts.names = names;
-    names.push(p.name('a supply node name'));
-    while (!p.c.atEnd()) {
-      if (p.c.isOp(',')) p.c.next();
-      names.push(p.name('a supply node name'));
-    }
+    p.nameList('a supply node name', names);
   },
   nodes: () => [],
   declares: (s) => s.names.map((token) => ({ kind: 'node', token, statement: s })),
