@@ -116,6 +116,24 @@ describe('sweep charts', () => {
     await panel.page.locator('#card-sweep-locus').screenshot({ path: join(OUTPUT, 'sweep-locus.png') });
   });
 
+  it('exports the shown sweep as CSV: one row per corner and value, the values the chart draws', async () => {
+    const data = panelOf(exampleText, exampleUri);
+    const sw = data.sweeps![0]!;
+    await panel.showData(data);
+    await panel.page.evaluate(() => (window.__posted.length = 0));
+    await panel.page.click('#card-sweep-margins button[data-action="csv"]');
+    const posted = await panel.posted();
+    const csv = (posted.find((m) => m.type === 'exportCsv') as { csv: string }).csv.trim().split('\n');
+    expect(csv[0]).toBe('corner,swept_value_SI,phase_margin_deg,ugf_Hz,gain_margin_dB');
+    expect(csv).toHaveLength(1 + sw.corners.length * sw.values.length);
+    const row = csv[1 + sw.values.length + 7]!.split(',');
+    const slow = sw.corners[1]!;
+    expect(row[0]).toBe(slow.corner);
+    expect(Number(row[1])).toBe(sw.values[7]);
+    expect(Number(row[2])).toBe(slow.phaseMarginDeg[7]);
+    expect(Number(row[3])).toBe(slow.ugfHz[7]);
+  });
+
   it('switches between a design’s sweeps with the selector, and leaves the cards out without a sweep', async () => {
     const two = exampleText.replace(
       'sweep cl from 1 pF to 1 nF',
