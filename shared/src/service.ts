@@ -30,7 +30,7 @@ export const ENGINE: CheckEngine = {
 export interface AnalysisCacheOptions {
   /**
    * `always` (the default) computes every run's closed-loop step response; `when-required` only for
-   * designs that state a `settle` requirement (the editor's choice: the step is the costliest part, and
+   * designs that state a `settle` or `loadstep` requirement (the editor's choice: the step is the costliest part, and
    * the panel computes its own).
    */
   readonly stepResponse?: 'always' | 'when-required';
@@ -119,7 +119,9 @@ export function analyzeDesignSource(
   if (!source.nominal) return { source, runs: [], worst: {}, findings: [], ...notChecked };
   // The settling tolerance setting applies only where a design states none of its own.
   const statesSettle = source.nominal.requirements.some((r) => r.kind === 'settle');
-  const step = options.stepResponse !== 'when-required' || statesSettle;
+  // The requirements read from a time response: the step's settling and the load step's deviation.
+  const statesTimeResponse = statesSettle || source.nominal.requirements.some((r) => r.kind === 'load-step');
+  const step = options.stepResponse !== 'when-required' || statesTimeResponse;
   const { runs, worst } = analyzeCorners(
     source,
     {

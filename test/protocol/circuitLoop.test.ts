@@ -3,7 +3,7 @@
 // the feature under test, and one from a hand closed form.
 import { describe, expect, it } from 'vitest';
 import { TextDocument } from 'vscode-languageserver-textdocument';
-import { analyzeDocument } from '../../shared/src/service';
+import { analyzeDocument, createAnalysisCache } from '../../shared/src/service';
 import { hover } from '../../server/src/features/hover';
 import { inlayHints } from '../../server/src/features/inlayHints';
 import { formatDb } from '../../shared/src/format/si';
@@ -68,5 +68,26 @@ describe('a loop written as a circuit in the editor', () => {
     const byLine = new Map(hints.map((h) => [h.position.line, String(h.label)]));
     expect(byLine.get(lineOf('feedback at'))).toMatch(/loop gain .* at DC · UGF .* · PM /);
     expect(byLine.get(lineOf('supply vdd'))).toContain('vdd: rejection');
+  });
+});
+
+describe('the editor, which computes time responses only where a requirement reads one', () => {
+  it('judges a `loadstep` requirement as the terminal checker does', () => {
+    const text = TEXT.replace(
+      '  feedback at fb\n',
+      '  feedback at fb\n  require loadstep <= 1 uV for 1 mA\n',
+    );
+    const editor = analyzeDocument(
+      text,
+      {},
+      undefined,
+      createAnalysisCache({ stepResponse: 'when-required' }),
+    );
+    const terminal = analyzeDocument(text);
+    const codes = (r: typeof editor) =>
+      r.designs[0]!.findings.filter((f) => f.code === 'load-step').map((f) => [f.severity, f.message]);
+    expect(codes(terminal)).toHaveLength(1);
+    expect(codes(terminal)[0]![0]).toBe('error');
+    expect(codes(editor)).toEqual(codes(terminal));
   });
 });

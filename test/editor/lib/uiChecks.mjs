@@ -466,6 +466,62 @@ export async function uiChecks({ page, tally, expected, workspace, output, root 
     },
     120_000,
   );
+
+  await circuitLoopChecks({ page, expected, workspace, output, root, check });
+}
+
+/**
+ * Every example whose loop is written as a circuit (`feedback at`): the panel draws the loop gain of the
+ * real loop and the closed circuit's charts (output impedance, load step; supply rejection when the design
+ * has a supply), each screenshot as `panel-circuit-<file>`.
+ */
+async function circuitLoopChecks({ page, expected, workspace, output, root, check }) {
+  const files = expected
+    .filter((e) => !e.file.includes('/'))
+    .map((e) => ({ file: e.file, text: readFileSync(join(workspace, e.file), 'utf8') }))
+    .filter((e) => /^\s*feedback\s+at\s/m.test(e.text));
+  await check('UI: the project has examples whose loop is written as a circuit', async () => {
+    if (files.length < 2) throw new Error(`only ${files.length} example(s) use \`feedback at\``);
+  });
+  for (const { file, text } of files) {
+    const supply = /^\s*supply\s/m.test(text);
+    const ids = [
+      'chart-bode',
+      'chart-zout',
+      'chart-load-step',
+      ...(supply ? ['chart-supply-rejection'] : []),
+    ];
+    await check(
+      `UI: ${file}: the panel draws the real loop and the closed circuit's charts (${ids.join(', ')})`,
+      async () => {
+        const lines = text.split(/\r?\n/);
+        const at = lines.findIndex((l) => /^\s*feedback\s+at\s/.test(l));
+        await quickOpen(page, file);
+        await page.keyboard.press('Control+G');
+        const input = page.locator('.quick-input-widget input');
+        await input.waitFor({ state: 'visible', timeout: 10_000 });
+        await input.fill(`:${at + 1}:1`);
+        await page.keyboard.press('Enter');
+        await input.waitFor({ state: 'hidden', timeout: 10_000 });
+        await runCommand(page, commandTitle(root, 'ampnote.showPanel'));
+        const panel = page.frameLocator('iframe.webview.ready').last().frameLocator('#active-frame');
+        await poll(
+          `the closed circuit's charts of ${file}`,
+          async () => {
+            if (!(await panel.locator('#card-zout').isVisible())) return undefined;
+            const ink = await canvasInkOf(panel, ids);
+            return ink.every((n) => n > 500) ? true : undefined;
+          },
+          60_000,
+        );
+        const note = await panel.locator('#note-zout').innerText();
+        console.log(`        ${file}: ${note.replace(/\s+/g, ' ')}`);
+        await panel.locator('#card-zout').scrollIntoViewIfNeeded();
+        await screenshot(page, output, `panel-circuit-${file.replace(/\.ampnote$/, '')}`);
+      },
+      120_000,
+    );
+  }
 }
 
 /** A phase-margin finding whose preferred fix sets a value for a stated margin, examples first. */
