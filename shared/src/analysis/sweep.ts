@@ -4,6 +4,7 @@ import type { DesignModel } from '../language/model';
 import type { Network } from '../circuit/network';
 import type { CancelToken, Complex, LocusPoint } from './types';
 import { buildLoopNetwork } from './loopCore';
+import { cancelAtOrigin, heldCharges } from './heldCharge';
 import { realize } from './realization';
 import { poleZeroGain } from './polesZeros';
 import { byMagnitude } from './core';
@@ -14,7 +15,9 @@ function rootsOf(net: Network): { poles: Complex[]; zeros: Complex[] } {
     const r = realize(net);
     if (!r.ok) return { poles: [], zeros: [] };
     const pz = poleZeroGain(r.system);
-    return { poles: pz.poles.sort(byMagnitude), zeros: pz.zeros.sort(byMagnitude) };
+    // As in the analysis: a held charge's pole at the origin cancels against its zero (heldCharge.ts).
+    const kept = heldCharges(net) > 0 ? cancelAtOrigin(pz.poles, pz.zeros) : pz;
+    return { poles: kept.poles.sort(byMagnitude), zeros: kept.zeros.sort(byMagnitude) };
   } catch {
     return { poles: [], zeros: [] };
   }
