@@ -1,5 +1,6 @@
 // The one entry point to the core: text in, parsed designs, exact analyses and findings out. The language
 // server, the terminal checker and the tests all call `analyzeDocument`.
+import { readsTimeResponse } from './checks/measure';
 import { withSolveFix } from './solve/solveFix';
 import { analyzeCorners, analyzeDesign, solveRzForZeroAtInfinity, solveRzToCancelPole } from './analysis';
 import type { CancelToken } from './analysis/types';
@@ -119,8 +120,7 @@ export function analyzeDesignSource(
   if (!source.nominal) return { source, runs: [], worst: {}, findings: [], ...notChecked };
   // The settling tolerance setting applies only where a design states none of its own.
   const statesSettle = source.nominal.requirements.some((r) => r.kind === 'settle');
-  // The requirements read from a time response: the step's settling and the load step's deviation.
-  const statesTimeResponse = statesSettle || source.nominal.requirements.some((r) => r.kind === 'load-step');
+  const statesTimeResponse = source.nominal.requirements.some(readsTimeResponse);
   const step = options.stepResponse !== 'when-required' || statesTimeResponse;
   const { runs, worst } = analyzeCorners(
     source,

@@ -29,6 +29,32 @@ export interface Measurement {
   readonly detail?: string;
 }
 
+/**
+ * Whether judging the requirement needs a time response (the closed-loop step, the load step): the
+ * costliest part of an analysis, which the editor, the solve and the sweeps compute only where it is read.
+ */
+export function readsTimeResponse(req: Requirement): boolean {
+  switch (req.kind) {
+    case 'settle':
+    case 'load-step':
+      return true;
+    case 'ugf':
+    case 'pm':
+    case 'gain-margin':
+    case 'zero':
+    case 'slew':
+    case 'dc-gain':
+    case 'closed-loop-gain':
+    case 'output-impedance':
+    case 'supply-rejection':
+      return false;
+    default: {
+      const never: never = req;
+      return never;
+    }
+  }
+}
+
 const signed = (x: number, text: string) => `${x >= 0 ? '+' : '−'}${text}`;
 const OP = { '>=': '≥', '<=': '≤' } as const;
 

@@ -5,6 +5,7 @@
 // parameters used in several places are accounted for exactly. The search is constrainedSearch; the
 // answer is rounded to 3 significant digits in the direction that keeps every constraint met, and
 // re-checked.
+import { readsTimeResponse } from '../checks/measure';
 import { analyzeDesign } from '../analysis/analyzeDesign';
 import type { CancelToken } from '../analysis/types';
 import type { CheckEngine } from '../checks/context';
@@ -114,9 +115,9 @@ export function solveDesign(source: DesignSource, options: SolveOptions): Design
   if (!variables.length) return empty('the design has no free parameters');
 
   // The step response only where a requirement needs it: it is the costliest part of an analysis.
-  const statesSettle = nominal.requirements.some((r) => r.kind === 'settle');
+  const timeResponse = nominal.requirements.some(readsTimeResponse);
   const engine: CheckEngine = {
-    analyze: (m) => analyzeDesign(m, { step: statesSettle, participation: false }),
+    analyze: (m) => analyzeDesign(m, { step: timeResponse, participation: false }),
     solveRzForZeroAtInfinity: () => ({ ok: false, reason: 'not used by the solve' }),
     solveRzToCancelPole: () => ({ ok: false, reason: 'not used by the solve' }),
   };

@@ -2,7 +2,7 @@
 // swept parameter and its corner, and the sub-ranges where the requirement fails, their edges located
 // between samples by bisection on the sweep's scale. A closed loop unstable anywhere in the range is an
 // error of its own.
-import { judge, measure } from '../checks/measure';
+import { judge, measure, readsTimeResponse } from '../checks/measure';
 import type { Finding } from '../checks/types';
 import { formatSi } from '../format/si';
 import type { DesignSource, Requirement } from '../language/model';
@@ -16,22 +16,6 @@ import {
   type SweepSample,
   type SweepSpec,
 } from './sweepDesign';
-
-/**
- * Requirements a sweep judges: those read from the loop, the poles and zeros and the closed loop's
- * frequency responses (no time response: settling and the load step are judged at the corners).
- */
-const JUDGED = new Set<Requirement['kind']>([
-  'ugf',
-  'pm',
-  'gain-margin',
-  'zero',
-  'dc-gain',
-  'slew',
-  'closed-loop-gain',
-  'output-impedance',
-  'supply-rejection',
-]);
 
 /** Bisection steps for an edge between two samples: 2⁻¹⁶ of their spacing. */
 const EDGE_STEPS = 16;
@@ -114,7 +98,9 @@ export function requirementFailures(source: DesignSource, result: SweepResult): 
   const { corners } = result;
   const out: RequirementFailure[] = [];
   nominal.requirements.forEach((req, index) => {
-    if (!JUDGED.has(req.kind)) return;
+    // A sweep's points have no time response (the costliest part): settling and the load step are
+    // judged at the corners only.
+    if (readsTimeResponse(req)) return;
     const verdict = (s: SweepSample, c: number) => {
       const run = s.runs[c];
       const r = run?.model.requirements[index];
