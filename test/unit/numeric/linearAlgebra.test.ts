@@ -7,7 +7,7 @@ import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { complexLuFactor, complexLuSolve } from '../../../shared/src/numeric/complexLu';
 import { balance, eigenvalues, EigenvalueFailure } from '../../../shared/src/numeric/eigenvalues';
-import { brentRoot, goldenMax } from '../../../shared/src/numeric/roots';
+import { brentMax, brentRoot, goldenMax } from '../../../shared/src/numeric/roots';
 
 // Unbiased entries: fast-check's default bias favours zeros and repeats, which make matrices defective,
 // and a k-fold defective eigenvalue is only determined to ε^(1/k) by any method.
@@ -189,5 +189,43 @@ describe('scalar root finding and maximisation', () => {
     expect(Math.abs(m.x - 1)).toBeLessThan(1e-6);
     expect(Math.abs(m.value - Math.exp(-1))).toBeLessThan(1e-12);
     expect(() => goldenMax(() => NaN, 0, 1)).not.toThrow();
+  });
+
+  it('brentMax finds the same maxima, x·e^(−x) at 1, sin at π/2 and a damped ringing peak, in few evaluations', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: -10, max: 10, noNaN: true }),
+        fc.double({ min: -5, max: 5, noNaN: true }),
+        (c, h) => {
+          const m = brentMax((x) => h - (x - c) ** 2, c - 7, c + 11, 1e-12);
+          expect(Math.abs(m.x - c)).toBeLessThan(1e-6 * Math.max(1, Math.abs(c)));
+          expect(Math.abs(m.value - h)).toBeLessThan(1e-10);
+        },
+      ),
+      { numRuns: 200 },
+    );
+    let calls = 0;
+    const m = brentMax(
+      (x) => {
+        calls++;
+        return x * Math.exp(-x);
+      },
+      0,
+      5,
+      1e-10,
+    );
+    expect(Math.abs(m.x - 1)).toBeLessThan(1e-7);
+    expect(Math.abs(m.value - Math.exp(-1))).toBeLessThan(1e-14);
+    expect(calls).toBeLessThan(25); // golden section needs about 48 for the same bracket and tolerance
+    expect(Math.abs(brentMax(Math.sin, 0, 3, 1e-12).x - Math.PI / 2)).toBeLessThan(1e-8);
+    // 1 − e^(−ζωt)(cos ωd·t + ζ/√(1−ζ²)·sin ωd·t), ζ = 0.3: its first peak is at π/ωd with overshoot
+    // e^(−ζπ/√(1−ζ²)) (second-order step response, any control text).
+    const z = 0.3;
+    const wd = Math.sqrt(1 - z * z);
+    const y = (t: number) => 1 - Math.exp(-z * t) * (Math.cos(wd * t) + (z / wd) * Math.sin(wd * t));
+    const peak = brentMax(y, 2, 5, 1e-12);
+    expect(Math.abs(peak.x - Math.PI / wd)).toBeLessThan(1e-7);
+    expect(Math.abs(peak.value - 1 - Math.exp((-z * Math.PI) / wd))).toBeLessThan(1e-14);
+    expect(() => brentMax(() => NaN, 0, 1)).not.toThrow();
   });
 });
