@@ -176,6 +176,8 @@ export function bandwidthHz(t: Transfer, band: FrequencyBand): number | undefine
  * exact step response of the current-driven network with its output negated.
  */
 function loadStepOf(z: Realized, stable: boolean): LoadStepResponse | undefined {
+  // An unstable loop has no deviation to speak of: its output runs away whatever the load does.
+  if (!stable) return undefined;
   const { system, transfer } = z;
   const negated = { ...system, c: system.c.map((x) => -x), d: -system.d };
   const final = stable ? -transfer.dc : NaN;

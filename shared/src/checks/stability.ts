@@ -2,8 +2,7 @@
 // the margins read. When the open loop has right-half-plane poles of its own, margins read from a Bode
 // plot do not decide stability (Nyquist criterion), and the finding says so.
 import type { Pole } from '../analysis/types';
-import { formatHz } from '../format/si';
-import { formatDcGain } from '../format/quantities';
+import { formatHz, formatSi } from '../format/si';
 import { formatRootHz } from '../format/root';
 import type { DesignModel, Origin } from '../language/model';
 import type { CornerRun } from '../report';
@@ -105,7 +104,8 @@ function positiveFeedback(run: CornerRun): Hit | undefined {
   const at = run.model.feedbackAt;
   const t0 = run.analysis.dcGain;
   if (!at || !(t0 < 0)) return undefined;
-  const size = Number.isFinite(t0) ? `T(0) = ${formatDcGain(t0)}` : 'an integrator in the loop';
+  // The signed value: a magnitude in dB would hide the sign that is the point.
+  const size = Number.isFinite(t0) ? `T(0) = ${formatSi(t0, 'V/V')}` : 'an integrator in the loop';
   return {
     key: 'positive-feedback',
     severity: 'error',
@@ -158,14 +158,18 @@ function openLoopCulprits(model: DesignModel, rhpOpen: readonly Pole[]) {
 function polarityFixes(input: CheckInput, worstRun: CornerRun): FixSuggestion[] {
   const engine = input.engine;
   const nominal = input.source.nominal;
-  if (!engine || !nominal || !worstRun.analysis.stability?.openLoopRhpPoles) return [];
+  const positive = positiveFeedback(worstRun) !== undefined;
+  if (!engine || !nominal || !(worstRun.analysis.stability?.openLoopRhpPoles || positive)) return [];
+  // A flip must leave every corner stable and, for a loop written as a circuit, negative feedback at DC.
+  const fixed = (r: CornerRun) =>
+    r.analysis.stability?.verdict === 'stable' && (!r.model.feedbackAt || r.analysis.dcGain > 0);
   const fixes: FixSuggestion[] = [];
   for (const stage of nominal.stages) {
     const flipped = stage.polarity === 'inverting' ? 'noninverting' : 'inverting';
     const edit = polarityEdit(input.source.text, input.source.range.start.line, stage.origin, flipped);
     if (!edit) continue;
     const runs = rerunEdited(input.source, [edit], engine);
-    if (!runs || !runs.every((r) => r.analysis.stability?.verdict === 'stable')) continue;
+    if (!runs || !runs.every(fixed)) continue;
     fixes.push({
       title: `Make stage ${stage.name} ${flipped} (the closed loop is then stable in every corner)`,
       edits: [edit],
