@@ -157,6 +157,13 @@ const cases: Case[] = [
     '`feedback at NODE` and `feedback beta = …` are exclusive: write one of them.',
   ],
   [
+    'a corner overriding the beta of a loop closed by the circuit',
+    d('  stage t gm = 1 mS rout = 1 Mohm\n  feedback at s\n  corner c feedback.beta = ⟦0.5⟧'),
+    'reference',
+    'error',
+    '`feedback at` closes the loop through the circuit and has no `beta` to override: override the values of the elements that set the loop instead.',
+  ],
+  [
     'a stage sensing one node on both sides',
     d('  stage t from s, ⟦s⟧ gm = 1 mS rout = 1 Mohm'),
     'reference',

@@ -62,6 +62,14 @@ function buildAt(
   at: Token,
   ctx: Parameters<typeof feedbackKind.build>[1],
 ): ReturnType<typeof feedbackKind.build> {
+  // A corner can only reach `beta` through `feedback.beta`: a loop closed by the circuit has none.
+  const override = ctx.writtenExpr(s, 'beta');
+  if (override)
+    ctx.sink.error(
+      'reference',
+      '`feedback at` closes the loop through the circuit and has no `beta` to override: override the values of the elements that set the loop instead.',
+      override.range,
+    );
   const node = ctx.resolveNodeName(at, 'The feedback node');
   if (!node) return NOTHING;
   if (node === 'in') {
