@@ -209,9 +209,10 @@ export function cornerJson(run: CornerRun, moved: readonly Sensitivity[] = []): 
     zeros: a.zeros.map((z) => ({ re: num(z.s.re), im: num(z.s.im), hz: num(z.hz), rhp: z.rhp })),
     dcGain: gain(a.dcGain),
     openLoopUgfHz: num(a.openLoopUgfHz),
-    feedback: run.model.feedbackAt
-      ? { kind: 'node', node: run.model.feedbackAt.node }
-      : { kind: 'beta', beta: num(run.model.beta) },
+    feedback:
+      run.model.feedback.kind === 'node'
+        ? { kind: 'node', node: run.model.feedback.node }
+        : { kind: 'beta', beta: num(run.model.feedback.beta) },
     closedLoop: {
       stability: a.stability?.verdict ?? null,
       openLoopRhpPoles: a.stability?.openLoopRhpPoles ?? null,

@@ -1,4 +1,5 @@
 // `analyze` without --json: readable tables of the exact results, one block per design.
+import { feedbackNode } from '../../shared/src/language/model';
 import { closedLoopVerdict } from '../../shared/src/format/closedLoop';
 import type {
   ClosedCircuit,
@@ -64,7 +65,7 @@ function metricRows(runs: readonly CornerRun[]): string[][] {
   ];
   const opt = <T>(x: T | undefined, show: (v: T) => string) => (x === undefined ? DASH : show(x));
   const tol = runs[0]?.analysis.step?.tolerance;
-  const circuit = runs[0]?.model.feedbackAt;
+  const circuit = runs[0] && feedbackNode(runs[0].model);
   return [
     ...(circuit
       ? [

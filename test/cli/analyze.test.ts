@@ -31,9 +31,10 @@ function expectedCorner(run: CornerRun, moved: readonly Sensitivity[]) {
     zeros: a.zeros.map((z) => ({ re: n(z.s.re), im: n(z.s.im), hz: n(z.hz), rhp: z.rhp })),
     dcGain: { vv: n(a.dcGain), db: db(a.dcGain) },
     openLoopUgfHz: n(a.openLoopUgfHz),
-    feedback: run.model.feedbackAt
-      ? { kind: 'node', node: run.model.feedbackAt.node }
-      : { kind: 'beta', beta: n(run.model.beta) },
+    feedback:
+      run.model.feedback.kind === 'node'
+        ? { kind: 'node', node: run.model.feedback.node }
+        : { kind: 'beta', beta: n(run.model.feedback.beta) },
     closedLoop: {
       stability: a.stability?.verdict ?? null,
       openLoopRhpPoles: a.stability?.openLoopRhpPoles ?? null,

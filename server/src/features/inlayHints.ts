@@ -1,5 +1,6 @@
 // Inline values at the end of lines: poles and zeros after a compensation line, the pole a stage names,
 // and each requirement's measured value with pass/fail.
+import { feedbackNode } from '../../../shared/src/language/model';
 import { InlayHintKind, type InlayHint, type Range } from 'vscode-languageserver';
 import type { TextDocument } from 'vscode-languageserver-textdocument';
 import type { DocumentReport } from '../../../shared/src/report';
@@ -41,7 +42,7 @@ export function inlayHints(report: DocumentReport, document: TextDocument, range
       const named = shownPoles(a.poles).filter((p) => p.namedAfter === s.name);
       if (named.length) add(s.origin.range.end.line, `pole ${named.map(poleText).join(', ')}`);
     }
-    const at = model.feedbackAt;
+    const at = feedbackNode(model);
     if (at && rangesMeet(at.origin.range, range)) add(at.origin.range.end.line, feedbackLoopText(a));
     for (const s of model.supplies ?? []) {
       const text = supplyText(a, s.node);

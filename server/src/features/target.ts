@@ -1,4 +1,5 @@
 // What the cursor is on: a declared name, or the statement (and field) whose text contains it.
+import { feedbackNode } from '../../../shared/src/language/model';
 import type {
   BufferedCap,
   DesignModel,
@@ -86,7 +87,7 @@ export function statementAt(model: DesignModel, p: SourcePosition): Target | und
     if (contains(item.origin.range, p)) return { kind: 'requirement', item, range: item.origin.range };
   for (const item of model.params)
     if (contains(item.origin.range, p)) return { kind: 'param', item, range: item.origin.range };
-  const at = model.feedbackAt;
+  const at = feedbackNode(model);
   if (at && contains(at.origin.range, p)) return { kind: 'feedback', item: at, range: at.origin.range };
   return undefined;
 }

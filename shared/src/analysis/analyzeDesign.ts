@@ -37,7 +37,7 @@ export function analyzeDesign(model: DesignModel, options: AnalyzeOptions = {}):
   try {
     const core = analyzeLoop(model);
     if (!core.ok) return emptyAnalysis(core.problems);
-    if (model.feedbackAt) return assembleCircuit(model, core.result, options);
+    if (model.feedback.kind === 'node') return assembleCircuit(model, core.result, options);
     return assemble(model, core.result, options);
   } catch (err) {
     return emptyAnalysis([

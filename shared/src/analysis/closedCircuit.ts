@@ -2,6 +2,7 @@
 // impedance, the load step and each supply's rejection, all from the whole circuit's nodal equations with
 // one source at a time (docs/analysis.md, The loop of a circuit). The loop gain itself comes from the break
 // (loopCore.ts); these are the closed circuit's.
+import { feedbackNode } from '../language/model';
 import type { DesignModel } from '../language/model';
 import type { Network } from '../circuit/network';
 import { buildNetwork, type NetworkSource } from '../circuit/buildNetwork';
@@ -217,7 +218,7 @@ export function analyzeClosedCircuit(
    */
   options: { readonly step: boolean; readonly participation: boolean },
 ): { ok: true; value: ClosedCircuitResult } | { ok: false; problems: AnalysisProblem[] } {
-  const at = model.feedbackAt;
+  const at = feedbackNode(model);
   if (!at) return { ok: false, problems: [{ message: 'the design has no `feedback at` node' }] };
   const gain = transferFrom(model, { kind: 'input' }, undefined, options.participation);
   if (!gain.ok) return gain;

@@ -24,16 +24,17 @@ export function loopNetwork(
   if (!built.ok) return built;
   return {
     ok: true,
-    loop: model.feedbackAt
-      ? { network: built.network, beta: 1, sign: -1 }
-      : { network: built.network, beta: model.beta },
+    loop:
+      model.feedback.kind === 'node'
+        ? { network: built.network, beta: 1, sign: -1 }
+        : { network: built.network, beta: model.feedback.beta },
   };
 }
 
 /** The network whose input → output transfer is the loop's A(s) (see loopNetwork). */
 export function buildLoopNetwork(model: DesignModel): BuildResult {
-  return model.feedbackAt
-    ? buildNetwork(model, { kind: 'break', node: model.feedbackAt.node })
+  return model.feedback.kind === 'node'
+    ? buildNetwork(model, { kind: 'break', node: model.feedback.node })
     : buildNetwork(model);
 }
 

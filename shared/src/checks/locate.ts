@@ -1,4 +1,5 @@
 // Where a finding goes: the compensation element, the stages around it, a requirement, a field's range.
+import { feedbackNode } from '../language/model';
 import type {
   DesignModel,
   DesignSource,
@@ -57,7 +58,7 @@ export function compensationRange(
   if (comp) return fieldRange(comp.item.origin, 'cc');
   const element = run && dominantPoleElement(run.model, run.analysis);
   if (element) return fieldRange(element.origin, element.field);
-  return run?.model.feedbackAt?.origin.keywordRange ?? source.nameRange;
+  return (run && feedbackNode(run.model)?.origin.keywordRange) ?? source.nameRange;
 }
 
 /** The statement (a load or a stage) at the node that takes the largest part in the lowest pole. */
@@ -103,8 +104,7 @@ export function participationText(participation: readonly { node: string; share:
 export function judgedAsLoop(model: DesignModel): boolean {
   return (
     model.stages.length > 0 ||
-    model.betaOrigin !== undefined ||
-    model.feedbackAt !== undefined ||
+    model.feedback.origin !== undefined ||
     model.requirements.some(
       (r) =>
         r.kind === 'pm' ||

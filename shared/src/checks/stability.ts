@@ -1,6 +1,7 @@
 // Stability from the closed loop itself: any closed-loop pole in the right half-plane is an error, whatever
 // the margins read. When the open loop has right-half-plane poles of its own, margins read from a Bode
 // plot do not decide stability (Nyquist criterion), and the finding says so.
+import { feedbackNode } from '../language/model';
 import type { Pole } from '../analysis/types';
 import { formatHz, formatSi } from '../format/si';
 import { formatRootHz } from '../format/root';
@@ -101,7 +102,7 @@ export const stabilityCheck: Check = (input: CheckInput) =>
  * normalises that sign away, so it is named here whatever the closed-loop poles do.
  */
 function positiveFeedback(run: CornerRun): Hit | undefined {
-  const at = run.model.feedbackAt;
+  const at = feedbackNode(run.model);
   const t0 = run.analysis.dcGain;
   if (!at || !(t0 < 0)) return undefined;
   // The signed value: a magnitude in dB would hide the sign that is the point.
@@ -162,7 +163,8 @@ function polarityFixes(input: CheckInput, worstRun: CornerRun): FixSuggestion[] 
   if (!engine || !nominal || !(worstRun.analysis.stability?.openLoopRhpPoles || positive)) return [];
   // A flip must leave every corner stable and, for a loop written as a circuit, negative feedback at DC.
   const fixed = (r: CornerRun) =>
-    r.analysis.stability?.verdict === 'stable' && (!r.model.feedbackAt || r.analysis.dcGain > 0);
+    r.analysis.stability?.verdict === 'stable' &&
+    (r.model.feedback.kind === 'factor' || r.analysis.dcGain > 0);
   const fixes: FixSuggestion[] = [];
   for (const stage of nominal.stages) {
     const flipped = stage.polarity === 'inverting' ? 'noninverting' : 'inverting';

@@ -237,10 +237,22 @@ export interface Sweep {
   readonly origin: Origin;
 }
 
-export interface FeedbackNode {
-  readonly node: NodeName;
-  readonly origin: Origin;
-}
+/**
+ * How a design's loop is closed. `factor`: `feedback beta = …`, the loop gain β·σ·A (β = 1, a unity-gain
+ * follower, when no `feedback` is written; `origin` is then absent). `node`: `feedback at NODE`, the loop
+ * closed by the design's own elements, NODE the node the amplifier senses (docs/analysis.md, The loop of a
+ * circuit).
+ */
+export type Feedback =
+  | { readonly kind: 'factor'; readonly beta: Ratio; readonly origin?: Origin }
+  | { readonly kind: 'node'; readonly node: NodeName; readonly origin: Origin };
+
+/** A loop closed by the circuit at a node. */
+export type FeedbackNode = Extract<Feedback, { kind: 'node' }>;
+
+/** The node a design's loop is closed at, when it is closed by the circuit. */
+export const feedbackNode = (m: { readonly feedback: Feedback }): FeedbackNode | undefined =>
+  m.feedback.kind === 'node' ? m.feedback : undefined;
 
 export interface SupplyNode {
   readonly node: NodeName;
@@ -260,18 +272,8 @@ export interface DesignModel {
   readonly millers: readonly Miller[];
   readonly buffered: readonly BufferedCap[];
   readonly elements: readonly Element[];
-  /**
-   * Feedback factor for loop-gain margins (1 for a unity-gain follower). Not used when `feedbackAt` is set:
-   * the language makes `feedback beta` and `feedback at` exclusive, and leaves `beta` at 1 then.
-   */
-  readonly beta: Ratio;
-  /** Origin of the `feedback beta` statement, when written. */
-  readonly betaOrigin?: Origin;
-  /**
-   * `feedback at NODE`: the loop is closed by the design's own elements, and NODE is the node the
-   * amplifier senses (docs/analysis.md, The loop of a circuit).
-   */
-  readonly feedbackAt?: FeedbackNode;
+  /** How the loop is closed: by a factor, or by the design's own elements at a node. */
+  readonly feedback: Feedback;
   /** `supply NODE`: nodes held by ideal small-signal voltage sources (AC ground but in supply rejection). */
   readonly supplies?: readonly SupplyNode[];
   readonly requirements: readonly Requirement[];

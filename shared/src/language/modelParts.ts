@@ -1,10 +1,9 @@
 // The lists of a model that statements add to. One table of their names, so that collecting, counting and
 // taking over a statement's contribution never lists them by hand.
-import type { Ratio } from '../units';
 import type {
   BufferedCap,
   Element,
-  FeedbackNode,
+  Feedback,
   Load,
   Miller,
   Objective,
@@ -16,9 +15,7 @@ import type {
 } from './model';
 
 /** What a `feedback` statement gives the model (a factor, or the node the loop closes at); the model takes the first. */
-export type FeedbackPart =
-  | { readonly kind: 'factor'; readonly beta: Ratio; readonly origin: Origin }
-  | { readonly kind: 'node'; readonly at: FeedbackNode };
+export type FeedbackPart = Feedback & { readonly origin: Origin };
 
 export interface ModelParts {
   readonly stages: readonly Stage[];

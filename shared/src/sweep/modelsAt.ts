@@ -82,15 +82,16 @@ function withParam(model: DesignModel, param: string, value: number): DesignMode
     if (Array.isArray(v)) copy[key] = v.map((x: unknown) => (isItem(x) ? set(x) : x));
   }
   copy['params'] = model.params.map((p) => (p.name === param ? { ...p, value } : set(p as unknown as Item)));
-  const betaField = model.betaOrigin?.fields;
-  if (betaField && Object.values(betaField).some((f) => f.param === param)) copy['beta'] = value;
+  const fb = model.feedback;
+  if (fb.kind === 'factor' && Object.values(fb.origin?.fields ?? {}).some((f) => f.param === param))
+    copy['feedback'] = { ...fb, beta: value };
   return copy as unknown as DesignModel;
 }
 
 const isItem = (x: unknown): x is Item => typeof x === 'object' && x !== null && 'origin' in x;
 
 /** Where a value came from is not a value: ranges and origins differ between two texts of one model. */
-const SKIPPED = new Set(['origin', 'betaOrigin', 'range', 'nameRange', 'valueRange']);
+const SKIPPED = new Set(['origin', 'range', 'nameRange', 'valueRange']);
 
 /** Every number (and word) of two models equal, origins aside. */
 function sameValues(a: unknown, b: unknown): boolean {

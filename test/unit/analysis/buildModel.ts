@@ -138,7 +138,7 @@ export function buildModel(spec: ModelSpec): DesignModel {
     millers,
     buffered,
     elements,
-    beta: (spec.beta ?? 1) as Ratio,
+    feedback: { kind: 'factor', beta: (spec.beta ?? 1) as Ratio },
     requirements: spec.requirements ?? [],
     params: [],
   };

@@ -107,7 +107,10 @@ describe('large-signal step', () => {
     expect(large).toBeDefined();
     // Reference: the closed loop's exact state-space step, x(t) = ∫₀ᵗ e^(Aτ)dτ·b, from the exponential of
     // the augmented matrix [[A, b], [0, 0]]·t (Van Loan's block form), scaled by the amplitude.
-    const core = analyzeCore((buildNetwork(model) as { ok: true; network: never }).network, model.beta);
+    const core = analyzeCore(
+      (buildNetwork(model) as { ok: true; network: never }).network,
+      model.feedback.kind === 'factor' ? model.feedback.beta : 1,
+    );
     if (!core.ok) throw new Error('no core');
     const sys = core.result.closed;
     const n = sys.order;

@@ -1,5 +1,6 @@
 // Hand-made designs and analyses for the checks: a two-stage Miller amplifier laid out on known lines, and
 // analysis results built from the numbers each test states.
+import type { Ratio } from '../../../shared/src/units';
 import type { DesignAnalysis, LoopMetrics, Pole, Zero } from '../../../shared/src/analysis/types';
 import type { CheckInput } from '../../../shared/src/checks/context';
 import { DEFAULT_CHECK_SETTINGS, type CheckSettings } from '../../../shared/src/checks/settings';
@@ -99,7 +100,7 @@ export function twoStage(p: TwoStage): DesignModel {
     millers: [miller],
     buffered: [],
     elements: [],
-    beta: 1 as DesignModel['beta'],
+    feedback: { kind: 'factor', beta: 1 as Ratio },
     requirements: p.requirements ?? [],
     params: [],
   };

@@ -94,8 +94,8 @@ describe('the baseline design', () => {
       { kind: 'settle', tolerance: 0.001, within: 200e-9 },
       { kind: 'dc-gain', op: '>=', value: 80 },
     ]);
-    expect(m.beta).toBe(1);
-    expect(m.betaOrigin?.fields.beta?.text).toBe('1');
+    expect(m.feedback).toMatchObject({ kind: 'factor', beta: 1 });
+    expect(m.feedback.origin?.fields.beta?.text).toBe('1');
   });
 
   it('lists the nodes with their kinds', () => {
@@ -187,8 +187,7 @@ describe('statements', () => {
       ['b', { kind: 'node', name: 'a' }, 0, 'noninverting', undefined],
     ]);
     expect(m.output).toBe('b');
-    expect(m.beta).toBe(1);
-    expect(m.betaOrigin).toBeUndefined();
+    expect(m.feedback).toEqual({ kind: 'factor', beta: 1 });
   });
 
   it('takes fields and flags in any order, and `from` anywhere', () => {
@@ -334,7 +333,7 @@ describe('corners', () => {
 
   it('overrides fields of unique statements, adding fields not written in the nominal', () => {
     expect(corners.rz!.millers[0]!.rz).toBe(3e3);
-    expect(corners.rz!.beta).toBe(1);
+    expect(corners.rz!.feedback).toMatchObject({ kind: 'factor', beta: 1 });
     expect(corners.rz!.stages[1]!.cap).toBe(10e-15);
     expect(doc.designs[0]!.nominal!.millers[0]!.rz).toBeUndefined();
   });
@@ -415,7 +414,7 @@ describe('a corner that breaks a value', () => {
     ]);
     const [neg, ok] = doc.designs[0]!.corners;
     expect(neg!.model).toBeUndefined();
-    expect(ok!.model!.beta).toBe(0.25);
+    expect(ok!.model!.feedback).toMatchObject({ kind: 'factor', beta: 0.25 });
   });
 });
 

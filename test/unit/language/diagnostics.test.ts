@@ -716,7 +716,7 @@ describe('related information', () => {
     const m = parseDocument(text).designs[0]!.nominal!;
     expect(m.stages.find((x) => x.name === 't')!.gm).toBe(1e-3);
     expect(m.output).toBe('s');
-    expect(m.beta).toBe(1);
+    expect(m.feedback).toMatchObject({ kind: 'factor', beta: 1 });
   });
 });
 

@@ -233,7 +233,6 @@ function shape(value: unknown): unknown {
         'keywordRange',
         'insertAt',
         'origin',
-        'betaOrigin',
         'nameRange',
         'declaration',
         'references',

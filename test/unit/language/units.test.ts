@@ -123,7 +123,7 @@ describe('units and their dimensions', () => {
       0.002, 1e6, 1e-12, 1e-5,
     ]);
     expect(d.millers[0]!.rz).toBe(100);
-    expect(d.beta).toBe(0.5);
+    expect(d.feedback).toMatchObject({ kind: 'factor', beta: 0.5 });
     expect(d.requirements.map((r) => ('value' in r ? r.value : 'factor' in r ? r.factor : r.within))).toEqual(
       [1e6, 60, 80, 1e6, 1e-6, 10],
     );

@@ -88,7 +88,7 @@ function buildAt(
     );
     return NOTHING;
   }
-  return { feedback: [{ kind: 'node', at: { node, origin: ctx.origin(s, {}) } }] };
+  return { feedback: [{ kind: 'node', node, origin: ctx.origin(s, {}) }] };
 }
 
 /** Whether a transconductor input senses `node`: a stage (its `from`, or the stage before it), an `element gm` or a `feedforward`. */
