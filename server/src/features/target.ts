@@ -1,16 +1,16 @@
 // What the cursor is on: a declared name, or the statement (and field) whose text contains it.
-import { feedbackNode } from '../../../shared/src/language/model';
-import type {
-  BufferedCap,
-  DesignModel,
-  Element,
-  FeedbackNode,
-  Load,
-  Miller,
-  Param,
-  Requirement,
-  Stage,
-  SymbolInfo,
+import {
+  feedbackNode,
+  type BufferedCap,
+  type DesignModel,
+  type Element,
+  type FeedbackNode,
+  type Load,
+  type Miller,
+  type Param,
+  type Requirement,
+  type Stage,
+  type SymbolInfo,
 } from '../../../shared/src/language/model';
 import type { SourcePosition, SourceRange } from '../../../shared/src/language/source';
 import type { DesignReport } from '../../../shared/src/report';

@@ -2,8 +2,7 @@
 // impedance, the load step and each supply's rejection, all from the whole circuit's nodal equations with
 // one source at a time (docs/analysis.md, The loop of a circuit). The loop gain itself comes from the break
 // (loopCore.ts); these are the closed circuit's.
-import { feedbackNode } from '../language/model';
-import type { DesignModel } from '../language/model';
+import { feedbackNode, type DesignModel } from '../language/model';
 import type { Network } from '../circuit/network';
 import { buildNetwork, type NetworkSource } from '../circuit/buildNetwork';
 import { realize, nodalDcGain, type StateSpace } from './realization';

@@ -1,15 +1,15 @@
 // Where a finding goes: the compensation element, the stages around it, a requirement, a field's range.
-import { feedbackNode } from '../language/model';
-import type {
-  DesignModel,
-  DesignSource,
-  Element,
-  FieldOrigin,
-  NodeName,
-  Origin,
-  Requirement,
-  RequirementKind,
-  Stage,
+import {
+  feedbackNode,
+  type DesignModel,
+  type DesignSource,
+  type Element,
+  type FieldOrigin,
+  type NodeName,
+  type Origin,
+  type Requirement,
+  type RequirementKind,
+  type Stage,
 } from '../language/model';
 import type { SourceRange } from '../language/source';
 import type { DesignAnalysis } from '../analysis/types';

@@ -1,11 +1,10 @@
 // Stability from the closed loop itself: any closed-loop pole in the right half-plane is an error, whatever
 // the margins read. When the open loop has right-half-plane poles of its own, margins read from a Bode
 // plot do not decide stability (Nyquist criterion), and the finding says so.
-import { feedbackNode } from '../language/model';
 import type { Pole } from '../analysis/types';
 import { formatHz, formatSi } from '../format/si';
 import { formatRootHz } from '../format/root';
-import type { DesignModel, Origin } from '../language/model';
+import { feedbackNode, type DesignModel, type Origin } from '../language/model';
 import type { CornerRun } from '../report';
 import { splitLines } from '../text/lines';
 import { acrossRuns, type Hit } from './acrossRuns';
