@@ -97,53 +97,59 @@ export function goldenMax(f: (x: number) => number, a: number, b: number, tol = 
 }
 
 /**
- * A maximum of f on [a, b] by Brent's method (Brent, Algorithms for Minimization without Derivatives,
- * 1973, ch. 5): golden-section steps, replaced by parabolic interpolation through the three best points
- * wherever that stays inside the bracket and shrinks fast enough. On a smooth maximum it converges
- * superlinearly, so it needs a fraction of golden section's evaluations where each one is costly (an exact
- * propagation in time). Stops when x is known to about tol·|x| (plus tol/1000 of the bracket, for x near 0).
+ * The least value of f on [a, b] without derivatives, by Brent's method (Brent, Algorithms for Minimization
+ * without Derivatives, 1973, ch. 5): golden-section steps, replaced by parabolic interpolation through the
+ * three best points wherever that stays inside the bracket and shrinks fast enough. Near a smooth minimum
+ * the parabola lands close to it at once, so it needs a fraction of golden section's evaluations where each
+ * one is costly (an analysis, an exact propagation in time). x is located to within about
+ * absTol + relTol·|x|; f is called at most `maxCalls` times.
  */
-export function brentMax(f: (x: number) => number, a: number, b: number, tol = 1e-9, maxIter = 100) {
-  const g = (u: number) => -f(u);
-  const C = (3 - Math.sqrt(5)) / 2;
-  const floor = 1e-3 * tol * Math.abs(b - a);
-  let x = a + C * (b - a);
+export function brentMin(
+  f: (x: number) => number,
+  a: number,
+  b: number,
+  absTol: number,
+  relTol = 1e-12,
+  maxCalls = 40,
+): { x: number; value: number } {
+  const GOLDEN = (3 - Math.sqrt(5)) / 2;
+  let x = a + GOLDEN * (b - a);
   let w = x;
   let v = x;
-  let fx = g(x);
+  let fx = f(x);
   let fw = fx;
   let fv = fx;
   let d = 0;
   let e = 0;
-  for (let i = 0; i < maxIter; i++) {
-    const m = 0.5 * (a + b);
-    const tol1 = tol * Math.abs(x) + floor + 1e-300;
+  for (let calls = 1; calls < maxCalls; calls++) {
+    const m = (a + b) / 2;
+    const tol1 = absTol / 2 + relTol * Math.abs(x) + 1e-300;
     const tol2 = 2 * tol1;
-    if (Math.abs(x - m) <= tol2 - 0.5 * (b - a)) break;
-    let golden = true;
+    if (Math.abs(x - m) <= tol2 - (b - a) / 2) break;
+    let parabolic = false;
     if (Math.abs(e) > tol1) {
-      // The parabola through (x, fx), (w, fw), (v, fv): its vertex is x + p/q.
+      // The parabola through (v, fv), (w, fw), (x, fx): its vertex is x + p/q.
       const r = (x - w) * (fx - fv);
       let q = (x - v) * (fx - fw);
       let p = (x - v) * q - (x - w) * r;
       q = 2 * (q - r);
       if (q > 0) p = -p;
       else q = -q;
-      const previous = e;
-      e = d;
-      if (Math.abs(p) < Math.abs(0.5 * q * previous) && p > q * (a - x) && p < q * (b - x)) {
+      // Accept the step only if it falls inside the interval and shrinks faster than the one before last.
+      if (Math.abs(p) < Math.abs(0.5 * q * e) && p > q * (a - x) && p < q * (b - x)) {
+        e = d;
         d = p / q;
         const u = x + d;
         if (u - a < tol2 || b - u < tol2) d = x < m ? tol1 : -tol1;
-        golden = false;
+        parabolic = true;
       }
     }
-    if (golden) {
-      e = (x < m ? b : a) - x;
-      d = C * e;
+    if (!parabolic) {
+      e = x < m ? b - x : a - x;
+      d = GOLDEN * e;
     }
     const u = Math.abs(d) >= tol1 ? x + d : x + (d > 0 ? tol1 : -tol1);
-    const fu = g(u);
+    const fu = f(u);
     if (fu <= fx) {
       if (u < x) b = x;
       else a = x;
@@ -167,5 +173,14 @@ export function brentMax(f: (x: number) => number, a: number, b: number, tol = 1
       }
     }
   }
-  return { x, value: -fx };
+  return { x, value: fx };
+}
+
+/**
+ * The greatest value of f on [a, b] by brentMin: x to about tol·|x|, plus tol/1000 of the bracket for x
+ * near 0 (the relative tolerance of goldenMax, with far fewer calls).
+ */
+export function brentMax(f: (x: number) => number, a: number, b: number, tol = 1e-9, maxCalls = 100) {
+  const r = brentMin((x) => -f(x), a, b, 2e-3 * tol * Math.abs(b - a), tol, maxCalls);
+  return { x: r.x, value: -r.value };
 }

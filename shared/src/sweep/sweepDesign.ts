@@ -7,7 +7,7 @@ import { analyzeDesign } from '../analysis/analyzeDesign';
 import type { CancelToken, Complex, DesignAnalysis } from '../analysis/types';
 import type { DesignModel, DesignSource, Sweep, SweepScale } from '../language/model';
 import type { SourceRange } from '../language/source';
-import { minimizeOnInterval } from './minimize';
+import { brentMin } from '../numeric/roots';
 import { modelSource } from './modelsAt';
 
 /** What a sweep varies and how: a `sweep` statement, or one asked for from outside (the terminal). */
@@ -296,7 +296,7 @@ function lowest(
     const b = toScale(spec, samples[Math.min(m.length - 1, i + 1)]!.value);
     if (!(b > a)) continue;
     const f = (u: number) => marginOf(fromScale(spec, u)) ?? Infinity;
-    const { x: u } = minimizeOnInterval(f, a, b, width * LOCATE_TOLERANCE);
+    const { x: u } = brentMin(f, a, b, width * LOCATE_TOLERANCE);
     const x = fromScale(spec, u);
     consider(marginOf(x), x);
   }

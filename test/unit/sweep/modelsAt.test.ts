@@ -3,7 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseDocument } from '../../../shared/src/language';
 import { modelSource, modelsFromText } from '../../../shared/src/sweep/modelsAt';
-import { minimizeOnInterval } from '../../../shared/src/sweep/minimize';
+import { brentMin } from '../../../shared/src/numeric/roots';
 import { specOf, sweepValues } from '../../../shared/src/sweep/sweepDesign';
 
 const design = (load: string, extra = '') => `design buf
@@ -54,20 +54,20 @@ describe('modelSource', () => {
   });
 });
 
-describe('minimizeOnInterval', () => {
+describe('brentMin (the minimum between two sweep samples)', () => {
   it('finds the vertex of a parabola and of a narrow dip to the tolerance asked for', () => {
     // (x − 0.3)² + 1 has its least value 1 at x = 0.3 (calculus).
-    const p = minimizeOnInterval((x) => (x - 0.3) ** 2 + 1, 0, 1, 1e-6);
+    const p = brentMin((x) => (x - 0.3) ** 2 + 1, 0, 1, 1e-6);
     expect(p.x).toBeCloseTo(0.3, 5);
     expect(p.value).toBeCloseTo(1, 10);
     // A Lorentzian dip of half-width 0.01 at 0.61: least −1 there (its definition).
-    const dip = minimizeOnInterval((x) => -1 / (1 + ((x - 0.61) / 0.01) ** 2), 0.5, 0.7, 1e-6);
+    const dip = brentMin((x) => -1 / (1 + ((x - 0.61) / 0.01) ** 2), 0.5, 0.7, 1e-6);
     expect(dip.x).toBeCloseTo(0.61, 5);
   });
 
   it('calls the function far fewer times than golden section for the same width', () => {
     let calls = 0;
-    minimizeOnInterval(
+    brentMin(
       (x) => {
         calls++;
         return Math.cosh(x - 0.2);
