@@ -3,27 +3,7 @@
 // solve.bench.ts) over 10⁵ analyses. Medians of repeated batches; prints numbers only.
 import { analyzeDesign, sweepCompensation } from '../shared/src/analysis';
 import { buildModel, twoStage } from '../test/unit/analysis/buildModel';
-
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
-
-/**
- * Median wall time per call (µs) over `batches` batches of `perBatch` calls, after a warm-up batch, and
- * the median CPU time per call of the same batches (the machine is shared, so both are shown).
- */
-function perCall(f: () => unknown, perBatch: number, batches = 15): string {
-  for (let i = 0; i < perBatch; i++) f();
-  const wall: number[] = [];
-  const cpu: number[] = [];
-  for (let b = 0; b < batches; b++) {
-    const c = process.cpuUsage();
-    const t = performance.now();
-    for (let i = 0; i < perBatch; i++) f();
-    wall.push(((performance.now() - t) * 1000) / perBatch);
-    const u = process.cpuUsage(c);
-    cpu.push((u.user + u.system) / perBatch);
-  }
-  return `${us(median(wall))} wall, ${us(median(cpu))} CPU`;
-}
+import { loadAverage, median, perCall, us } from './lib/timing';
 
 /** A fixed pure-arithmetic workload, to scale the figures to another machine or load. */
 function reference(): string {
@@ -38,8 +18,6 @@ function reference(): string {
       }
   }, 20000);
 }
-
-const us = (x: number) => (x >= 1000 ? `${(x / 1000).toFixed(2)} ms` : `${x.toFixed(1)} µs`);
 
 const two = twoStage({ gm1: 100e-6, r1: 2e6, c1: 150e-15, gm2: 1e-3, r2: 200e3, c2: 1.2e-12, cc: 1e-12 });
 
@@ -109,14 +87,7 @@ function main() {
   console.log(
     `heap over 10⁵ analyses (after gc${gc ? '' : ' — unavailable, run with --expose-gc'}): start ${mb(before)}, every 2·10⁴: ${marks.map(mb).join(', ')}`,
   );
-  const load = (() => {
-    try {
-      return require('node:fs').readFileSync('/proc/loadavg', 'utf8').split(' ').slice(0, 3).join(' ');
-    } catch {
-      return 'unavailable';
-    }
-  })();
-  console.log(`(machine load average while measuring: ${load}; 2 cores shared)`);
+  console.log(`(machine load average while measuring: ${loadAverage()}; 2 cores shared)`);
 }
 
 main();

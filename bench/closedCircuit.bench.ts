@@ -1,29 +1,10 @@
 // Figures for a loop written as a circuit (`feedback at`): one analysis of an invented ten-node regulator
 // (the loop gain from the break, the closed circuit's poles, gain, output impedance, load step and supply
 // rejection). Medians of repeated batches; prints numbers only, never judges them.
-import { readFileSync } from 'node:fs';
 import { analyzeDesign, buildNetwork } from '../shared/src/analysis';
 import { analyzeLoop } from '../shared/src/analysis/loopCore';
 import { parseDocument } from '../shared/src/language';
-
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
-const us = (x: number) => (x >= 1000 ? `${(x / 1000).toFixed(2)} ms` : `${x.toFixed(1)} µs`);
-
-/** Median wall and CPU time per call over `batches` batches of `perBatch` calls, after a warm-up batch. */
-function perCall(f: () => unknown, perBatch: number, batches = 15): string {
-  for (let i = 0; i < perBatch; i++) f();
-  const wall: number[] = [];
-  const cpu: number[] = [];
-  for (let b = 0; b < batches; b++) {
-    const c = process.cpuUsage();
-    const t = performance.now();
-    for (let i = 0; i < perBatch; i++) f();
-    wall.push(((performance.now() - t) * 1000) / perBatch);
-    const u = process.cpuUsage(c);
-    cpu.push((u.user + u.system) / perBatch);
-  }
-  return `${us(median(wall))} wall, ${us(median(cpu))} CPU`;
-}
+import { loadAverage, perCall } from './lib/timing';
 
 // An invented regulator: a reference filter, a two-stage error amplifier with a nulling-resistor Miller
 // capacitor, an inverting gate driver, a pass transconductor from the supply, a divider with a series-RC
@@ -82,14 +63,7 @@ function main() {
   console.log(
     `  full (with the in → out step, settling and the load step) ${perCall(() => analyzeDesign(model), 200)}`,
   );
-  const load = (() => {
-    try {
-      return readFileSync('/proc/loadavg', 'utf8').split(' ').slice(0, 3).join(' ');
-    } catch {
-      return 'unavailable';
-    }
-  })();
-  console.log(`(machine load average while measuring: ${load}; 2 cores shared)`);
+  console.log(`(machine load average while measuring: ${loadAverage()}; 2 cores shared)`);
 }
 
 main();

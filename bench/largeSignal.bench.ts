@@ -7,8 +7,7 @@ import { loadavg } from 'node:os';
 import { analyzeDesign } from '../shared/src/analysis';
 import { parseDocument } from '../shared/src/language';
 import type { DesignModel } from '../shared/src/language/model';
-
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+import { median } from './lib/timing';
 
 /** Median wall-clock and CPU (user + system) milliseconds of one call, after a warm-up. */
 function ms(f: () => void, runs = 15): { wall: number; cpu: number } {

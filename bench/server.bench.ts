@@ -7,9 +7,9 @@ import { resolve } from 'node:path';
 import { analyzeDocument, createAnalysisCache } from '../shared/src/service';
 import { LspClient, waitFor } from '../test/protocol/lspClient';
 import { hasSweeps, sweepDocumentSteps } from '../shared/src/sweep/sweepDocument';
+import { median } from './lib/timing';
 
 const ROOT = process.cwd();
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
 const ms = (x: number) => `${x.toFixed(2)} ms`;
 
 /** An invented family of two-stage designs, each slightly different, some with corners. */

@@ -6,8 +6,7 @@ import { DEFAULT_CHECK_SETTINGS } from '../shared/src/checks/settings';
 import { parseDocument } from '../shared/src/language';
 import { analyzeDocument } from '../shared/src/service';
 import { solveDesign } from '../shared/src/solve/solveDesign';
-
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+import { median } from './lib/timing';
 
 function time(label: string, f: () => { evaluations?: number } | void, runs = 7): void {
   f();

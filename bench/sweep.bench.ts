@@ -7,8 +7,7 @@ import { analyzeDesignSource } from '../shared/src/service';
 import { DEFAULT_CHECK_SETTINGS } from '../shared/src/checks/settings';
 import { parseDocument } from '../shared/src/language';
 import { specOf, sweepDesign } from '../shared/src/sweep/sweepDesign';
-
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+import { median } from './lib/timing';
 
 const text = `design buf
   param cl = 10 pF
