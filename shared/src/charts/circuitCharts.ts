@@ -24,12 +24,14 @@ function hzAxis(kit: ChartKit, colors: ChartColors, hz: readonly number[]) {
   };
 }
 
-function frequencyChart(
+/** A chart of lines against one x axis, with the x value as the tooltip's title (index mode). */
+function lineChart(
   kit: ChartKit,
   colors: ChartColors,
-  hz: readonly number[],
   datasets: RoleDataset[],
+  x: Record<string, unknown>,
   y: Record<string, unknown>,
+  title: (x: number) => string,
   value: (item: TooltipItem<'scatter'>) => string,
 ): Config {
   const base = kit.commonOptions(colors);
@@ -40,14 +42,14 @@ function frequencyChart(
     options: {
       ...base,
       interaction: { mode: 'index', intersect: false, axis: 'x' },
-      scales: { x: hzAxis(kit, colors, hz), y },
+      scales: { x, y },
       plugins: {
         ...base.plugins,
         tooltip: {
           ...base.plugins.tooltip,
           callbacks: {
             title: (items: TooltipItem<'scatter'>[]) =>
-              items[0] ? formatHz((items[0].raw as PlotPoint).x) : '',
+              items[0] ? title((items[0].raw as PlotPoint).x) : '',
             label: value,
           },
         },
@@ -55,6 +57,16 @@ function frequencyChart(
     },
   } as Config;
 }
+
+/** A line chart against frequency. */
+const frequencyChart = (
+  kit: ChartKit,
+  colors: ChartColors,
+  hz: readonly number[],
+  datasets: RoleDataset[],
+  y: Record<string, unknown>,
+  value: (item: TooltipItem<'scatter'>) => string,
+): Config => lineChart(kit, colors, datasets, hzAxis(kit, colors, hz), y, (f) => formatHz(f), value);
 
 export function zoutConfig(kit: ChartKit, data: PanelData, colors: ChartColors): Config {
   const c = data.closedCircuit;
@@ -115,46 +127,29 @@ export function loadStepConfig(kit: ChartKit, data: PanelData, colors: ChartColo
       colors.series[0]!,
     ),
   ];
-  const base = kit.commonOptions(colors);
-  return {
-    type: 'scatter',
-    data: { datasets },
-    plugins: [kit.backgroundPlugin],
-    options: {
-      ...base,
-      interaction: { mode: 'index', intersect: false, axis: 'x' },
-      scales: {
-        x: {
-          type: 'linear',
-          ...kit.axis(colors, 'time (s)'),
-          min: l.t[0],
-          max: l.t[l.t.length - 1],
-          ticks: {
-            ...kit.axis(colors, '').ticks,
-            maxTicksLimit: 7,
-            callback: (v: string | number) => formatSi(Number(v), 's', 2),
-          },
-        },
-        y: {
-          type: 'linear',
-          ...kit.axis(colors, 'deviation (V/A)'),
-          ticks: {
-            ...kit.axis(colors, '').ticks,
-            callback: (v: string | number) => formatSi(Number(v), 'V/A', 2),
-          },
-        },
-      },
-      plugins: {
-        ...base.plugins,
-        tooltip: {
-          ...base.plugins.tooltip,
-          callbacks: {
-            title: (items: TooltipItem<'scatter'>[]) =>
-              items[0] ? formatSi((items[0].raw as PlotPoint).x, 's') : '',
-            label: (item: TooltipItem<'scatter'>) => `${formatSi((item.raw as PlotPoint).y, 'V/A')} per A`,
-          },
-        },
-      },
+  const x = {
+    type: 'linear',
+    ...kit.axis(colors, 'time (s)'),
+    min: l.t[0],
+    max: l.t[l.t.length - 1],
+    ticks: {
+      ...kit.axis(colors, '').ticks,
+      maxTicksLimit: 7,
+      callback: (v: string | number) => formatSi(Number(v), 's', 2),
     },
-  } as Config;
+  };
+  const y = {
+    type: 'linear',
+    ...kit.axis(colors, 'deviation (V/A)'),
+    ticks: { ...kit.axis(colors, '').ticks, callback: (v: string | number) => formatSi(Number(v), 'V/A', 2) },
+  };
+  return lineChart(
+    kit,
+    colors,
+    datasets,
+    x,
+    y,
+    (t) => formatSi(t, 's'),
+    (item) => `${formatSi((item.raw as PlotPoint).y, 'V/A')} per A`,
+  );
 }

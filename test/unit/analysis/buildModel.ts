@@ -200,3 +200,26 @@ export function chain(sections: { gm: number; r: number; c: number; inverting?: 
     beta,
   });
 }
+
+/** Each computed root matched to the nearest unused reference root; the worst distance relative to its size. */
+export function worstMatch(
+  ours: readonly { re: number; im: number }[],
+  ref: readonly { re: number; im: number }[],
+): number {
+  const left = [...ref];
+  let worst = 0;
+  for (const p of ours) {
+    let bi = 0;
+    let bd = Infinity;
+    left.forEach((q, i) => {
+      const d = Math.hypot(p.re - q.re, p.im - q.im);
+      if (d < bd) {
+        bd = d;
+        bi = i;
+      }
+    });
+    const q = left.splice(bi, 1)[0]!;
+    worst = Math.max(worst, bd / Math.hypot(q.re, q.im));
+  }
+  return worst;
+}

@@ -11,6 +11,7 @@ import type { DesignAnalysis, Transfer } from '../../../shared/src/analysis/type
 import { parseDocument } from '../../../shared/src/language';
 import type { DesignModel } from '../../../shared/src/language/model';
 import { analyzeDocument } from '../../../shared/src/service';
+import { worstMatch } from './buildModel';
 
 // ---------------------------------------------------------------------------------------------------
 // Complex arithmetic for the hand closed forms.
@@ -597,26 +598,6 @@ function solveAt(m: ReturnType<typeof nodal>, s: C): C[] {
 function eigen(m: ReturnType<typeof nodal>): C[] {
   const e = new EigenvalueDecomposition(inverse(m.C).mmul(m.G).mul(-1));
   return e.realEigenvalues.map((re, i) => cx(re, e.imaginaryEigenvalues[i]!));
-}
-
-/** Each computed root matched to the nearest unused reference root; the worst distance relative to its size. */
-function worstMatch(ours: readonly C[], ref: readonly C[]): number {
-  const left = [...ref];
-  let worst = 0;
-  for (const p of ours) {
-    let bi = 0;
-    let bd = Infinity;
-    left.forEach((q, i) => {
-      const d = Math.hypot(p.re - q.re, p.im - q.im);
-      if (d < bd) {
-        bd = d;
-        bi = i;
-      }
-    });
-    const q = left.splice(bi, 1)[0]!;
-    worst = Math.max(worst, bd / Math.hypot(q.re, q.im));
-  }
-  return worst;
 }
 
 /** |det(M)| over the product of its rows' norms: near 0 when G is nearly singular (Hadamard's bound). */

@@ -12,32 +12,13 @@ import {
 import type { Network } from '../../../shared/src/analysis';
 import { poleResidual } from '../../../shared/src/analysis/rootCheck';
 import { modelOf, randomNetworkSpec } from './randomNetworks';
+import { worstMatch } from './buildModel';
 
 // No tolerance-based rounding to zero: the references must see values far below the matrix norm.
 const math = create(all, { relTol: 1e-300, absTol: 0 });
 
 const asMatrix = (a: Float64Array, n: number) =>
   new Matrix(Array.from({ length: n }, (_, i) => Array.from(a.subarray(i * n, i * n + n))));
-
-/** Match each computed root to the nearest reference root; the worst distance relative to its size. */
-function worstMatch(ours: { re: number; im: number }[], ref: { re: number; im: number }[]): number {
-  const left = [...ref];
-  let worst = 0;
-  for (const p of ours) {
-    let bi = 0;
-    let bd = Infinity;
-    left.forEach((q, i) => {
-      const d = Math.hypot(p.re - q.re, p.im - q.im);
-      if (d < bd) {
-        bd = d;
-        bi = i;
-      }
-    });
-    const q = left.splice(bi, 1)[0];
-    worst = Math.max(worst, bd / Math.hypot(q.re, q.im));
-  }
-  return worst;
-}
 
 function network(model: ReturnType<typeof modelOf>): Network {
   const b = buildNetwork(model);
